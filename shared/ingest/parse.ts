@@ -1,0 +1,138 @@
+import { assertText } from './decode.ts'
+import { IngestError } from './errors.ts'
+import { MAX_FILE_BYTES, MAX_PROBLEMS, MAX_ROWS, DEFAULT_INSTRUMENT } from './limits.ts'
+import { validateMapping } from './mapping.ts'
+import { commentPrefix, isBlank, isMissing, parseNumber, splitCells, splitLines } from './text.ts'
+import { TIME_OFFSETS } from './time.ts'
+import type { DateSplit, ParseOptions, ParseResult, ParsedRow, RowProblem, TableMapping } from './types.ts'
+
+function show(cell: string): string {
+  return cell.length > 40 ? `'${cell.slice(0, 37)}…'` : `'${cell}'`
+}
+
+/** Instrument name of a row after the date splits (earliest boundary the row precedes wins). */
+function splitter(splits: DateSplit[] | undefined): ((name: string, time: number) => string) | null {
+  if (!splits || splits.length === 0) return null
+  const sorted = splits.map(s => ({ ...s, instrument: s.instrument.trim(), source: s.source?.trim() })).sort((a, b) => a.before - b.before)
+  return (name, time) => {
+    for (const s of sorted) if ((s.source === undefined || s.source === name) && time < s.before) return s.instrument
+    return name
+  }
+}
+
+/**
+ * Read every data row of a table with a mapping (from detectTable, possibly corrected).
+ * Times become full Julian days, velocities and errors m/s. Rows with a problem (a missing or
+ * non-numeric cell, an error ≤ 0, too few or too many fields, a duplicate of an earlier row with
+ * the same time, velocity and instrument) are left out of `rows` and listed in `problems`
+ * with their line number and column. Throws IngestError for a bad mapping (see validateMapping),
+ * binary text, or more than MAX_ROWS data rows.
+ */
+export function parseTable(text: string, mapping: TableMapping, opts: ParseOptions = {}): ParseResult {
+  if (typeof text !== 'string') throw new TypeError('text must be a string')
+  const maxRows = opts.maxRows ?? Infinity
+  const maxProblems = opts.maxProblems ?? MAX_PROBLEMS
+  if (!(maxRows > 0)) throw new RangeError('maxRows must be positive')
+  if (!(maxProblems >= 0)) throw new RangeError('maxProblems must be ≥ 0')
+  const m = validateMapping(mapping)
+  if (text.length > MAX_FILE_BYTES) {
+    throw new IngestError('too_large', `The table is over the ${(MAX_FILE_BYTES / 1048576).toFixed(0)} MB limit. Split it into smaller files.`)
+  }
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1)
+  assertText(text)
+
+  const { delimiter } = mapping
+  const decimalComma = mapping.decimalComma === true
+  const width = mapping.columns.length
+  const offset = TIME_OFFSETS[mapping.timeFormat]
+  const scale = m.scale
+  const pow10 = scale === 1000 ? 3 : 0
+  const defaultError = mapping.defaultError
+  const baseInstrument = (mapping.instrument ?? DEFAULT_INSTRUMENT).trim()
+  const split = splitter(mapping.splitDates)
+  let toSkip = (mapping.hasHeader ? 1 : 0) + (mapping.skipRows ?? 0)
+
+  const rows: ParsedRow[] = []
+  const problems: RowProblem[] = []
+  let problemCount = 0
+  const counts = new Map<string, number>()
+  const seen = new Map<string, number>()
+  const add = (p: RowProblem): void => { problemCount++; if (problems.length < maxProblems) problems.push(p) }
+  let rowsRead = 0
+  let truncated = false
+  const lines = splitLines(text)
+
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i]!
+    if (isBlank(line) || commentPrefix(line) !== null) continue
+    if (toSkip > 0) { toSkip--; continue }
+    if (rowsRead >= maxRows) { truncated = true; break }
+    rowsRead++
+    if (rowsRead > MAX_ROWS) {
+      throw new IngestError('too_many_rows', `The table has more than ${MAX_ROWS} rows. Split it into smaller files.`)
+    }
+    const lineNo = i + 1
+    const cells = splitCells(line, delimiter)
+    if (cells.length < m.needed) {
+      add({ line: lineNo, message: `too few fields: found ${cells.length}, expected ${width}` })
+      continue
+    }
+    if (cells.length > width) {
+      add({ line: lineNo, message: `too many fields: found ${cells.length}, expected ${width} (a stray delimiter, or a name with a space?)` })
+      continue
+    }
+    let ok = true
+    const numberAt = (col: { index: number; name: string }, what: string, pow10 = 0): number => {
+      const c = cells[col.index] ?? ''
+      if (c === '') { ok = false; add({ line: lineNo, column: col.name, message: `missing ${what}` }); return NaN }
+      const v = parseNumber(c, decimalComma, pow10)
+      if (Number.isNaN(v)) { ok = false; add({ line: lineNo, column: col.name, message: `${what} ${show(c)} is not a number` }) }
+      return v
+    }
+    const t = numberAt(m.time, 'time')
+    const rv = numberAt(m.rv, 'velocity', pow10)
+    let err: number
+    if (m.error) {
+      err = numberAt(m.error, 'error', pow10)
+      if (!Number.isNaN(err) && !(err > 0)) { ok = false; add({ line: lineNo, column: m.error.name, message: `error must be positive (found ${cells[m.error.index]})` }) }
+    } else err = defaultError! * scale
+    let instrument = baseInstrument
+    if (m.instrument) {
+      instrument = cells[m.instrument.index] ?? ''
+      if (instrument === '') { ok = false; add({ line: lineNo, column: m.instrument.name, message: 'missing instrument name' }) }
+    }
+    const indicators: Record<string, number> = {}
+    for (const ind of m.indicators) {
+      const c = cells[ind.column.index]
+      if (c === undefined || isMissing(c)) continue
+      const v = parseNumber(c, decimalComma, ind.pow10)
+      if (Number.isNaN(v)) { ok = false; add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` }) }
+      else indicators[ind.key] = v
+    }
+    if (!ok) continue
+    const time = t + offset
+    if (split) instrument = split(instrument, time)
+    const velocity = rv
+    const key = `${instrument}\u0001${time}\u0001${velocity}`
+    const first = seen.get(key)
+    if (first !== undefined) {
+      add({ line: lineNo, message: `duplicate of line ${first} (same time, velocity and instrument)` })
+      continue
+    }
+    seen.set(key, lineNo)
+    rows.push({ line: lineNo, time, rv: velocity, error: err, instrument, indicators })
+    counts.set(instrument, (counts.get(instrument) ?? 0) + 1)
+  }
+  const instruments = [...counts].map(([name, count]) => ({ name, count }))
+  return { rows, problems, problemCount, instruments, rowsRead, truncated }
+}
+
+/**
+ * One line per problem ("line 12, column 'rv': velocity 'abc' is not a number"), at most `max`
+ * of them, then "… and N more". For CLI output and error replies.
+ */
+export function formatProblems(problems: RowProblem[], max = 10, total = problems.length): string {
+  const shown = problems.slice(0, max).map(p => `line ${p.line}${p.column ? `, column '${p.column}'` : ''}: ${p.message}`)
+  if (total > shown.length) shown.push(`… and ${total - shown.length} more`)
+  return shown.join('\n')
+}

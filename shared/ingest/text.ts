@@ -1,0 +1,105 @@
+import Papa from 'papaparse'
+import { COMMENT_PREFIXES } from './limits.ts'
+import type { Delimiter } from './types.ts'
+
+/** Split text into lines on \n, \r\n or \r. Index i is line i + 1. */
+export function splitLines(text: string): string[] {
+  const lines = text.split(/\r\n|\n|\r/)
+  if (lines.length > 0 && lines[lines.length - 1] === '') lines.pop()
+  return lines
+}
+
+export function isBlank(line: string): boolean {
+  return line.trim() === ''
+}
+
+/** The comment prefix of a line ('#', '!', '%'), or null. */
+export function commentPrefix(line: string): string | null {
+  const t = line.trimStart()
+  for (const p of COMMENT_PREFIXES) if (t.startsWith(p)) return p
+  return null
+}
+
+/** Text of a comment line without its prefix characters. */
+export function commentBody(line: string): string {
+  return line.trimStart().replace(/^[#!%]+/, '').trim()
+}
+
+/** Drop a trailing `# remark` that follows whitespace (only on lines without quotes). */
+function stripInlineComment(line: string): string {
+  const i = line.indexOf('#')
+  if (i <= 0 || line.includes('"')) return line
+  const m = /\s#/.exec(line)
+  return m ? line.slice(0, m.index) : line
+}
+
+function unquote(cell: string): string {
+  const c = cell.trim()
+  if (c.length >= 2 && ((c[0] === '"' && c[c.length - 1] === '"') || (c[0] === "'" && c[c.length - 1] === "'"))) {
+    return c.slice(1, -1).trim()
+  }
+  return c
+}
+
+const WS = /[ \t]+/
+
+/** Split one line into trimmed, unquoted cells. Quoted fields in delimited lines are read by papaparse. */
+export function splitCells(line: string, delimiter: Delimiter): string[] {
+  const l = stripInlineComment(line)
+  if (delimiter === 'whitespace') {
+    const t = l.trim()
+    if (t === '') return []
+    if (!t.includes('"')) return t.split(WS)
+    return splitQuotedWhitespace(t)
+  }
+  if (l.includes('"')) {
+    const r = Papa.parse<string[]>(l, { delimiter, quoteChar: '"', header: false })
+    const row = r.data[0] ?? []
+    return row.map(unquote)
+  }
+  const parts = l.split(delimiter)
+  for (let i = 0; i < parts.length; i++) parts[i] = unquote(parts[i]!)
+  // A trailing delimiter leaves one empty cell: drop it so "1,2,3," reads as three cells.
+  if (parts.length > 1 && parts[parts.length - 1] === '') parts.pop()
+  return parts
+}
+
+function splitQuotedWhitespace(t: string): string[] {
+  const out: string[] = []
+  const re = /"([^"]*)"|(\S+)/g
+  let m: RegExpExecArray | null
+  while ((m = re.exec(t)) !== null) out.push(m[1] !== undefined ? m[1].trim() : m[2]!)
+  return out
+}
+
+const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
+const NUMBER_D = /^[+-]?(?:\d+\.?\d*|\.\d+)[dD][+-]?\d+$/
+const DECIMAL_COMMA = /^[+-]?\d*,\d+(?:[eE][+-]?\d+)?$/
+
+/**
+ * Parse a number strictly (no '', '0x..', 'Infinity'); NaN when the cell is not a plain number.
+ * `pow10` scales by a power of ten in decimal (so '46.30911' with pow10 3 gives exactly 46309.11,
+ * not 46309.10999…).
+ */
+export function parseNumber(cell: string, decimalComma = false, pow10 = 0): number {
+  let s: string
+  if (NUMBER.test(cell)) s = cell
+  else if (decimalComma && DECIMAL_COMMA.test(cell)) s = cell.replace(',', '.')
+  else if (NUMBER_D.test(cell)) s = cell.replace(/[dD]/, 'e')
+  else return NaN
+  if (pow10 === 0) return Number(s)
+  const e = s.search(/[eE]/)
+  if (e < 0) return Number(`${s}e${pow10}`)
+  return Number(`${s.slice(0, e)}e${Number(s.slice(e + 1)) + pow10}`)
+}
+
+export function looksDecimalComma(cell: string): boolean {
+  return DECIMAL_COMMA.test(cell)
+}
+
+const MISSING = new Set(['', 'nan', '-nan', '+nan', 'na', 'n/a', 'null', 'none', '-', '--', '---', '?', 'inf', '-inf', 'infinity'])
+
+/** Cells that mean "no value" (empty, NaN, NA, null, -, …): a gap, not text. */
+export function isMissing(cell: string): boolean {
+  return cell.length <= 9 && MISSING.has(cell.toLowerCase())
+}
