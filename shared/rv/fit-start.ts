@@ -1,0 +1,130 @@
+/**
+ * Starting values for a new Keplerian at a trial period, so that no initial guess is needed.
+ *
+ * At fixed (P, e, ω, Tp) the model is linear in K and in the offsets and trend, so a coarse grid
+ * over e, ω and the periastron phase can be scored exactly by weighted linear least squares; the
+ * best few grid points seed the non-linear fit. For e = 0 the sine and cosine amplitudes are
+ * solved together (a one-frequency least-squares fit, the model behind the generalised
+ * Lomb–Scargle periodogram of Zechmeister & Kürster 2009, A&A 496, 577), which gives K and the
+ * phase directly.
+ */
+import { addKeplerian, tpToTc, type Keplerian } from './model.ts'
+import { cholesky, choleskySolve } from './linalg.ts'
+import type { RvData } from './fit-data.ts'
+import type { PlanetStart, TrendKind } from './fit.ts'
+
+const TWO_PI = 2 * Math.PI
+
+export interface StartOptions {
+  /** Planets already in the model, subtracted before scoring (elements with ω in radians). */
+  others?: Keplerian[]
+  /** Jitter per instrument added to the errors when weighting (default 0). */
+  jitter?: ArrayLike<number>
+  trend?: TrendKind
+  epoch?: number
+  /** How many distinct starts to return (default 3). */
+  count?: number
+  eccentricities?: number[]
+  omegaSteps?: number
+  phaseSteps?: number
+}
+
+/** Starting planets at `period`, best first. */
+export function planetStarts(data: RvData, period: number, opts: StartOptions = {}): PlanetStart[] {
+  if (!(period > 0)) throw new RangeError(`period must be > 0, got ${period}`)
+  const n = data.t.length
+  const nInst = data.instrumentNames.length
+  const trend = opts.trend ?? 'none'
+  const nTr = trend === 'linear' ? 1 : trend === 'quadratic' ? 2 : 0
+  let epoch = opts.epoch ?? 0
+  if (opts.epoch === undefined) { for (let i = 0; i < n; i++) epoch += data.t[i]; epoch /= Math.max(n, 1) }
+  const r0 = Float64Array.from(data.y)
+  if (opts.others?.length) {
+    const m = new Float64Array(n)
+    for (const o of opts.others) addKeplerian(data.t, o, m)
+    for (let i = 0; i < n; i++) r0[i] -= m[i]
+  }
+  const w = new Float64Array(n)
+  for (let i = 0; i < n; i++) { const s = opts.jitter ? opts.jitter[data.instrument[i]] : 0; w[i] = 1 / (data.dy[i] ** 2 + s * s) }
+
+  // weighted LS of r0 on [shape columns | instrument indicators | trend]; returns χ² and coefficients
+  const nLin = nInst + nTr
+  const solve = (shapes: Float64Array[]): { chi2: number; coef: Float64Array } | null => {
+    const ns = shapes.length
+    const p = ns + nLin
+    const A = new Float64Array(p * p), b = new Float64Array(p), row = new Float64Array(p)
+    for (let i = 0; i < n; i++) {
+      row.fill(0)
+      for (let s = 0; s < ns; s++) row[s] = shapes[s][i]
+      row[ns + data.instrument[i]] = 1
+      if (nTr) { const dt = data.t[i] - epoch; row[ns + nInst] = dt; if (nTr > 1) row[ns + nInst + 1] = dt * dt }
+      const wi = w[i]
+      for (let a = 0; a < p; a++) {
+        const ra = row[a]
+        if (ra === 0) continue
+        b[a] += wi * ra * r0[i]
+        for (let c = a; c < p; c++) A[a * p + c] += wi * ra * row[c]
+      }
+    }
+    for (let a = 0; a < p; a++) for (let c = 0; c < a; c++) A[a * p + c] = A[c * p + a]
+    if (!cholesky(A, p)) return null
+    const coef = Float64Array.from(b)
+    choleskySolve(A, p, coef)
+    // χ² = Σ w r0² − bᵀ coef (normal equations)
+    let chi2 = 0
+    for (let i = 0; i < n; i++) chi2 += w[i] * r0[i] * r0[i]
+    for (let a = 0; a < p; a++) chi2 -= b[a] * coef[a]
+    return { chi2, coef }
+  }
+
+  interface Cand { chi2: number; start: PlanetStart }
+  const cands: Cand[] = []
+  // circular: cos and sin columns
+  {
+    const c = new Float64Array(n), s = new Float64Array(n)
+    const f = TWO_PI / period
+    for (let i = 0; i < n; i++) { const ph = f * (data.t[i] - epoch); c[i] = Math.cos(ph); s[i] = Math.sin(ph) }
+    const res = solve([c, s])
+    if (res) {
+      const A = res.coef[0], B = res.coef[1]
+      // A cos φ + B sin φ = K cos(φ − φ0); model K cos(M + ω) with ω = 0, M = 2π(t − tp)/P
+      const K = Math.hypot(A, B)
+      const phi0 = Math.atan2(B, A)
+      const tp = epoch + phi0 / f
+      cands.push({ chi2: res.chi2, start: { period, K, e: 0, omegaDeg: 0, tc: tpToTc(tp, period, 0, 0) } })
+    }
+  }
+  const eccs = opts.eccentricities ?? [0.2, 0.4, 0.6, 0.8]
+  const nW = opts.omegaSteps ?? 8
+  const nPh = opts.phaseSteps ?? 12
+  const shape = new Float64Array(n)
+  const orbit: Keplerian = { period, K: 1, e: 0, omega: 0, tp: 0 }
+  for (const e of eccs) {
+    for (let iw = 0; iw < nW; iw++) {
+      const omega = TWO_PI * iw / nW
+      for (let ip = 0; ip < nPh; ip++) {
+        const tp = epoch + period * ip / nPh
+        orbit.e = e; orbit.omega = omega; orbit.tp = tp
+        shape.fill(0)
+        addKeplerian(data.t, orbit, shape)
+        const res = solve([shape])
+        if (!res) continue
+        let K = res.coef[0], om = omega
+        if (K < 0) { K = -K; om = (omega + Math.PI) % TWO_PI }
+        cands.push({ chi2: res.chi2, start: { period, K, e, omegaDeg: om * 180 / Math.PI, tc: tpToTc(tp, period, e, om) } })
+      }
+    }
+  }
+  cands.sort((a, b) => a.chi2 - b.chi2)
+  const count = opts.count ?? 3
+  const out: PlanetStart[] = []
+  const circular = cands.find((c) => c.start.e === 0)
+  for (const c of cands) {
+    if (out.length >= count) break
+    // skip near-duplicates (same e and ω bin neighbours)
+    if (out.some((o) => o.e === c.start.e && Math.abs(((o.omegaDeg! - c.start.omegaDeg! + 540) % 360) - 180) < 50)) continue
+    out.push(c.start)
+  }
+  if (circular && !out.includes(circular.start)) out.push(circular.start)
+  return out
+}
