@@ -1,0 +1,13 @@
+import { request } from './http.ts'
+import type { Dataset, Star, StarInput, StarSummary, UpdateStarRequest } from './types.ts'
+
+export const listStars = (teamId: number) => request<StarSummary[]>(`/teams/${teamId}/stars`)
+export const createStar = (teamId: number, body: StarInput) =>
+  request<Star>(`/teams/${teamId}/stars`, { method: 'POST', body })
+export const fetchStar = (starId: number) => request<Star>(`/stars/${starId}`)
+export const updateStar = (starId: number, body: UpdateStarRequest) =>
+  request<Star>(`/stars/${starId}`, { method: 'PATCH', body })
+export const archiveStar = (starId: number) => request<void>(`/stars/${starId}`, { method: 'DELETE' })
+export const listDatasets = (starId: number) => request<Dataset[]>(`/stars/${starId}/datasets`)
+/** Link for the browser to download an uploaded file exactly as it was sent. */
+export const datasetRawUrl = (datasetId: number) => `/api/datasets/${datasetId}/raw`

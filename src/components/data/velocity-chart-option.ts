@@ -1,0 +1,185 @@
+import type {
+  CustomSeriesRenderItemAPI, CustomSeriesRenderItemParams, CustomSeriesRenderItemReturn, EChartsOption,
+} from 'echarts'
+import type { Measurement } from '@/api/types.ts'
+
+/** Colour-blind-safe colours (Okabe & Ito's palette, common practice), paired with distinct symbols. */
+export const INSTRUMENT_COLORS = ['#0072B2', '#D55E00', '#009E73', '#CC79A7', '#E69F00', '#56B4E9', '#6b4f2a', '#444444']
+export const INSTRUMENT_SYMBOLS = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'roundRect', 'arrow', 'emptyCircle']
+export const EXCLUDED_COLOR = '#9aa0a6'
+export const EXCLUDED_NAME = 'Excluded'
+
+export interface InstrumentStyle { color: string; symbol: string }
+
+/** Stable style per instrument: the n-th name in alphabetical order gets the n-th colour and symbol. */
+export function instrumentStyles(instruments: string[]): Map<string, InstrumentStyle> {
+  const names = [...new Set(instruments)].sort()
+  return new Map(names.map((name, i) => [name, {
+    color: INSTRUMENT_COLORS[i % INSTRUMENT_COLORS.length]!,
+    symbol: INSTRUMENT_SYMBOLS[i % INSTRUMENT_SYMBOLS.length]!,
+  }]))
+}
+
+/**
+ * The round offset subtracted from full Julian dates so axis labels stay short: whole multiples of
+ * 50 000 d (2 450 000 for 1995–2132), the usual reduced-date convention (common practice).
+ */
+export function timeOffset(times: number[]): number {
+  if (times.length === 0) return 0
+  const min = Math.min(...times)
+  if (min < 100000) return 0
+  return Math.floor(min / 50000) * 50000
+}
+
+/** "2 450 000" with thin spaces between thousands. */
+export function formatOffset(offset: number): string {
+  return String(offset).replace(/\B(?=(\d{3})+(?!\d))/g, '\u2009')
+}
+
+export function timeAxisLabel(scale: string, offset: number): string {
+  return offset === 0 ? `${scale} [d]` : `${scale} − ${formatOffset(offset)} [d]`
+}
+
+/** One chart point: [reduced time, rv, error, measurement id]. */
+type Point = [number, number, number, number]
+
+export interface VelocityChartInput {
+  measurements: Measurement[]
+  /** Time scale of the stored dates, e.g. "BJD" or "JD". */
+  timeScale: string
+  showExcluded: boolean
+}
+
+export interface VelocityChartModel {
+  option: EChartsOption
+  offset: number
+  /** Points drawn per series name (instrument, or "Excluded"). */
+  counts: Record<string, number>
+  included: number
+  excluded: number
+}
+
+function errorBarSeries(name: string, color: string, data: Point[], z: number) {
+  return {
+    type: 'custom' as const,
+    name,
+    data,
+    z,
+    clip: true,
+    silent: true,
+    encode: { x: 0, y: 1 },
+    renderItem: (_params: CustomSeriesRenderItemParams, api: CustomSeriesRenderItemAPI): CustomSeriesRenderItemReturn => {
+      const x = Number(api.value(0))
+      const y = Number(api.value(1))
+      const e = Number(api.value(2))
+      const top = api.coord([x, y + e])
+      const bottom = api.coord([x, y - e])
+      const half = 3
+      const style = { stroke: color, lineWidth: 1 }
+      return {
+        type: 'group',
+        children: [
+          { type: 'line', shape: { x1: top[0], y1: top[1], x2: bottom[0], y2: bottom[1] }, style },
+          { type: 'line', shape: { x1: top[0]! - half, y1: top[1], x2: top[0]! + half, y2: top[1] }, style },
+          { type: 'line', shape: { x1: bottom[0]! - half, y1: bottom[1], x2: bottom[0]! + half, y2: bottom[1] }, style },
+        ],
+      }
+    },
+  }
+}
+
+/** Builds the velocity-versus-time chart: error bars, one colour and symbol per instrument, excluded points hollow grey. */
+export function buildVelocityChart(input: VelocityChartInput): VelocityChartModel {
+  const { measurements, timeScale, showExcluded } = input
+  const offset = timeOffset(measurements.map((m) => m.time))
+  const styles = instrumentStyles(measurements.map((m) => m.instrument))
+  const byInstrument = new Map<string, Point[]>()
+  const excludedPoints: Point[] = []
+  const lookup = new Map<number, Measurement>()
+  for (const m of measurements) {
+    lookup.set(m.id, m)
+    const point: Point = [m.time - offset, m.rv, m.error, m.id]
+    if (m.excluded) excludedPoints.push(point)
+    else {
+      const list = byInstrument.get(m.instrument) ?? []
+      list.push(point)
+      byInstrument.set(m.instrument, list)
+    }
+  }
+
+  const series: NonNullable<EChartsOption['series']> & unknown[] = []
+  const counts: Record<string, number> = {}
+  for (const [name, style] of styles) {
+    const data = byInstrument.get(name) ?? []
+    counts[name] = data.length
+    series.push(errorBarSeries(name, style.color, data, 2))
+    series.push({
+      type: 'scatter', name, data, symbol: style.symbol, symbolSize: 8, z: 3,
+      itemStyle: { color: style.color, borderColor: '#ffffff', borderWidth: 0.5 },
+      encode: { x: 0, y: 1 },
+    })
+  }
+  if (showExcluded && excludedPoints.length > 0) {
+    counts[EXCLUDED_NAME] = excludedPoints.length
+    series.push(errorBarSeries(EXCLUDED_NAME, EXCLUDED_COLOR, excludedPoints, 1))
+    series.push({
+      type: 'scatter', name: EXCLUDED_NAME, data: excludedPoints, symbol: 'circle', symbolSize: 8, z: 2,
+      itemStyle: { color: 'rgba(255,255,255,0)', borderColor: EXCLUDED_COLOR, borderWidth: 1.5 },
+      encode: { x: 0, y: 1 },
+    })
+  }
+
+  const legendNames = [...styles.keys()]
+  if (showExcluded && excludedPoints.length > 0) legendNames.push(EXCLUDED_NAME)
+
+  const option: EChartsOption = {
+    animation: false,
+    textStyle: { fontFamily: 'Roboto, sans-serif' },
+    grid: { left: 72, right: 24, top: 48, bottom: 96 },
+    legend: { top: 8, left: 'center', data: legendNames },
+    tooltip: {
+      trigger: 'item',
+      formatter: (p: unknown) => {
+        const params = p as { data?: Point }
+        const m = params.data ? lookup.get(params.data[3]) : undefined
+        if (!m) return ''
+        const lines = [
+          `<b>${escapeHtml(m.instrument)}</b>`,
+          `${timeScale} ${m.time.toFixed(5)}`,
+          `RV ${m.rv.toFixed(2)} ± ${m.error.toFixed(2)} m/s`,
+        ]
+        if (m.excluded) lines.push(`excluded: ${escapeHtml(m.excludedReason ?? '')}`)
+        return lines.join('<br>')
+      },
+    },
+    toolbox: {
+      right: 16,
+      top: 4,
+      feature: {
+        dataZoom: { yAxisIndex: 'none', title: { zoom: 'Zoom to box', back: 'Undo zoom' } },
+        restore: { title: 'Reset view' },
+        saveAsImage: { type: 'png', title: 'Save PNG', name: 'velocities', pixelRatio: 2 },
+      },
+    },
+    dataZoom: [
+      { type: 'inside', xAxisIndex: 0, filterMode: 'none' },
+      { type: 'slider', xAxisIndex: 0, filterMode: 'none', bottom: 16, height: 22 },
+      { type: 'inside', yAxisIndex: 0, filterMode: 'none', zoomOnMouseWheel: 'shift', moveOnMouseMove: 'shift' },
+    ],
+    xAxis: {
+      type: 'value', scale: true, name: timeAxisLabel(timeScale, offset),
+      nameLocation: 'middle', nameGap: 28, splitLine: { lineStyle: { color: '#eceff1' } },
+    },
+    yAxis: {
+      type: 'value', scale: true, name: 'RV [m/s]', nameLocation: 'middle', nameGap: 56,
+      splitLine: { lineStyle: { color: '#eceff1' } },
+    },
+    series,
+  }
+  const included = measurements.length - excludedPoints.length
+  return { option, offset, counts, included, excluded: showExcluded ? excludedPoints.length : 0 }
+}
+
+function escapeHtml(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
+}
