@@ -1,0 +1,478 @@
+/**
+ * Generalised Lomb–Scargle periodogram of radial velocities: frequency grid, the direct O(N·M)
+ * evaluation (the readable reference), the fast evaluation by extirpolation + FFT, and the power at
+ * a single frequency. Pure numerics: Float64Array in, Float64Array out.
+ *
+ * Power is the fraction of χ² removed by a sinusoid (plus a floating mean), 0…1 — Zechmeister &
+ * Kürster 2009, A&A 496, 577, eq. 5 p(ω) — the same quantity as astropy's
+ * `LombScargle(t, y, dy, fit_mean=True, center_data=True).power(f, normalization='standard')`.
+ */
+import FFT from 'fft.js'
+
+export interface PeriodogramOptions {
+  /** Shortest period on the grid, days (default 1.1). */
+  minPeriod?: number
+  /** Longest period on the grid, days (default: the baseline tmax − tmin). */
+  maxPeriod?: number
+  /** Grid step df = 1/(oversample · baseline) (default 10). */
+  oversample?: number
+  /** Explicit grid size M (overrides `oversample`): df = (fmax − fmin)/(M − 1). */
+  frequencies?: number
+  /** 'auto' (default) picks by N·M; 'direct' is exact, 'fast' is extirpolation + FFT. */
+  method?: 'auto' | 'direct' | 'fast'
+  /** Default true: floating mean (ZK09 GLS). false: classic weighted LS of the centred data. */
+  floatingMean?: boolean
+  /** m/s, added in quadrature to every error (default 0). */
+  jitter?: number
+}
+
+/** Regular frequency grid f_k = f0 + k·df, k = 0…count−1, in cycles per day. */
+export interface FrequencyGrid { f0: number; df: number; count: number }
+
+export interface PeriodogramResult {
+  grid: FrequencyGrid
+  /** f_k, cycles/day. */
+  frequency: Float64Array
+  /** Fraction of χ² removed, 0…1. */
+  power: Float64Array
+  method: 'direct' | 'fast'
+  nPoints: number
+  /** tmax − tmin, days. */
+  baseline: number
+}
+
+/** N·M up to which `method: 'auto'` uses the exact direct sums (measured on this machine: below it the direct one is as quick). */
+export const AUTO_DIRECT_MAX_WORK = 2_000_000
+
+// ---------------------------------------------------------------------------------------------
+// Validation and preparation
+
+function checkOptionalPositive(name: string, v: number | undefined): void {
+  if (v !== undefined && !(Number.isFinite(v) && v > 0)) {
+    throw new RangeError(`${name} must be a finite number > 0 (got ${v})`)
+  }
+}
+
+/** Baseline tmax − tmin of finite times; throws naming `t` for empty or non-finite input. */
+export function baselineOf(t: Float64Array): { tmin: number; tmax: number; baseline: number } {
+  if (!(t instanceof Float64Array)) throw new TypeError('t must be a Float64Array')
+  if (t.length === 0) throw new RangeError('t must not be empty')
+  let tmin = Infinity, tmax = -Infinity
+  for (let i = 0; i < t.length; i++) {
+    const v = t[i]
+    if (!Number.isFinite(v)) throw new RangeError(`t[${i}] is not finite (${v})`)
+    if (v < tmin) tmin = v
+    if (v > tmax) tmax = v
+  }
+  return { tmin, tmax, baseline: tmax - tmin }
+}
+
+/**
+ * The frequency grid: from 1/maxPeriod (default 1/baseline) to 1/minPeriod (default 1/1.1 d), step
+ * 1/(oversample·baseline) — the peak width is about 1/baseline, so 10× oversampling puts ~10 grid
+ * points across every peak (VanderPlas 2018, ApJS 236, 16, §7.1). With `frequencies` = M the
+ * same range is split into M points instead.
+ */
+export function frequencyGrid(t: Float64Array, opts: PeriodogramOptions = {}): FrequencyGrid {
+  const { baseline } = baselineOf(t)
+  checkOptionalPositive('minPeriod', opts.minPeriod)
+  checkOptionalPositive('maxPeriod', opts.maxPeriod)
+  checkOptionalPositive('oversample', opts.oversample)
+  const minPeriod = opts.minPeriod ?? 1.1
+  let maxPeriod = opts.maxPeriod
+  if (maxPeriod === undefined) {
+    if (!(baseline > 0)) throw new RangeError('t must span a baseline > 0 (or give maxPeriod and frequencies)')
+    maxPeriod = baseline
+  }
+  if (!(maxPeriod > minPeriod)) {
+    throw new RangeError(`maxPeriod (${maxPeriod}) must exceed minPeriod (${minPeriod}); the baseline is ${baseline} d`)
+  }
+  const fmin = 1 / maxPeriod, fmax = 1 / minPeriod
+  if (opts.frequencies !== undefined) {
+    const m = opts.frequencies
+    if (!(Number.isInteger(m) && m >= 2)) throw new RangeError(`frequencies must be an integer >= 2 (got ${m})`)
+    return { f0: fmin, df: (fmax - fmin) / (m - 1), count: m }
+  }
+  if (!(baseline > 0)) throw new RangeError('t must span a baseline > 0 to set the grid step (or give frequencies)')
+  const df = 1 / ((opts.oversample ?? 10) * baseline)
+  const count = Math.floor((fmax - fmin) / df * (1 + 1e-12)) + 1
+  if (count < 2) throw new RangeError(`the grid from ${fmin} to ${fmax} c/d has fewer than 2 points; raise oversample`)
+  if (count > 50_000_000) throw new RangeError(`the grid would have ${count} frequencies (> 5e7); raise minPeriod or lower oversample`)
+  return { f0: fmin, df, count }
+}
+
+/** Weighted, centred data ready for the sums (ZK09 §2: w_i = σ_i⁻² / Σσ⁻²). */
+export interface Prepared {
+  n: number
+  /** t − tmin, days. */
+  tau: Float64Array
+  /** Normalised weights, Σw = 1. */
+  w: Float64Array
+  /** w·(y − ȳ_w). */
+  wy: Float64Array
+  /** Σ w (y − ȳ_w)². */
+  yy: number
+  tmin: number
+  baseline: number
+}
+
+/**
+ * Checks and weights the data. Throws (naming the argument) for mismatched lengths, fewer than
+ * 3 points, non-finite t/y/dy, or dy ≤ 0 with no jitter to make σ positive.
+ */
+export function prepare(t: Float64Array, y: Float64Array, dy: Float64Array, jitter = 0): Prepared {
+  const { tmin, baseline } = baselineOf(t)
+  if (!(y instanceof Float64Array)) throw new TypeError('y must be a Float64Array')
+  if (!(dy instanceof Float64Array)) throw new TypeError('dy must be a Float64Array')
+  const n = t.length
+  if (y.length !== n) throw new RangeError(`y has ${y.length} values but t has ${n}`)
+  if (dy.length !== n) throw new RangeError(`dy has ${dy.length} values but t has ${n}`)
+  if (n < 3) throw new RangeError(`t must have at least 3 points (got ${n})`)
+  if (!(Number.isFinite(jitter) && jitter >= 0)) throw new RangeError(`jitter must be a finite number >= 0 (got ${jitter})`)
+  const tau = new Float64Array(n), w = new Float64Array(n), wy = new Float64Array(n)
+  const j2 = jitter * jitter
+  let wsum = 0
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(y[i])) throw new RangeError(`y[${i}] is not finite (${y[i]})`)
+    const s = dy[i]
+    if (!Number.isFinite(s) || s < 0) throw new RangeError(`dy[${i}] must be finite and >= 0 (got ${s})`)
+    const v = s * s + j2
+    if (!(v > 0)) throw new RangeError(`dy[${i}] is 0 and there is no jitter: the weight would be infinite`)
+    w[i] = 1 / v
+    wsum += w[i]
+    tau[i] = t[i] - tmin
+  }
+  let ybar = 0
+  for (let i = 0; i < n; i++) { w[i] /= wsum; ybar += w[i] * y[i] }
+  let yy = 0
+  for (let i = 0; i < n; i++) {
+    const d = y[i] - ybar
+    wy[i] = w[i] * d
+    yy += wy[i] * d
+  }
+  return { n, tau, w, wy, yy, tmin, baseline }
+}
+
+/**
+ * Power from the weighted trig sums at one frequency (ZK09 eqs. 4–5, 8–15 with centred y so Y = 0):
+ * c = Σw cos ωτ, s = Σw sin ωτ, yc = Σw y cos, ys = Σw y sin, c2 = Σw cos 2ωτ, s2 = Σw sin 2ωτ.
+ * p = (SS·YC² + CC·YS² − 2·CS·YC·YS) / (YY·D), D = CC·SS − CS². Returns 0 where D or YY vanish.
+ */
+export function powerFromSums(
+  c: number, s: number, yc: number, ys: number, c2: number, s2: number, yy: number, floatingMean: boolean,
+): number {
+  let cc = 0.5 * (1 + c2), ss = 0.5 * (1 - c2), cs = 0.5 * s2
+  if (floatingMean) { cc -= c * c; ss -= s * s; cs -= c * s }
+  const d = cc * ss - cs * cs
+  if (!(d > 0) || !(yy > 0)) return 0
+  const p = (ss * yc * yc + cc * ys * ys - 2 * cs * yc * ys) / (yy * d)
+  return p < 0 ? 0 : p > 1 ? 1 : p
+}
+
+function makeResult(grid: FrequencyGrid, power: Float64Array, method: 'direct' | 'fast', p: Prepared): PeriodogramResult {
+  const frequency = new Float64Array(grid.count)
+  for (let k = 0; k < grid.count; k++) frequency[k] = grid.f0 + k * grid.df
+  return { grid, frequency, power, method, nPoints: p.n, baseline: p.baseline }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Single frequency
+
+/**
+ * GLS power at one frequency (cycles/day), exact trig: Zechmeister & Kürster 2009, eq. 5. Used to
+ * refine peaks between grid points.
+ */
+export function gls(
+  t: Float64Array, y: Float64Array, dy: Float64Array, frequency: number,
+  opts: { floatingMean?: boolean; jitter?: number } = {},
+): number {
+  if (!Number.isFinite(frequency) || frequency < 0) throw new RangeError(`frequency must be finite and >= 0 (got ${frequency})`)
+  return glsPrepared(prepare(t, y, dy, opts.jitter ?? 0), frequency, opts.floatingMean ?? true)
+}
+
+/** {@link gls} on already prepared data. */
+export function glsPrepared(p: Prepared, frequency: number, floatingMean: boolean): number {
+  const om = 2 * Math.PI * frequency
+  const { tau, w, wy, n } = p
+  let c = 0, s = 0, yc = 0, ys = 0, c2 = 0, s2 = 0
+  for (let j = 0; j < n; j++) {
+    const x = om * tau[j]
+    const cx = Math.cos(x), sx = Math.sin(x)
+    const wj = w[j], wyj = wy[j]
+    c += wj * cx; s += wj * sx; yc += wyj * cx; ys += wyj * sx
+    c2 += wj * (cx - sx) * (cx + sx); s2 += wj * 2 * cx * sx
+  }
+  return powerFromSums(c, s, yc, ys, c2, s2, p.yy, floatingMean)
+}
+
+// ---------------------------------------------------------------------------------------------
+// Direct O(N·M)
+
+/** Frequencies between exact re-seeds of the trig recurrence (keeps its rounding drift < 1e-13). */
+const RESEED = 512
+
+let directScratch: Float64Array | null = null
+function directBuffer(n: number): Float64Array {
+  if (directScratch === null || directScratch.length < 6 * n) directScratch = new Float64Array(6 * n)
+  return directScratch
+}
+
+/**
+ * Direct GLS on the grid (Zechmeister & Kürster 2009, eq. 5), O(N·M). The readable reference.
+ * cos/sin of ω_k·τ_j advance from one frequency to the next by the rotation
+ * (c, s) ← (c·cosΔ − s·sinΔ, s·cosΔ + c·sinΔ), Δ = 2π·df·τ_j, re-seeded with exact trig every
+ * 512 frequencies; cos 2x = c² − s², sin 2x = 2cs.
+ */
+export function periodogramDirect(t: Float64Array, y: Float64Array, dy: Float64Array, opts: PeriodogramOptions = {}): PeriodogramResult {
+  const grid = frequencyGrid(t, opts)
+  const p = prepare(t, y, dy, opts.jitter ?? 0)
+  const power = new Float64Array(grid.count)
+  directPowerInto(p, grid, opts.floatingMean ?? true, power)
+  return makeResult(grid, power, 'direct', p)
+}
+
+/**
+ * Direct power on `grid` into `out` (length ≥ grid.count). Per point the state
+ * [c, s, cosΔ, sinΔ, w, w·y] sits in one interleaved buffer, and two frequencies are summed per
+ * pass over the points (k with (c, s), k+1 with the once-rotated pair) — the same arithmetic as
+ * {@link glsPrepared}, arranged for the cache.
+ */
+export function directPowerInto(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array): void {
+  const { n, tau, w, wy, yy } = p
+  const st = directBuffer(n)
+  const twoPi = 2 * Math.PI
+  const end = 6 * n
+  for (let j = 0; j < n; j++) {
+    const d = twoPi * grid.df * tau[j]
+    st[6 * j + 2] = Math.cos(d); st[6 * j + 3] = Math.sin(d); st[6 * j + 4] = w[j]; st[6 * j + 5] = wy[j]
+  }
+  const m = grid.count
+  for (let k0 = 0; k0 < m; k0 += RESEED) {
+    const om0 = twoPi * (grid.f0 + k0 * grid.df)
+    for (let j = 0; j < n; j++) {
+      const x = om0 * tau[j]
+      st[6 * j] = Math.cos(x); st[6 * j + 1] = Math.sin(x)
+    }
+    const k1 = Math.min(m, k0 + RESEED)
+    let k = k0
+    for (; k + 1 < k1; k += 2) {
+      // sums at frequency k (suffix 0) and k+1 (suffix 1)
+      let c0 = 0, s0 = 0, yc0 = 0, ys0 = 0, cc0 = 0, cs0 = 0
+      let c1 = 0, s1 = 0, yc1 = 0, ys1 = 0, cc1 = 0, cs1 = 0
+      for (let i = 0; i < end; i += 6) {
+        const cj = st[i], sj = st[i + 1], ca = st[i + 2], sb = st[i + 3], wj = st[i + 4], wyj = st[i + 5]
+        const wc = wj * cj, ws = wj * sj
+        c0 += wc; s0 += ws; cc0 += wc * cj - ws * sj; cs0 += wc * sj; yc0 += wyj * cj; ys0 += wyj * sj
+        const cn = cj * ca - sj * sb, sn = sj * ca + cj * sb
+        const wc1 = wj * cn, ws1 = wj * sn
+        c1 += wc1; s1 += ws1; cc1 += wc1 * cn - ws1 * sn; cs1 += wc1 * sn; yc1 += wyj * cn; ys1 += wyj * sn
+        st[i] = cn * ca - sn * sb
+        st[i + 1] = sn * ca + cn * sb
+      }
+      out[k] = powerFromSums(c0, s0, yc0, ys0, cc0, 2 * cs0, yy, floatingMean)
+      out[k + 1] = powerFromSums(c1, s1, yc1, ys1, cc1, 2 * cs1, yy, floatingMean)
+    }
+    for (; k < k1; k++) {
+      let c0 = 0, s0 = 0, yc0 = 0, ys0 = 0, cc0 = 0, cs0 = 0
+      for (let i = 0; i < end; i += 6) {
+        const cj = st[i], sj = st[i + 1], ca = st[i + 2], sb = st[i + 3], wj = st[i + 4], wyj = st[i + 5]
+        const wc = wj * cj, ws = wj * sj
+        c0 += wc; s0 += ws; cc0 += wc * cj - ws * sj; cs0 += wc * sj; yc0 += wyj * cj; ys0 += wyj * sj
+        st[i] = cj * ca - sj * sb
+        st[i + 1] = sj * ca + cj * sb
+      }
+      out[k] = powerFromSums(c0, s0, yc0, ys0, cc0, 2 * cs0, yy, floatingMean)
+    }
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Fast: extirpolation + FFT
+
+/** Extirpolation order (points per sample) and minimum FFT size / band width of the fast method. */
+export interface FastSettings { order: number; fftOversample: number }
+/**
+ * Defaults measured against the direct sums (tests/shared/rv/periodogram-fast.spec.ts): worst
+ * |fast − direct| stayed below 3e-5 of the peak power for N = 20…3000, M = 3000…200 000.
+ */
+export const FAST_DEFAULTS: FastSettings = { order: 16, fftOversample: 2 }
+
+const fftCache = new Map<number, FFT>()
+function fftOf(size: number): FFT {
+  let f = fftCache.get(size)
+  if (f === undefined) {
+    if (fftCache.size > 6) fftCache.clear()
+    f = new FFT(size)
+    fftCache.set(size, f)
+  }
+  return f
+}
+
+let fastScratch: { size: number; a: Float64Array; b: Float64Array; c: Float64Array; d: Float64Array } | null = null
+/** Four interleaved complex buffers of `size`, reused between calls; the inputs a, b (if used) and c are zeroed here. */
+function fastBuffers(size: number, useB: boolean) {
+  if (fastScratch === null || fastScratch.size !== size) {
+    fastScratch = { size, a: new Float64Array(2 * size), b: new Float64Array(2 * size), c: new Float64Array(2 * size), d: new Float64Array(2 * size) }
+  } else {
+    fastScratch.a.fill(0); if (useB) fastScratch.b.fill(0); fastScratch.c.fill(0)
+  }
+  return fastScratch
+}
+
+function bitCeil(x: number): number {
+  let n = 16
+  while (n < x) n *= 2
+  return n
+}
+
+const lagrangeDenCache = new Map<number, Float64Array>()
+/** 1/∏_{k≠j}(j − k) for Lagrange weights on nodes 0…order−1. */
+function lagrangeInvDen(order: number): Float64Array {
+  let d = lagrangeDenCache.get(order)
+  if (d === undefined) {
+    d = new Float64Array(order)
+    for (let j = 0; j < order; j++) {
+      let prod = 1
+      for (let k = 0; k < order; k++) if (k !== j) prod *= j - k
+      d[j] = 1 / prod
+    }
+    lagrangeDenCache.set(order, d)
+  }
+  return d
+}
+
+/**
+ * Extirpolation (Press & Rybicki 1989, ApJ 338, 277, §II): spreads complex values h_j, sitting at
+ * real positions x_j = (scale·τ_j mod size), onto `order` neighbouring grid cells with the
+ * Lagrange weights, so that Σ_n g_n e^{2πi q n/size} ≈ Σ_j h_j e^{2πi q x_j/size} for |q| well
+ * below size/2. The grid wraps around (the exponentials are periodic in x with period `size`).
+ * h_j = amp_j·e^{iφ_j}, φ_j = 2π·shift·τ_j (the band centre, so the FFT only spans the band).
+ * Writes one or two series (amp1, amp2 share the positions) into g1, g2 (interleaved re/im).
+ */
+export function extirpolate(
+  tau: Float64Array, scale: number, shift: number, size: number, order: number,
+  amp1: Float64Array, g1: Float64Array, amp2: Float64Array | null, g2: Float64Array | null,
+): void {
+  const inv = lagrangeInvDen(order)
+  const wts = new Float64Array(order)
+  const mask = size - 1
+  const half = (order >> 1) - 1
+  const twoPi = 2 * Math.PI
+  for (let j = 0, n = tau.length; j < n; j++) {
+    const tj = tau[j]
+    let x = (scale * tj) % size
+    if (x < 0) x += size
+    const ix = Math.floor(x)
+    const i0 = ix - half
+    const u = x - i0
+    // Lagrange weights at u on nodes 0…order−1
+    let prod = 1, exact = -1
+    for (let k = 0; k < order; k++) {
+      const d = u - k
+      if (d === 0) exact = k
+      prod *= d
+    }
+    if (exact >= 0) { wts.fill(0); wts[exact] = 1 } else {
+      for (let k = 0; k < order; k++) wts[k] = prod * inv[k] / (u - k)
+    }
+    // phase of the band centre
+    const ph = twoPi * ((shift * tj) % 1)
+    const cp = Math.cos(ph), sp = Math.sin(ph)
+    const a1 = amp1[j], r1 = a1 * cp, m1 = a1 * sp
+    if (amp2 === null || g2 === null) {
+      for (let k = 0; k < order; k++) {
+        const idx = ((i0 + k) & mask) << 1
+        const wk = wts[k]
+        g1[idx] += wk * r1; g1[idx + 1] += wk * m1
+      }
+    } else {
+      const a2 = amp2[j], r2 = a2 * cp, m2 = a2 * sp
+      for (let k = 0; k < order; k++) {
+        const idx = ((i0 + k) & mask) << 1
+        const wk = wts[k]
+        g1[idx] += wk * r1; g1[idx + 1] += wk * m1
+        g2[idx] += wk * r2; g2[idx + 1] += wk * m2
+      }
+    }
+  }
+}
+
+/**
+ * Fast GLS on the grid: the weighted sums Σw·e^{iωτ}, Σw(y−ȳ)·e^{iωτ} and Σw·e^{2iωτ} for all grid
+ * frequencies at once by extirpolation onto a regular grid and an FFT (Press & Rybicki 1989,
+ * ApJ 338, 277), then the power of Zechmeister & Kürster 2009, eq. 5. Each series is shifted to
+ * the centre of its band so the FFT spans only the band (|q| ≤ M/2). Within 1e-4 of the direct
+ * power's peak everywhere on the grid (tested).
+ */
+export function periodogramFast(
+  t: Float64Array, y: Float64Array, dy: Float64Array, opts: PeriodogramOptions & { fast?: Partial<FastSettings> } = {},
+): PeriodogramResult {
+  const grid = frequencyGrid(t, opts)
+  const p = prepare(t, y, dy, opts.jitter ?? 0)
+  const power = new Float64Array(grid.count)
+  fastPowerInto(p, grid, opts.floatingMean ?? true, power, { ...FAST_DEFAULTS, ...opts.fast })
+  return makeResult(grid, power, 'fast', p)
+}
+
+/** Fast power on `grid` into `out`. */
+export function fastPowerInto(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array, settings: FastSettings = FAST_DEFAULTS): void {
+  const { order, fftOversample } = settings
+  if (!(Number.isInteger(order) && order >= 2 && order % 2 === 0 && order <= 32)) throw new RangeError(`fast.order must be an even integer in 2…32 (got ${order})`)
+  if (!(fftOversample >= 1)) throw new RangeError(`fast.fftOversample must be >= 1 (got ${fftOversample})`)
+  const m = grid.count
+  const size = bitCeil(Math.max(fftOversample * m, 2 * order))
+  const mask = size - 1
+  const kc = m >> 1
+  const fc = grid.f0 + kc * grid.df
+  const bufs = fastBuffers(size, floatingMean)
+  const fft = fftOf(size)
+  // a: w·y at ω (positions size·df·τ); b: w at ω (same positions); c: w at 2ω (positions 2·size·df·τ)
+  if (floatingMean) {
+    extirpolate(p.tau, size * grid.df, fc, size, order, p.wy, bufs.a, p.w, bufs.b)
+  } else {
+    extirpolate(p.tau, size * grid.df, fc, size, order, p.wy, bufs.a, null, null)
+  }
+  extirpolate(p.tau, 2 * size * grid.df, 2 * fc, size, order, p.w, bufs.c, null, null)
+  // transforms, reusing consumed inputs as outputs: a→d, b→a, c→b
+  fft.transform(bufs.d, bufs.a)
+  const zy = bufs.d
+  let zw: Float64Array | null = null
+  if (floatingMean) { fft.transform(bufs.a, bufs.b); zw = bufs.a }
+  fft.transform(bufs.b, bufs.c)
+  const z2 = bufs.b
+  const yy = p.yy
+  // forward FFT F[r] = Σ g_n e^{−2πi r n/size}; the sum at q = k − kc is F[(−q) mod size]
+  for (let k = 0; k < m; k++) {
+    const idx = ((kc - k) & mask) << 1
+    const yc = zy[idx], ys = zy[idx + 1]
+    const c2 = z2[idx], s2 = z2[idx + 1]
+    let c = 0, s = 0
+    if (zw !== null) { c = zw[idx]; s = zw[idx + 1] }
+    out[k] = powerFromSums(c, s, yc, ys, c2, s2, yy, floatingMean)
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Either
+
+/** Which method `auto` chooses for N points and M frequencies. */
+export function chooseMethod(n: number, m: number, method: PeriodogramOptions['method'] = 'auto'): 'direct' | 'fast' {
+  if (method === 'direct' || method === 'fast') return method
+  if (method !== 'auto') throw new RangeError(`method must be 'auto', 'direct' or 'fast' (got ${String(method)})`)
+  return n * m <= AUTO_DIRECT_MAX_WORK ? 'direct' : 'fast'
+}
+
+/**
+ * GLS periodogram (Zechmeister & Kürster 2009) of velocities y ± dy at times t (days) on the
+ * default or requested grid (VanderPlas 2018 §7.1). `method: 'auto'` uses the exact direct sums
+ * when N·M ≤ {@link AUTO_DIRECT_MAX_WORK} and the fast one (Press & Rybicki 1989) above.
+ */
+export function periodogram(t: Float64Array, y: Float64Array, dy: Float64Array, opts: PeriodogramOptions = {}): PeriodogramResult {
+  const grid = frequencyGrid(t, opts)
+  const p = prepare(t, y, dy, opts.jitter ?? 0)
+  const method = chooseMethod(p.n, grid.count, opts.method)
+  const power = new Float64Array(grid.count)
+  if (method === 'direct') directPowerInto(p, grid, opts.floatingMean ?? true, power)
+  else fastPowerInto(p, grid, opts.floatingMean ?? true, power)
+  return makeResult(grid, power, method, p)
+}

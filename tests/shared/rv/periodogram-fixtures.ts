@@ -1,0 +1,38 @@
+// Loader for fixtures/periodogram/*.json (made by scripts/reference/periodogram_reference.py).
+import { readFileSync } from 'node:fs'
+
+export interface PeriodogramFixture {
+  name: string
+  source: string
+  t: number[]; y: number[]; dy: number[]
+  grid: { f0: number; df: number; count: number }
+  maxFrequency: number
+  powerFloating: number[]
+  powerClassic: number[]
+  scipyClassicEqualErrors: number[]
+  topPeaks: Array<{ index: number; frequency: number; power: number; fapBaluev: number }>
+  fapAtLevels: Array<{ power: number; fapBaluev: number }>
+  falseAlarmLevels: Array<{ fap: number; power: number }>
+  generator: { period: number; nightly: boolean }
+}
+
+export const FIXTURE_NAMES = ['sparse', 'nightly', 'long'] as const
+
+export function loadFixture(name: string): PeriodogramFixture {
+  const url = new URL(`../../../fixtures/periodogram/synthetic-${name}.json`, import.meta.url)
+  return JSON.parse(readFileSync(url, 'utf8')) as PeriodogramFixture
+}
+
+export const f64 = (a: number[]): Float64Array => Float64Array.from(a)
+
+export function maxAbs(a: ArrayLike<number>): number {
+  let m = 0
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i]))
+  return m
+}
+
+export function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let m = 0
+  for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]))
+  return m
+}
