@@ -1,0 +1,65 @@
+import { z } from 'zod'
+
+/** Environment, parsed once and typed. Development defaults apply outside production only. */
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  DATABASE_URL: z.string().min(1).default('postgres://postgres@127.0.0.1:54329/starsway'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  HOST: z.string().default('127.0.0.1'),
+  APP_URL: z.string().optional(),
+  JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters').optional(),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASS: z.string().optional(),
+  SMTP_FROM: z.string().default('Starsway <no-reply@starsway.test>'),
+  MAIL_DIR: z.string().default('.data/mail'),
+  BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(10),
+  UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(20 * 1024 * 1024),
+  UPLOAD_MAX_ROWS: z.coerce.number().int().positive().default(200_000),
+  LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+})
+
+export interface Config {
+  env: 'development' | 'test' | 'production'
+  databaseUrl: string
+  port: number
+  host: string
+  appUrl: string
+  jwtSecret: string
+  smtp: { host: string; port: number; user?: string; pass?: string; from: string }
+  mailDir: string
+  bcryptCost: number
+  upload: { maxBytes: number; maxRows: number; maxFiles: number }
+  /** Failed sign-ins (and reset requests) allowed per 15 minutes per IP + e-mail. */
+  loginRateLimit: number
+  /** Development-only routes (/api/dev/mail, /dev/mail). */
+  devRoutes: boolean
+}
+
+const DEV_SECRET = 'starsway-development-secret-not-for-production'
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Partial<Config> = {}): Config {
+  const parsed = envSchema.safeParse(env)
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0]!
+    throw new Error(`Invalid environment: ${issue.path.join('.')}: ${issue.message}`)
+  }
+  const e = parsed.data
+  if (e.NODE_ENV === 'production' && !e.JWT_SECRET) throw new Error('JWT_SECRET must be set in production')
+  const config: Config = {
+    env: e.NODE_ENV,
+    databaseUrl: e.DATABASE_URL,
+    port: e.PORT,
+    host: e.HOST,
+    appUrl: (e.APP_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
+    jwtSecret: e.JWT_SECRET ?? DEV_SECRET,
+    smtp: { host: e.SMTP_HOST, port: e.SMTP_PORT, user: e.SMTP_USER, pass: e.SMTP_PASS, from: e.SMTP_FROM },
+    mailDir: e.MAIL_DIR,
+    bcryptCost: e.BCRYPT_COST,
+    upload: { maxBytes: e.UPLOAD_MAX_BYTES, maxRows: e.UPLOAD_MAX_ROWS, maxFiles: 10 },
+    loginRateLimit: e.LOGIN_RATE_LIMIT,
+    devRoutes: e.NODE_ENV !== 'production',
+  }
+  return { ...config, ...overrides }
+}

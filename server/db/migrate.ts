@@ -1,0 +1,16 @@
+import { Umzug, SequelizeStorage } from 'umzug'
+import type { QueryInterface, Sequelize } from 'sequelize'
+import * as m0001 from './migrations/0001-initial.ts'
+
+type Step = { up: (p: { context: QueryInterface }) => Promise<void>; down: (p: { context: QueryInterface }) => Promise<void> }
+/** Every migration in order. Add a new file under migrations/ and list it here. */
+const MIGRATIONS: [string, Step][] = [['0001-initial', m0001]]
+
+export function createMigrator(sequelize: Sequelize): Umzug<QueryInterface> {
+  return new Umzug({
+    migrations: MIGRATIONS.map(([name, step]) => ({ name, up: step.up, down: step.down })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  })
+}

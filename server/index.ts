@@ -1,0 +1,34 @@
+import { pino } from 'pino'
+import type { Server } from 'node:http'
+import { loadConfig } from './config.ts'
+import { createApp } from './app.ts'
+import { createSequelize, initModels } from './db/index.ts'
+import { createMailer } from './mail/mailer.ts'
+
+const config = loadConfig()
+const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' })
+const sequelize = createSequelize(config.databaseUrl)
+await sequelize.authenticate()
+const models = initModels(sequelize)
+const mailer = createMailer(config.smtp)
+const app = createApp({ config, sequelize, models, mailer, logger })
+
+const server: Server = app.listen(config.port, config.host, () => {
+  logger.info(`Starsway API listening on http://${config.host}:${config.port} (app URL ${config.appUrl})`)
+})
+
+let stopping = false
+async function shutdown(signal: string): Promise<void> {
+  if (stopping) return
+  stopping = true
+  logger.info(`${signal}: shutting down`)
+  const force = setTimeout(() => process.exit(1), 10_000)
+  force.unref()
+  server.close()
+  server.closeIdleConnections()
+  mailer.close()
+  await sequelize.close()
+  process.exit(0)
+}
+process.on('SIGINT', () => void shutdown('SIGINT'))
+process.on('SIGTERM', () => void shutdown('SIGTERM'))

@@ -1,0 +1,59 @@
+import type { Request, Response } from 'express'
+import type { Services } from './services.ts'
+import { dataset, files, loginLimit, measurement, resetLimit, signedIn, star, team, type Guard } from './guards.ts'
+import * as auth from './auth/routes.ts'
+import * as teams from './teams/routes.ts'
+import * as stars from './stars/routes.ts'
+import * as uploads from './uploads/routes.ts'
+import * as measurements from './measurements/routes.ts'
+import * as audit from './audit/routes.ts'
+import * as dev from './dev/routes.ts'
+
+export type Handler = (req: Request, res: Response, s: Services) => Promise<void> | void
+export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: string; guards: Guard[]; handler: Handler }
+
+/**
+ * Every route of the API, with who may call it. `team(role)`, `star(role)`, `dataset(role)` and
+ * `measurement(role)` answer 401 when signed out, 404 outside the user's teams and 403 below `role`.
+ */
+export const routes: Route[] = [
+  { method: 'get', path: '/api/health', guards: [], handler: dev.health },
+
+  { method: 'post', path: '/api/auth/register', guards: [], handler: auth.register },
+  { method: 'post', path: '/api/auth/login', guards: [loginLimit], handler: auth.login },
+  { method: 'post', path: '/api/auth/logout', guards: [], handler: auth.logout },
+  { method: 'get', path: '/api/auth/me', guards: [signedIn], handler: auth.me },
+  { method: 'post', path: '/api/auth/password', guards: [signedIn], handler: auth.changePassword },
+  { method: 'post', path: '/api/auth/reset-request', guards: [resetLimit], handler: auth.resetRequest },
+  { method: 'post', path: '/api/auth/reset', guards: [resetLimit], handler: auth.reset },
+
+  { method: 'get', path: '/api/teams', guards: [signedIn], handler: teams.list },
+  { method: 'post', path: '/api/teams', guards: [signedIn], handler: teams.create },
+  { method: 'get', path: '/api/teams/:teamId', guards: [team('reviewer')], handler: teams.show },
+  { method: 'patch', path: '/api/teams/:teamId/members/:userId', guards: [team('owner')], handler: teams.updateMember },
+  { method: 'delete', path: '/api/teams/:teamId/members/:userId', guards: [team('owner')], handler: teams.removeMember },
+  { method: 'get', path: '/api/teams/:teamId/invitations', guards: [team('owner')], handler: teams.listInvitations },
+  { method: 'post', path: '/api/teams/:teamId/invitations', guards: [team('owner')], handler: teams.invite },
+  { method: 'delete', path: '/api/teams/:teamId/invitations/:invitationId', guards: [team('owner')], handler: teams.revokeInvitation },
+  { method: 'get', path: '/api/invitations/:token', guards: [], handler: teams.showInvitation },
+  { method: 'post', path: '/api/invitations/:token/accept', guards: [signedIn], handler: teams.acceptInvitation },
+
+  { method: 'get', path: '/api/teams/:teamId/stars', guards: [team('reviewer')], handler: stars.list },
+  { method: 'post', path: '/api/teams/:teamId/stars', guards: [team('analyst')], handler: stars.create },
+  { method: 'get', path: '/api/stars/:starId', guards: [star('reviewer')], handler: stars.show },
+  { method: 'patch', path: '/api/stars/:starId', guards: [star('analyst')], handler: stars.update },
+  { method: 'delete', path: '/api/stars/:starId', guards: [star('owner')], handler: stars.archive },
+
+  { method: 'post', path: '/api/stars/:starId/uploads/preview', guards: [star('analyst'), files], handler: uploads.preview },
+  { method: 'post', path: '/api/stars/:starId/uploads/commit', guards: [star('analyst'), files], handler: uploads.commit },
+  { method: 'get', path: '/api/stars/:starId/datasets', guards: [star('reviewer')], handler: uploads.listDatasets },
+  { method: 'get', path: '/api/datasets/:datasetId/raw', guards: [dataset('reviewer')], handler: uploads.raw },
+
+  { method: 'get', path: '/api/stars/:starId/measurements', guards: [star('reviewer')], handler: measurements.list },
+  { method: 'patch', path: '/api/measurements/:measurementId', guards: [measurement('analyst')], handler: measurements.update },
+
+  { method: 'get', path: '/api/teams/:teamId/audit', guards: [team('reviewer')], handler: audit.list },
+
+  { method: 'get', path: '/api/dev/mail', guards: [], handler: dev.mailJson },
+  { method: 'get', path: '/dev/mail', guards: [], handler: dev.mailPage },
+]
