@@ -64,6 +64,10 @@ def make(name, seed, n, baseline, period, amp, nightly, t0=2455000.0):
     idx = np.where(is_max)[0]
     idx = idx[np.argsort(-p[idx])][:5]
     levels = [0.05, 0.1, 0.2, 0.3, 0.5]
+    # astropy 5.2.1 rounds maximum_frequency onto its own autofrequency grid (samples_per_peak=5,
+    # f0 = df/2) before the FAP formula; record the frequency it really uses so the test can pass
+    # the same value (differences are ~1e-4 of fmax).
+    _, fmax_used = ls.autofrequency(maximum_frequency=fmax, return_freq_limits=True)
     faps = [0.1, 0.01, 0.001]
     doc = {
         'name': name,
@@ -76,6 +80,7 @@ def make(name, seed, n, baseline, period, amp, nightly, t0=2455000.0):
         't': t.tolist(), 'y': y.tolist(), 'dy': dy.tolist(),
         'grid': {'f0': f0, 'df': df, 'count': count},
         'maxFrequency': fmax,
+        'astropyFapMaxFrequency': float(fmax_used),
         'powerFloating': p.tolist(),
         'powerClassic': pc.tolist(),
         'scipyClassicEqualErrors': ps.tolist(),

@@ -295,7 +295,7 @@ export interface FastSettings { order: number; fftOversample: number }
  * Defaults measured against the direct sums (tests/shared/rv/periodogram-fast.spec.ts): worst
  * |fast − direct| stayed below 3e-5 of the peak power for N = 20…3000, M = 3000…200 000.
  */
-export const FAST_DEFAULTS: FastSettings = { order: 16, fftOversample: 2 }
+export const FAST_DEFAULTS: FastSettings = { order: 24, fftOversample: 2 }
 
 const fftCache = new Map<number, FFT>()
 function fftOf(size: number): FFT {

@@ -7,6 +7,7 @@ export interface PeriodogramFixture {
   t: number[]; y: number[]; dy: number[]
   grid: { f0: number; df: number; count: number }
   maxFrequency: number
+  astropyFapMaxFrequency: number
   powerFloating: number[]
   powerClassic: number[]
   scipyClassicEqualErrors: number[]
