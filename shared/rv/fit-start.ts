@@ -29,8 +29,11 @@ export interface StartOptions {
   phaseSteps?: number
 }
 
-/** Starting planets at `period`, best first. */
-export function planetStarts(data: RvData, period: number, opts: StartOptions = {}): PlanetStart[] {
+/** A starting planet and the weighted χ² of its grid point (offsets, trend and K solved exactly). */
+export type ScoredStart = PlanetStart & { chi2: number }
+
+/** Starting planets at `period`, best (lowest χ²) first. */
+export function planetStarts(data: RvData, period: number, opts: StartOptions = {}): ScoredStart[] {
   if (!(period > 0)) throw new RangeError(`period must be > 0, got ${period}`)
   const n = data.t.length
   const nInst = data.instrumentNames.length
@@ -77,7 +80,7 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
     return { chi2, coef }
   }
 
-  interface Cand { chi2: number; start: PlanetStart }
+  interface Cand { chi2: number; start: ScoredStart }
   const cands: Cand[] = []
   // circular: cos and sin columns
   {
@@ -91,7 +94,7 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
       const K = Math.hypot(A, B)
       const phi0 = Math.atan2(B, A)
       const tp = epoch + phi0 / f
-      cands.push({ chi2: res.chi2, start: { period, K, e: 0, omegaDeg: 0, tc: tpToTc(tp, period, 0, 0) } })
+      cands.push({ chi2: res.chi2, start: { period, K, e: 0, omegaDeg: 0, tc: tpToTc(tp, period, 0, 0), chi2: res.chi2 } })
     }
   }
   const eccs = opts.eccentricities ?? [0.2, 0.4, 0.6, 0.8]
@@ -111,13 +114,13 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
         if (!res) continue
         let K = res.coef[0], om = omega
         if (K < 0) { K = -K; om = (omega + Math.PI) % TWO_PI }
-        cands.push({ chi2: res.chi2, start: { period, K, e, omegaDeg: om * 180 / Math.PI, tc: tpToTc(tp, period, e, om) } })
+        cands.push({ chi2: res.chi2, start: { period, K, e, omegaDeg: om * 180 / Math.PI, tc: tpToTc(tp, period, e, om), chi2: res.chi2 } })
       }
     }
   }
   cands.sort((a, b) => a.chi2 - b.chi2)
   const count = opts.count ?? 3
-  const out: PlanetStart[] = []
+  const out: ScoredStart[] = []
   const circular = cands.find((c) => c.start.e === 0)
   for (const c of cands) {
     if (out.length >= count) break

@@ -160,7 +160,12 @@ interface Problem {
   model: Float64Array
   resid: Float64Array
   w: Float64Array
+  /** √w, the whitening factors. */
+  sw: Float64Array
+  /** Free-parameter index → planet it belongs to. */
+  owner: Int32Array
   beta: Float64Array
+  linRow: Float64Array
   ata: Float64Array
   atb: Float64Array
   orbits: Keplerian[]
@@ -217,6 +222,8 @@ function buildProblem(data: RvData, opts: FitOptions): { prob: Problem; x0: Floa
     if (!lay.phaseFixed) lay.iTc = push(nearestEpoch(tc, p.period, epoch), 1e-5 * p.period / TWO_PI)
     return lay
   })
+  const ownerOf: number[] = []
+  layouts.forEach((L, k) => { for (const i of [L.iP, L.iK, L.iA, L.iB, L.iTc]) if (i >= 0) ownerOf[i] = k })
   const priors = opts.priors ?? []
   priors.forEach((pr, j) => {
     if (!(pr.planet >= 0 && pr.planet < layouts.length)) throw new RangeError(`priors[${j}].planet out of range`)
@@ -231,10 +238,12 @@ function buildProblem(data: RvData, opts: FitOptions): { prob: Problem; x0: Floa
   }
   const prob: Problem = {
     data, n, epoch, trend, nInst, nLin, layouts, nFree: x.length, scales: Float64Array.from(scales), priors, jitterFixed,
-    model: new Float64Array(n), resid: new Float64Array(n), w: new Float64Array(n), beta: new Float64Array(nLin),
+    model: new Float64Array(n), resid: new Float64Array(n), w: new Float64Array(n), sw: new Float64Array(n),
+    owner: new Int32Array(x.length), beta: new Float64Array(nLin), linRow: new Float64Array(nLin),
     ata: new Float64Array(nLin * nLin), atb: new Float64Array(nLin),
     orbits: layouts.map(() => ({ period: 1, K: 0, e: 0, omega: 0, tp: 0 })),
   }
+  prob.owner.set(ownerOf)
   return { prob, x0: Float64Array.from(x) }
 }
 
@@ -281,12 +290,7 @@ function priorValue(p: ReturnType<typeof unpack>, param: PlanetParam): number {
 /** Keplerian model (no offsets/trend) into prob.model. */
 function keplerModel(prob: Problem, x: ArrayLike<number>, out: Float64Array): void {
   out.fill(0)
-  for (let k = 0; k < prob.layouts.length; k++) {
-    const p = unpack(prob, x, k)
-    const o = prob.orbits[k]
-    o.period = p.period; o.K = p.K; o.e = p.e; o.omega = p.omega; o.tp = p.tp
-    addKeplerian(prob.data.t, o, out)
-  }
+  for (let k = 0; k < prob.layouts.length; k++) addPlanet(prob, x, k, out)
 }
 
 /** Design-matrix entry j of the linear part for row i. */
@@ -304,7 +308,7 @@ function solveLinear(prob: Problem, kep: Float64Array): boolean {
   const { n, nLin, nInst, ata, atb, beta, w, resid } = prob
   const { y, t, instrument } = prob.data
   ata.fill(0); atb.fill(0)
-  const cols = new Float64Array(nLin)
+  const cols = prob.linRow
   for (let i = 0; i < n; i++) {
     const r0 = y[i] - kep[i]
     const wi = w[i]
@@ -343,7 +347,11 @@ function solveLinear(prob: Problem, kep: Float64Array): boolean {
 
 function setWeights(prob: Problem, jit: ArrayLike<number>): void {
   const { dy, instrument } = prob.data
-  for (let i = 0; i < prob.n; i++) { const s = jit[instrument[i]]; prob.w[i] = 1 / (dy[i] * dy[i] + s * s) }
+  for (let i = 0; i < prob.n; i++) {
+    const s = jit[instrument[i]]
+    prob.w[i] = 1 / (dy[i] * dy[i] + s * s)
+    prob.sw[i] = Math.sqrt(prob.w[i])
+  }
 }
 
 /**
@@ -351,16 +359,25 @@ function setWeights(prob: Problem, jit: ArrayLike<number>): void {
  * cost Σ rᵢ² or Infinity outside a uniform prior or when the linear solve fails.
  */
 function residualVector(prob: Problem, x: Float64Array, out: Float64Array, kep: Float64Array): number {
-  for (let j = 0; j < prob.priors.length; j++) {
-    const pr = prob.priors[j]
+  if (!insideUniformPriors(prob, x)) return Infinity
+  keplerModel(prob, x, kep)
+  return residualFromModel(prob, x, kep, out)
+}
+
+function insideUniformPriors(prob: Problem, x: Float64Array): boolean {
+  for (const pr of prob.priors) {
     if (!pr.uniform) continue
     const v = priorValue(unpack(prob, x, pr.planet), pr.param)
-    if (v < pr.uniform.min || v > pr.uniform.max) return Infinity
+    if (v < pr.uniform.min || v > pr.uniform.max) return false
   }
-  keplerModel(prob, x, kep)
+  return true
+}
+
+/** Whitened residuals and cost given the Keplerian model `kep` at x. */
+function residualFromModel(prob: Problem, x: Float64Array, kep: Float64Array, out: Float64Array): number {
   if (!solveLinear(prob, kep)) return Infinity
   let cost = 0
-  for (let i = 0; i < prob.n; i++) { const r = prob.resid[i] * Math.sqrt(prob.w[i]); out[i] = r; cost += r * r }
+  for (let i = 0; i < prob.n; i++) { const r = prob.resid[i] * prob.sw[i]; out[i] = r; cost += r * r }
   let m = prob.n
   for (const pr of prob.priors) {
     if (!pr.gaussian) continue
@@ -373,6 +390,13 @@ function residualVector(prob: Problem, x: Float64Array, out: Float64Array, kep: 
   return Number.isFinite(cost) ? cost : Infinity
 }
 
+/** Model of planet k alone at x, added into out. */
+function addPlanet(prob: Problem, x: ArrayLike<number>, k: number, out: Float64Array): void {
+  const p = unpack(prob, x, k)
+  const o = prob.orbits[k]
+  o.period = p.period; o.K = p.K; o.e = p.e; o.omega = p.omega; o.tp = p.tp
+  addKeplerian(prob.data.t, o, out)
+}
 
 function nGaussianPriors(prob: Problem): number {
   let c = 0
@@ -394,7 +418,9 @@ function levenbergMarquardt(prob: Problem, x0: Float64Array, maxIter: number, ho
   const nf = prob.nFree
   const m = prob.n + nGaussianPriors(prob)
   const r = new Float64Array(m), rt = new Float64Array(m)
-  const kep = new Float64Array(prob.n)
+  const kep = new Float64Array(prob.n), kepAll = new Float64Array(prob.n)
+  const nPl = prob.layouts.length
+  const perPlanet = Array.from({ length: nPl }, () => new Float64Array(prob.n))
   const J = new Float64Array(m * nf)
   const x = Float64Array.from(x0)
   project(prob, x)
@@ -404,6 +430,7 @@ function levenbergMarquardt(prob: Problem, x0: Float64Array, maxIter: number, ho
   // Jitter half-step: ML jitters at the current residuals, then the cost at the new weights.
   const updateJitter = (): number => {
     if (!hook) return 0
+    residualVector(prob, x, r, kep) // prob.resid at x (trial steps overwrite it)
     const change = hook()
     cost = residualVector(prob, x, r, kep)
     history.push(cost + norm())
@@ -421,14 +448,23 @@ function levenbergMarquardt(prob: Problem, x0: Float64Array, maxIter: number, ho
   let iter = 0
   let status: LmOutcome['status'] = 'max-iterations'
   outer: for (; iter < maxIter; iter++) {
-    // Jacobian by forward differences
+    // Jacobian by forward differences; only the planet owning parameter j is recomputed
+    keplerModel(prob, x, kepAll)
+    for (let k = 0; k < nPl; k++) { const c = perPlanet[k]; c.fill(0); addPlanet(prob, x, k, c) }
     for (let j = 0; j < nf; j++) {
-      xt.set(x)
+      const k = prob.owner[j]
       const h = prob.scales[j]
-      xt[j] += h
-      const c = residualVector(prob, xt, rt, kep)
       let hh = h
-      if (!Number.isFinite(c)) { xt[j] = x[j] - h; residualVector(prob, xt, rt, kep); hh = -h }
+      for (let pass = 0; pass < 2; pass++) {
+        xt.set(x)
+        xt[j] += hh
+        const own = perPlanet[k]
+        for (let i = 0; i < prob.n; i++) kep[i] = kepAll[i] - own[i]
+        addPlanet(prob, xt, k, kep)
+        const c = insideUniformPriors(prob, xt) ? residualFromModel(prob, xt, kep, rt) : Infinity
+        if (Number.isFinite(c)) break
+        hh = -h
+      }
       for (let i = 0; i < m; i++) J[i * nf + j] = (rt[i] - r[i]) / hh
     }
     H.fill(0); g.fill(0)
@@ -601,7 +637,7 @@ function assemble(
   const np = nFree + nLin
   const F = new Float64Array(np * np)
   let covOk = false
-  let cov = new Float64Array(np * np).fill(NaN)
+  let cov: Float64Array = new Float64Array(np * np).fill(NaN)
   if (!skipUnc && linOk && status !== 'failed') {
     const cols = new Float64Array(n * np)
     const up = new Float64Array(n), dn = new Float64Array(n)

@@ -8,7 +8,7 @@
  */
 import { periodogram, findPeaks } from './periodogram.ts'
 import { fitKeplerians, type FitResult, type PlanetStart, type TrendKind } from './fit.ts'
-import { planetStarts } from './fit-start.ts'
+import { planetStarts, type ScoredStart } from './fit-start.ts'
 import { tcToTp, type Keplerian } from './model.ts'
 import { checkRvData, type RvData } from './fit-data.ts'
 
@@ -25,8 +25,10 @@ export interface SearchOptions {
   minPeriod?: number
   maxPeriod?: number
   oversample?: number
-  /** Periodogram peaks tried as the period of each new planet (default 2). */
+  /** Periodogram peaks screened as the period of each new planet (default 6). */
   peaksPerStep?: number
+  /** Screened starts refined by the non-linear fit at each step (default 4). */
+  startsPerStep?: number
   epoch?: number
 }
 
@@ -75,7 +77,8 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const fapThreshold = opts.fapThreshold ?? 1e-3
   const bicThreshold = opts.bicThreshold ?? 10
   const maxPlanets = mode === 'auto' ? (opts.maxPlanets ?? 6) : mode
-  const peaksPerStep = opts.peaksPerStep ?? 2
+  const peaksPerStep = opts.peaksPerStep ?? 6
+  const startsPerStep = opts.startsPerStep ?? 4
   const trends = trendOpt === 'auto' ? TRENDS : [trendOpt]
   let epoch = opts.epoch
   if (epoch === undefined) { let s = 0; for (const t of data.t) s += t; epoch = s / Math.max(1, data.t.length) }
@@ -106,19 +109,29 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     for (let i = 0; i < dyEff.length; i++) { const s = cur.instruments[data.instrument[i]].jitter; dyEff[i] = Math.sqrt(data.dy[i] ** 2 + s * s) }
     const pg = periodogram(data.t, cur.residuals, dyEff, { minPeriod: opts.minPeriod, maxPeriod: opts.maxPeriod, oversample: opts.oversample })
     const peaks = findPeaks(data.t, cur.residuals, dyEff, pg, { count: Math.max(peaksPerStep, 1) })
+      .sort((a, b) => b.power - a.power)
     if (!peaks.length) break
     step.nextPeakFap = peaks[0].fap
     step.nextPeakPeriod = peaks[0].period
     if (mode === 'auto' && !(peaks[0].fap <= fapThreshold)) break
     const jitter = cur.instruments.map((i) => i.jitter)
-    // multi-start with the current best trend
+    // Screen the top peaks on the (e, ω, phase) grid — a sinusoid's periodogram can rank an
+    // eccentric orbit's true period below its harmonics — then refine the best starts.
+    const screened: ScoredStart[] = []
+    const others = toOrbits(cur)
+    peaks.slice(0, peaksPerStep).forEach((pk, rank) => {
+      const starts = planetStarts(data, pk.period, { others, jitter, trend: curTrend, epoch, count: 2 })
+      // the strongest peak always gets a refinement
+      if (rank === 0 && starts.length) starts[0].chi2 = -Infinity
+      screened.push(...starts)
+    })
+    screened.sort((a, b) => a.chi2 - b.chi2)
     let best: FitResult | null = null
-    for (const pk of peaks.slice(0, peaksPerStep)) {
-      const starts = planetStarts(data, pk.period, { others: toOrbits(cur), jitter, trend: curTrend, epoch })
-      for (const s of starts) {
-        const f = fitKeplerians(data, { planets: [...toStarts(cur), s], trend: curTrend, epoch, jitterStart: jitter, skipUncertainties: true })
-        if (better(best, f)) best = f
-      }
+    for (const s of screened.slice(0, startsPerStep)) {
+      const { chi2: _c, ...start } = s
+      void _c
+      const f = fitKeplerians(data, { planets: [...toStarts(cur), start], trend: curTrend, epoch, jitterStart: jitter, skipUncertainties: true })
+      if (better(best, f)) best = f
     }
     if (!best) break
     const next = new Map<TrendKind, FitResult>()

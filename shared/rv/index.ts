@@ -1,0 +1,15 @@
+/** Public API of Starsway's numerical core (re-exports only; helpers stay private). */
+export { GM_SUN, GM_JUPITER, GM_EARTH, AU, DAY, G, M_SUN_KG } from './constants.ts'
+export {
+  solveKepler, solveKeplerArray, trueAnomaly, trueAnomalyArray, eccentricFromTrue, wrapPi, KEPLER_TOLERANCE,
+} from './kepler.ts'
+export { type Keplerian, radialVelocity, radialVelocityAt, addKeplerian, tpToTc, tcToTp, nearestEpoch } from './model.ts'
+export { type RvData, type RvRowsInput, toRvData, checkRvData, baseline } from './fit-data.ts'
+export {
+  type TrendKind, type PlanetParam, type PlanetStart, type Prior, type FitOptions, type PlanetFit,
+  type InstrumentFit, type FitStats, type FitResult, fitKeplerians, fitBaseline, jitterMle, E_MAX,
+} from './fit.ts'
+export { type StartOptions, type ScoredStart, planetStarts } from './fit-start.ts'
+export { type SearchOptions, type SearchStep, type SearchResult, searchPlanets } from './search.ts'
+export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiMajorAxis, derivedPlanet } from './derived.ts'
+export * from './periodogram.ts'
