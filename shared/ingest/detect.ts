@@ -20,6 +20,8 @@ interface ColumnStats {
   distinct: Map<string, number>
 }
 
+const ROLE_NAMES: Record<string, string> = { time: 'time', rv: 'velocity', error: 'error', instrument: 'instrument' }
+
 const DELIMITER_NAMES: Record<Delimiter, string> = { ',': 'comma', '\t': 'tab', ';': 'semicolon', whitespace: 'whitespace' }
 
 function mode(values: number[]): { value: number; share: number } {
@@ -40,7 +42,7 @@ function median(values: number[]): number {
 
 /**
  * Choose the delimiter whose split gives the same number (≥ 2) of fields on at least 80% of the
- * sampled lines and the most numeric cells per line; ties go to tab, then semicolon, comma, whitespace.
+ * sampled lines after the first and the most numeric cells per line; ties go to tab, then semicolon, comma, whitespace.
  */
 function chooseDelimiter(lines: string[]): { delimiter: Delimiter; why: string } {
   let best: { d: Delimiter; numeric: number; fields: number } | null = null
@@ -52,7 +54,8 @@ function chooseDelimiter(lines: string[]): { delimiter: Delimiter; why: string }
       counts.push(cells.length)
       for (const c of cells) if (!Number.isNaN(parseNumber(c, d !== ','))) numeric++
     }
-    const m = mode(counts)
+    // The first line may be a header with its own field count: judge consistency on the rest.
+    const m = mode(counts.length >= 3 ? counts.slice(1) : counts)
     if (m.value < 2 || m.share < 0.8) continue
     const perLine = numeric / lines.length
     if (!best || perLine > best.numeric + 1e-9) best = { d, numeric: perLine, fields: m.value }
@@ -62,7 +65,7 @@ function chooseDelimiter(lines: string[]): { delimiter: Delimiter; why: string }
 }
 
 function isNameLike(token: string): boolean {
-  return /^[A-Za-z_σαΔδ][^\s]*$/.test(token) && Number.isNaN(parseNumber(token))
+  return /^[A-Za-z_σαΔδ]/.test(token) && !/^\S+:$/.test(token) && Number.isNaN(parseNumber(token))
 }
 
 /** In a whitespace-split header, fold unit tokens ("[m/s]", "(km/s)", "m/s") into the name before them. */
@@ -179,7 +182,7 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
       if (Number.isNaN(num(c))) t++
       else n++
     }
-    bodyNumeric.push(n > 0 && n >= 0.9 * (n + t))
+    bodyNumeric.push(n > 0 && n >= 0.5 * (n + t))
   }
   const isPreamble = (row: string[]): boolean => {
     let text = 0
@@ -227,7 +230,7 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
       if (tokens.length > columnCount) tokens = mergeUnitTokens(tokens)
       const named = tokens.every(t => isNameLike(t))
       const roles = tokens.map(t => readName(t).role).filter(r => r === 'time' || r === 'rv' || r === 'error').length
-      if (named && (tokens.length === columnCount || (tokens.length >= 2 && tokens.length < columnCount && roles >= 2))) {
+      if (named && ((tokens.length === columnCount && roles >= 1) || (tokens.length >= 2 && tokens.length < columnCount && roles >= 2))) {
         headerNames = tokens
         headerFromComment = true
         headerLine = i + 1
@@ -256,7 +259,7 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
       } else { s.numeric++; s.values.push(v) }
     }
   }
-  const isNumeric = stats.map(s => s.numeric > 0 && s.numeric >= 0.9 * (s.numeric + s.text))
+  const isNumeric = stats.map(s => s.numeric > 0 && s.numeric >= 0.5 * (s.numeric + s.text))
   if (!isNumeric.some(Boolean)) {
     throw new IngestError('no_numeric_columns', 'No column holds numbers. A velocity table needs numeric time, velocity and error columns (check the delimiter and the decimal separator).')
   }
@@ -272,15 +275,15 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
       if (roles[j] !== role) continue
       const needsNumbers = role !== 'instrument'
       if (needsNumbers && !isNumeric[j]) {
-        notes.push(`'${names[j]}' looks like the ${role} column by its name but does not hold numbers; ignored`)
+        notes.push(`'${names[j]}' looks like the ${ROLE_NAMES[role]} column by its name but does not hold numbers; ignored`)
         roles[j] = 'ignore'
       } else if (first >= 0) {
-        notes.push(`'${names[j]}' also looks like a ${role} column; '${names[first]}' is used, this one kept as an indicator`)
+        notes.push(`'${names[j]}' also looks like a ${ROLE_NAMES[role]} column; '${names[first]}' is used, this one kept as an indicator`)
         roles[j] = isNumeric[j] ? 'indicator' : 'ignore'
         indicatorKeys[j] = indicatorKey(names[j]!)
       } else first = j
     }
-    if (first >= 0) notes.push(`'${names[first]}' is the ${role} column (by its name)`)
+    if (first >= 0) notes.push(`'${names[first]}' is the ${ROLE_NAMES[role]} column (by its name)`)
   }
 
   // Hints override names.
@@ -289,11 +292,11 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
     const old = taken(role)
     if (old >= 0) roles[old] = isNumeric[old] && role !== 'instrument' ? 'indicator' : 'ignore'
     if (old >= 0 && roles[old] === 'indicator') indicatorKeys[old] = indicatorKey(names[old]!)
-    if (ref === null) { notes.push(`no ${role} column, as given`); return }
+    if (ref === null) { notes.push(`no ${ROLE_NAMES[role]} column, as given`); return }
     const j = resolveRef(ref, names, role)
-    if (role !== 'instrument' && !isNumeric[j]) throw new IngestError('bad_hint', `${role} column '${names[j]}' does not hold numbers`, role)
+    if (role !== 'instrument' && !isNumeric[j]) throw new IngestError('bad_hint', `${ROLE_NAMES[role]} column '${names[j]}' does not hold numbers`, role)
     roles[j] = role
-    notes.push(`'${names[j]}' is the ${role} column, as given`)
+    notes.push(`'${names[j]}' is the ${ROLE_NAMES[role]} column, as given`)
   }
   applyHint('time', hints.time)
   applyHint('rv', hints.rv)
@@ -309,10 +312,8 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
     if (j >= 0) { roles[j] = 'time'; notes.push(`'${names[j]}' is the time column (${headerNames ? 'first numeric column without a known name' : 'by position'})`) }
   }
   if (taken('rv') < 0 && hints.rv === undefined) {
-    const t = taken('time')
     let j = -1
-    for (let k = t + 1; k < columnCount; k++) if (free(k)) { j = k; break }
-    if (j < 0) for (let k = 0; k < columnCount; k++) if (free(k)) { j = k; break }
+    for (let k = 0; k < columnCount; k++) if (free(k)) { j = k; break }
     if (j >= 0) { roles[j] = 'rv'; notes.push(`'${names[j]}' is the velocity column (${headerNames ? 'next numeric column without a known name' : 'by position'})`) }
   }
   if (taken('time') < 0) {
@@ -327,9 +328,11 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
     for (let k = taken('rv') + 1; k < columnCount; k++) if (free(k)) { j = k; break }
     if (j >= 0) {
       const v = stats[j]!.values
-      const allPositive = v.length > 0 && v.every(x => x > 0)
-      if (allPositive) { roles[j] = 'error'; notes.push(`'${names[j]}' is the error column (${headerNames ? 'numeric column after the velocity, all values positive' : 'by position; all values positive'})`) }
-      else notes.push(`'${names[j]}' follows the velocity but has values ≤ 0, so it is not taken as the error column`)
+      const positive = v.filter(x => x > 0).length
+      if (v.length > 0 && positive >= 0.9 * v.length) {
+        roles[j] = 'error'
+        notes.push(`'${names[j]}' is the error column (${headerNames ? 'the numeric column after the velocity' : 'by position'}; ${positive === v.length ? 'all values positive' : `${v.length - positive} values ≤ 0 are reported as row problems`})`)
+      } else notes.push(`'${names[j]}' follows the velocity but has many values ≤ 0, so it is not taken as the error column`)
     }
   }
   if (taken('error') < 0) notes.push('no error column: give one error for all rows (defaultError), or mark the error column')

@@ -43,11 +43,11 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
 
   const { delimiter } = mapping
   const decimalComma = mapping.decimalComma === true
-  const width = mapping.columns.length
+  const width = Math.max(...mapping.columns.map(c => c.index)) + 1
   const offset = TIME_OFFSETS[mapping.timeFormat]
   const scale = m.scale
   const pow10 = scale === 1000 ? 3 : 0
-  const defaultError = mapping.defaultError
+  const defaultError = (mapping.defaultError ?? NaN) * scale
   const baseInstrument = (mapping.instrument ?? DEFAULT_INSTRUMENT).trim()
   const split = splitter(mapping.splitDates)
   let toSkip = (mapping.hasHeader ? 1 : 0) + (mapping.skipRows ?? 0)
@@ -56,8 +56,15 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   const problems: RowProblem[] = []
   let problemCount = 0
   const counts = new Map<string, number>()
-  const seen = new Map<string, number>()
+  const seen = new Map<number, Array<{ rv: number; instrument: string; line: number }>>()
   const add = (p: RowProblem): void => { problemCount++; if (problems.length < maxProblems) problems.push(p) }
+  const readNumber = (cells: string[], col: { index: number; name: string }, what: string, pow: number, line: number): number => {
+    const c = cells[col.index] ?? ''
+    if (c === '') { add({ line, column: col.name, message: `missing ${what}` }); return NaN }
+    const v = parseNumber(c, decimalComma, pow)
+    if (Number.isNaN(v)) add({ line, column: col.name, message: `${what} ${show(c)} is not a number` })
+    return v
+  }
   let rowsRead = 0
   let truncated = false
   const lines = splitLines(text)
@@ -81,46 +88,39 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       add({ line: lineNo, message: `too many fields: found ${cells.length}, expected ${width} (a stray delimiter, or a name with a space?)` })
       continue
     }
-    let ok = true
-    const numberAt = (col: { index: number; name: string }, what: string, pow10 = 0): number => {
-      const c = cells[col.index] ?? ''
-      if (c === '') { ok = false; add({ line: lineNo, column: col.name, message: `missing ${what}` }); return NaN }
-      const v = parseNumber(c, decimalComma, pow10)
-      if (Number.isNaN(v)) { ok = false; add({ line: lineNo, column: col.name, message: `${what} ${show(c)} is not a number` }) }
-      return v
-    }
-    const t = numberAt(m.time, 'time')
-    const rv = numberAt(m.rv, 'velocity', pow10)
-    let err: number
+    const before = problemCount
+    const t = readNumber(cells, m.time, 'time', 0, lineNo)
+    const rv = readNumber(cells, m.rv, 'velocity', pow10, lineNo)
+    let err = defaultError
     if (m.error) {
-      err = numberAt(m.error, 'error', pow10)
-      if (!Number.isNaN(err) && !(err > 0)) { ok = false; add({ line: lineNo, column: m.error.name, message: `error must be positive (found ${cells[m.error.index]})` }) }
-    } else err = defaultError! * scale
+      err = readNumber(cells, m.error, 'error', pow10, lineNo)
+      if (!Number.isNaN(err) && !(err > 0)) add({ line: lineNo, column: m.error.name, message: `error must be positive (found ${cells[m.error.index]})` })
+    }
     let instrument = baseInstrument
     if (m.instrument) {
       instrument = cells[m.instrument.index] ?? ''
-      if (instrument === '') { ok = false; add({ line: lineNo, column: m.instrument.name, message: 'missing instrument name' }) }
+      if (instrument === '') add({ line: lineNo, column: m.instrument.name, message: 'missing instrument name' })
     }
     const indicators: Record<string, number> = {}
     for (const ind of m.indicators) {
       const c = cells[ind.column.index]
       if (c === undefined || isMissing(c)) continue
       const v = parseNumber(c, decimalComma, ind.pow10)
-      if (Number.isNaN(v)) { ok = false; add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` }) }
+      if (Number.isNaN(v)) add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` })
       else indicators[ind.key] = v
     }
-    if (!ok) continue
+    if (problemCount !== before) continue
     const time = t + offset
     if (split) instrument = split(instrument, time)
-    const velocity = rv
-    const key = `${instrument}\u0001${time}\u0001${velocity}`
-    const first = seen.get(key)
-    if (first !== undefined) {
-      add({ line: lineNo, message: `duplicate of line ${first} (same time, velocity and instrument)` })
+    const same = seen.get(time)
+    const dup = same?.find(o => o.rv === rv && o.instrument === instrument)
+    if (dup) {
+      add({ line: lineNo, message: `duplicate of line ${dup.line} (same time, velocity and instrument)` })
       continue
     }
-    seen.set(key, lineNo)
-    rows.push({ line: lineNo, time, rv: velocity, error: err, instrument, indicators })
+    if (same) same.push({ rv, instrument, line: lineNo })
+    else seen.set(time, [{ rv, instrument, line: lineNo }])
+    rows.push({ line: lineNo, time, rv, error: err, instrument, indicators })
     counts.set(instrument, (counts.get(instrument) ?? 0) + 1)
   }
   const instruments = [...counts].map(([name, count]) => ({ name, count }))

@@ -41,16 +41,28 @@ function unquote(cell: string): string {
   return c
 }
 
-const WS = /[ \t]+/
+/** Split on runs of spaces/tabs (a hand loop: several times faster than a regex split). */
+function splitWhitespace(l: string): string[] {
+  const out: string[] = []
+  const n = l.length
+  let i = 0
+  while (i < n) {
+    let c = l.charCodeAt(i)
+    while (i < n && (c === 32 || c === 9 || c === 12 || c === 11)) c = l.charCodeAt(++i)
+    if (i >= n) break
+    const start = i
+    while (i < n && c !== 32 && c !== 9 && c !== 12 && c !== 11) c = l.charCodeAt(++i)
+    out.push(l.slice(start, i))
+  }
+  return out
+}
 
 /** Split one line into trimmed, unquoted cells. Quoted fields in delimited lines are read by papaparse. */
 export function splitCells(line: string, delimiter: Delimiter): string[] {
   const l = stripInlineComment(line)
   if (delimiter === 'whitespace') {
-    const t = l.trim()
-    if (t === '') return []
-    if (!t.includes('"')) return t.split(WS)
-    return splitQuotedWhitespace(t)
+    if (l.includes('"')) return splitQuotedWhitespace(l.trim())
+    return splitWhitespace(l)
   }
   if (l.includes('"')) {
     const r = Papa.parse<string[]>(l, { delimiter, quoteChar: '"', header: false })
@@ -59,8 +71,6 @@ export function splitCells(line: string, delimiter: Delimiter): string[] {
   }
   const parts = l.split(delimiter)
   for (let i = 0; i < parts.length; i++) parts[i] = unquote(parts[i]!)
-  // A trailing delimiter leaves one empty cell: drop it so "1,2,3," reads as three cells.
-  if (parts.length > 1 && parts[parts.length - 1] === '') parts.pop()
   return parts
 }
 
