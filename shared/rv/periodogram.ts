@@ -5,8 +5,8 @@
  */
 export {
   type PeriodogramOptions, type FrequencyGrid, type PeriodogramResult, type FastSettings,
-  frequencyGrid, periodogram, periodogramDirect, periodogramFast, gls, chooseMethod,
-  AUTO_DIRECT_MAX_WORK, FAST_DEFAULTS,
+  frequencyGrid, periodogram, periodogramDirect, periodogramFast, gls, chooseMethod, estimateCostNs,
+  releasePeriodogramBuffers, MAX_FREQUENCIES, FAST_DEFAULTS,
 } from './periodogram-core.ts'
 export { type Peak, type Alias, type FindPeaksOptions, findPeaks, ALIAS_SOURCES } from './periodogram-peaks.ts'
 export { type FapOptions, type BootstrapOptions, baluevFap, falseAlarmLevel, bootstrapFap, lnGamma } from './fap.ts'
