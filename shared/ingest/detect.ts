@@ -136,6 +136,10 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
       : 'The file is empty. Upload a table with one row per measurement.')
   }
 
+  if (dataIdx.length === 1 && !/\d/.test(lines[dataIdx[0]!]!)) {
+    throw new IngestError('empty', 'The file has a header line but no data rows. Upload a table with one row per measurement.')
+  }
+
   // Delimiter.
   let delimiter: Delimiter
   if (hints.delimiter) { delimiter = hints.delimiter; notes.push(`delimiter ${DELIMITER_NAMES[delimiter]}, as given`) }

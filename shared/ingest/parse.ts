@@ -56,7 +56,7 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   const problems: RowProblem[] = []
   let problemCount = 0
   const counts = new Map<string, number>()
-  const seen = new Map<number, Array<{ rv: number; instrument: string; line: number }>>()
+  const seen = new Map<number, number | number[]>()
   const add = (p: RowProblem): void => { problemCount++; if (problems.length < maxProblems) problems.push(p) }
   const readNumber = (cells: string[], col: { index: number; name: string }, what: string, pow: number, line: number): number => {
     const c = cells[col.index] ?? ''
@@ -104,22 +104,26 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
     const indicators: Record<string, number> = {}
     for (const ind of m.indicators) {
       const c = cells[ind.column.index]
-      if (c === undefined || isMissing(c)) continue
+      if (c === undefined) continue
       const v = parseNumber(c, decimalComma, ind.pow10)
-      if (Number.isNaN(v)) add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` })
-      else indicators[ind.key] = v
+      if (!Number.isNaN(v)) indicators[ind.key] = v
+      else if (!isMissing(c)) add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` })
     }
     if (problemCount !== before) continue
     const time = t + offset
     if (split) instrument = split(instrument, time)
+    // Rows by time: one row index, or a list when several rows share a time.
     const same = seen.get(time)
-    const dup = same?.find(o => o.rv === rv && o.instrument === instrument)
-    if (dup) {
-      add({ line: lineNo, message: `duplicate of line ${dup.line} (same time, velocity and instrument)` })
-      continue
-    }
-    if (same) same.push({ rv, instrument, line: lineNo })
-    else seen.set(time, [{ rv, instrument, line: lineNo }])
+    if (same !== undefined) {
+      const list = typeof same === 'number' ? [same] : same
+      const dup = list.find(k => rows[k]!.rv === rv && rows[k]!.instrument === instrument)
+      if (dup !== undefined) {
+        add({ line: lineNo, message: `duplicate of line ${rows[dup]!.line} (same time, velocity and instrument)` })
+        continue
+      }
+      list.push(rows.length)
+      seen.set(time, list)
+    } else seen.set(time, rows.length)
     rows.push({ line: lineNo, time, rv, error: err, instrument, indicators })
     counts.set(instrument, (counts.get(instrument) ?? 0) + 1)
   }

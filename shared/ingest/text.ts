@@ -4,20 +4,30 @@ import type { Delimiter } from './types.ts'
 
 /** Split text into lines on \n, \r\n or \r. Index i is line i + 1. */
 export function splitLines(text: string): string[] {
-  const lines = text.split(/\r\n|\n|\r/)
+  const lines = text.includes('\r') ? text.split(/\r\n|\n|\r/) : text.split('\n')
   if (lines.length > 0 && lines[lines.length - 1] === '') lines.pop()
   return lines
 }
 
+/** Index of the first character that is not a space or tab (line.length when none). */
+function firstInk(line: string): number {
+  let i = 0
+  while (i < line.length) {
+    const c = line.charCodeAt(i)
+    if (c !== 32 && c !== 9 && c !== 11 && c !== 12 && c !== 13 && c !== 0xa0 && c !== 0xfeff) break
+    i++
+  }
+  return i
+}
+
 export function isBlank(line: string): boolean {
-  return line.trim() === ''
+  return firstInk(line) === line.length
 }
 
 /** The comment prefix of a line ('#', '!', '%'), or null. */
 export function commentPrefix(line: string): string | null {
-  const t = line.trimStart()
-  for (const p of COMMENT_PREFIXES) if (t.startsWith(p)) return p
-  return null
+  const c = line[firstInk(line)]
+  return c !== undefined && (COMMENT_PREFIXES as readonly string[]).includes(c) ? c : null
 }
 
 /** Text of a comment line without its prefix characters. */
