@@ -131,6 +131,10 @@ export class AuditEntry extends Model<InferAttributes<AuditEntry>, InferCreation
   declare user?: NonAttribute<User | null>
 }
 
+const UserModel = User, TeamModel = Team, MembershipModel = Membership, InvitationModel = Invitation
+const PasswordResetModel = PasswordReset, StarModel = Star, RawFileModel = RawFile, DatasetModel = Dataset
+const MeasurementModel = Measurement, AuditEntryModel = AuditEntry
+
 export interface Models {
   User: typeof User; Team: typeof Team; Membership: typeof Membership; Invitation: typeof Invitation
   PasswordReset: typeof PasswordReset; Star: typeof Star; RawFile: typeof RawFile; Dataset: typeof Dataset
@@ -145,57 +149,68 @@ const roleType = DataTypes.ENUM('owner', 'analyst', 'reviewer')
  * file its own process). The schema itself comes from the migrations, never from sync().
  */
 export function initModels(sequelize: Sequelize): Models {
+  // Fresh subclasses per Sequelize instance, so two apps (two databases) can live in one process.
+  const User = class extends UserModel {}
+  const Team = class extends TeamModel {}
+  const Membership = class extends MembershipModel {}
+  const Invitation = class extends InvitationModel {}
+  const PasswordReset = class extends PasswordResetModel {}
+  const Star = class extends StarModel {}
+  const RawFile = class extends RawFileModel {}
+  const Dataset = class extends DatasetModel {}
+  const Measurement = class extends MeasurementModel {}
+  const AuditEntry = class extends AuditEntryModel {}
   const base = { sequelize, underscored: true }
   User.init({
     id: pk, email: { type: DataTypes.STRING, allowNull: false }, name: { type: DataTypes.STRING, allowNull: false },
     passwordHash: { type: DataTypes.STRING, allowNull: false }, tokenVersion: { type: DataTypes.INTEGER, defaultValue: 0 },
     createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'users' })
+  }, { ...base, modelName: 'User', tableName: 'users' })
   Team.init({ id: pk, name: { type: DataTypes.STRING, allowNull: false }, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE },
-    { ...base, tableName: 'teams' })
+    { ...base, modelName: 'Team', tableName: 'teams' })
   Membership.init({ id: pk, role: { type: roleType, allowNull: false }, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE },
-    { ...base, tableName: 'memberships' })
+    { ...base, modelName: 'Membership', tableName: 'memberships' })
   Invitation.init({
     id: pk, email: { type: DataTypes.STRING, allowNull: false }, role: { type: roleType, allowNull: false },
     tokenHash: { type: DataTypes.STRING, allowNull: false }, expiresAt: { type: DataTypes.DATE, allowNull: false },
     acceptedAt: DataTypes.DATE, invitedBy: DataTypes.INTEGER, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'invitations' })
+  }, { ...base, modelName: 'Invitation', tableName: 'invitations' })
   PasswordReset.init({
     id: pk, tokenHash: { type: DataTypes.STRING, allowNull: false }, expiresAt: { type: DataTypes.DATE, allowNull: false },
     usedAt: DataTypes.DATE, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'password_resets' })
+  }, { ...base, modelName: 'PasswordReset', tableName: 'password_resets' })
   Star.init({
     id: pk, name: { type: DataTypes.STRING, allowNull: false },
     massMsun: { type: DataTypes.DOUBLE, allowNull: false }, massErrMsun: { type: DataTypes.DOUBLE, allowNull: false },
     radiusRsun: DataTypes.DOUBLE, teffK: DataTypes.DOUBLE, luminosityLsun: DataTypes.DOUBLE,
     raDeg: DataTypes.DOUBLE, decDeg: DataTypes.DOUBLE, notes: DataTypes.TEXT, archivedAt: DataTypes.DATE,
     createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'stars' })
+  }, { ...base, modelName: 'Star', tableName: 'stars' })
   RawFile.init({
     id: pk, fileName: { type: DataTypes.STRING, allowNull: false }, size: { type: DataTypes.INTEGER, allowNull: false },
     sha256: { type: DataTypes.STRING, allowNull: false }, bytes: { type: DataTypes.BLOB, allowNull: false },
     uploadedBy: DataTypes.INTEGER, createdAt: DataTypes.DATE,
-  }, { ...base, tableName: 'raw_files', updatedAt: false })
+  }, { ...base, modelName: 'RawFile', tableName: 'raw_files', updatedAt: false })
   Dataset.init({
     id: pk, instrument: { type: DataTypes.STRING, allowNull: false }, fileName: { type: DataTypes.STRING, allowNull: false },
     fileSha256: { type: DataTypes.STRING, allowNull: false }, detectedMapping: DataTypes.JSONB,
     confirmedMapping: { type: DataTypes.JSONB, allowNull: false }, unit: { type: DataTypes.STRING, allowNull: false },
     timeFormat: { type: DataTypes.STRING, allowNull: false }, uploadedBy: DataTypes.INTEGER,
     createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'datasets' })
+  }, { ...base, modelName: 'Dataset', tableName: 'datasets' })
   Measurement.init({
     id: pk, line: DataTypes.INTEGER, time: { type: DataTypes.DOUBLE, allowNull: false },
     rv: { type: DataTypes.DOUBLE, allowNull: false }, error: { type: DataTypes.DOUBLE, allowNull: false },
     indicators: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
     excluded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     excludedReason: DataTypes.TEXT, excludedBy: DataTypes.INTEGER, excludedAt: DataTypes.DATE,
-  }, { ...base, tableName: 'measurements', timestamps: false })
+  }, { ...base, modelName: 'Measurement', tableName: 'measurements', timestamps: false })
   AuditEntry.init({
     id: pk, teamId: { type: DataTypes.INTEGER, allowNull: false }, userId: DataTypes.INTEGER,
     action: { type: DataTypes.STRING, allowNull: false }, entity: { type: DataTypes.STRING, allowNull: false },
     entityId: DataTypes.INTEGER, detail: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
     at: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
-  }, { ...base, tableName: 'audit_log', timestamps: false })
+  }, { ...base, modelName: 'AuditEntry', tableName: 'audit_log', timestamps: false })
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })

@@ -29,7 +29,7 @@ interface Case {
   prepare?: () => Promise<{ path?: string; body?: object }>
   path?: string
   body?: object | (() => object)
-  upload?: { fields?: () => object }
+  upload?: { fields?: () => Record<string, unknown> }
 }
 
 let t: TestApp
