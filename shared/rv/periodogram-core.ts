@@ -308,15 +308,22 @@ function fftOf(size: number): FFT {
   return f
 }
 
-let fastScratch: { size: number; a: Float64Array; b: Float64Array; c: Float64Array; d: Float64Array } | null = null
-/** Four interleaved complex buffers of `size`, reused between calls; the inputs a, b (if used) and c are zeroed here. */
-function fastBuffers(size: number, useB: boolean) {
-  if (fastScratch === null || fastScratch.size !== size) {
-    fastScratch = { size, a: new Float64Array(2 * size), b: new Float64Array(2 * size), c: new Float64Array(2 * size), d: new Float64Array(2 * size) }
-  } else {
-    fastScratch.a.fill(0); if (useB) fastScratch.b.fill(0); fastScratch.c.fill(0)
+/** Buffers of the fast method, kept between calls and regrown only when a call needs more. */
+interface FastScratch { outLen: number; inLen: number; zy: Float64Array; zw: Float64Array; z2: Float64Array; gy: Float64Array; gw: Float64Array; g2: Float64Array; u: Float64Array; tau: Float64Array }
+let fastScratch: FastScratch | null = null
+function fastBuffers(size: number, inLen: number, n: number): FastScratch {
+  let f = fastScratch
+  if (f === null || f.outLen < size || f.inLen < inLen || f.tau.length < n) {
+    const outLen = Math.max(size, f?.outLen ?? 0), il = Math.max(inLen, f?.inLen ?? 0)
+    f = {
+      outLen, inLen: il,
+      zy: new Float64Array(2 * outLen), zw: new Float64Array(2 * outLen), z2: new Float64Array(2 * outLen),
+      gy: new Float64Array(2 * il), gw: new Float64Array(2 * il), g2: new Float64Array(2 * il), u: new Float64Array(2 * il),
+      tau: new Float64Array(Math.max(n, f?.tau.length ?? 0)),
+    }
+    fastScratch = f
   }
-  return fastScratch
+  return f
 }
 
 function bitCeil(x: number): number {
@@ -414,41 +421,84 @@ export function periodogramFast(
   return makeResult(grid, power, 'fast', p)
 }
 
+/**
+ * Length-`size` forward DFT F[p] = Σ_{n<len} g_n e^{−2πi p n/size} of an input that is zero beyond
+ * `len` = size/r: as r transforms of length `len` (p = a·r + b: the b-th one transforms
+ * g_n·e^{−2πi b n/size}). Result b·len + a holds F[a·r + b]; with r = 1 this is the plain FFT.
+ * The extirpolated sums fill only the first size·df·T cells, so for oversampled grids this is
+ * several times quicker than one long FFT.
+ */
+function sparseInputDft(g: Float64Array, len: number, size: number, out: Float64Array, u: Float64Array): void {
+  const r = size / len
+  const fft = fftOf(len)
+  if (r === 1) { fft.transform(out, g.subarray(0, 2 * len)); return }
+  const uu = u.subarray(0, 2 * len)
+  for (let b = 0; b < r; b++) {
+    const step = -2 * Math.PI * b / size
+    const sc = Math.cos(step), ss = Math.sin(step)
+    for (let n0 = 0; n0 < len; n0 += 128) {
+      // exact twiddle every 128 cells, rotation in between
+      let wr = Math.cos(step * n0), wi = Math.sin(step * n0)
+      for (let n = n0, n1 = Math.min(len, n0 + 128); n < n1; n++) {
+        const gr = g[2 * n], gi = g[2 * n + 1]
+        uu[2 * n] = gr * wr - gi * wi
+        uu[2 * n + 1] = gr * wi + gi * wr
+        const t = wr * sc - wi * ss
+        wi = wr * ss + wi * sc
+        wr = t
+      }
+    }
+    fft.transform(out.subarray(2 * b * len, 2 * (b + 1) * len), uu)
+  }
+}
+
 /** Fast power on `grid` into `out`. */
 export function fastPowerInto(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array, settings: FastSettings = FAST_DEFAULTS): void {
   const { order, fftOversample } = settings
   if (!(Number.isInteger(order) && order >= 2 && order % 2 === 0 && order <= 32)) throw new RangeError(`fast.order must be an even integer in 2…32 (got ${order})`)
   if (!(fftOversample >= 1)) throw new RangeError(`fast.fftOversample must be >= 1 (got ${fftOversample})`)
-  const m = grid.count
+  const m = grid.count, n = p.n
   const size = bitCeil(Math.max(fftOversample * m, 2 * order))
   const mask = size - 1
   const kc = m >> 1
   const fc = grid.f0 + kc * grid.df
-  const bufs = fastBuffers(size, floatingMean)
-  const fft = fftOf(size)
-  // a: w·y at ω (positions size·df·τ); b: w at ω (same positions); c: w at 2ω (positions 2·size·df·τ)
+  const half = (order >> 1) - 1
+  // Shift the time origin so every extirpolation node is ≥ 0 (the power does not depend on the
+  // origin); then the ω sums fill cells [0, lenW) and the 2ω sums [0, len2).
+  const delta = (half + 2) / (size * grid.df)
+  let tmax = 0
+  for (let j = 0; j < n; j++) if (p.tau[j] > tmax) tmax = p.tau[j]
+  const span = size * grid.df * (tmax + delta)
+  let lenW = bitCeil(Math.ceil(span) + order + 2), len2 = bitCeil(Math.ceil(2 * span) + order + 2)
+  if (lenW > size / 2) lenW = size
+  if (len2 > size / 2) len2 = size
+  const bufs = fastBuffers(size, Math.max(lenW, len2), n)
+  const tau = bufs.tau
+  for (let j = 0; j < n; j++) tau[j] = p.tau[j] + delta
+  const tauN = tau.subarray(0, n)
+  bufs.gy.fill(0, 0, 2 * lenW); bufs.g2.fill(0, 0, 2 * len2)
   if (floatingMean) {
-    extirpolate(p.tau, size * grid.df, fc, size, order, p.wy, bufs.a, p.w, bufs.b)
+    bufs.gw.fill(0, 0, 2 * lenW)
+    extirpolate(tauN, size * grid.df, fc, size, order, p.wy, bufs.gy, p.w, bufs.gw)
   } else {
-    extirpolate(p.tau, size * grid.df, fc, size, order, p.wy, bufs.a, null, null)
+    extirpolate(tauN, size * grid.df, fc, size, order, p.wy, bufs.gy, null, null)
   }
-  extirpolate(p.tau, 2 * size * grid.df, 2 * fc, size, order, p.w, bufs.c, null, null)
-  // transforms, reusing consumed inputs as outputs: a→d, b→a, c→b
-  fft.transform(bufs.d, bufs.a)
-  const zy = bufs.d
-  let zw: Float64Array | null = null
-  if (floatingMean) { fft.transform(bufs.a, bufs.b); zw = bufs.a }
-  fft.transform(bufs.b, bufs.c)
-  const z2 = bufs.b
+  extirpolate(tauN, 2 * size * grid.df, 2 * fc, size, order, p.w, bufs.g2, null, null)
+  sparseInputDft(bufs.gy, lenW, size, bufs.zy, bufs.u)
+  if (floatingMean) sparseInputDft(bufs.gw, lenW, size, bufs.zw, bufs.u)
+  sparseInputDft(bufs.g2, len2, size, bufs.z2, bufs.u)
+  const zy = bufs.zy, zw = bufs.zw, z2 = bufs.z2
+  const rW = size / lenW, rmW = rW - 1, shW = Math.log2(rW)
+  const r2 = size / len2, rm2 = r2 - 1, sh2 = Math.log2(r2)
   const yy = p.yy
-  // forward FFT F[r] = Σ g_n e^{−2πi r n/size}; the sum at q = k − kc is F[(−q) mod size]
+  // F[r] = Σ g_n e^{−2πi r n/size}; the sum at q = k − kc is F[(−q) mod size], stored at
+  // (idx mod r)·len + idx/r
   for (let k = 0; k < m; k++) {
-    const idx = ((kc - k) & mask) << 1
-    const yc = zy[idx], ys = zy[idx + 1]
-    const c2 = z2[idx], s2 = z2[idx + 1]
-    let c = 0, s = 0
-    if (zw !== null) { c = zw[idx]; s = zw[idx + 1] }
-    out[k] = powerFromSums(c, s, yc, ys, c2, s2, yy, floatingMean)
+    const idx = (kc - k) & mask
+    const iw = ((idx & rmW) * lenW + (idx >>> shW)) << 1
+    const i2 = ((idx & rm2) * len2 + (idx >>> sh2)) << 1
+    const c = floatingMean ? zw[iw] : 0, s = floatingMean ? zw[iw + 1] : 0
+    out[k] = powerFromSums(c, s, zy[iw], zy[iw + 1], z2[i2], z2[i2 + 1], yy, floatingMean)
   }
 }
 
