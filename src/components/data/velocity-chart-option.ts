@@ -67,6 +67,7 @@ function errorBarSeries(name: string, color: string, data: Point[], z: number) {
     z,
     clip: true,
     silent: true,
+    itemStyle: { color },
     encode: { x: 0, y: 1 },
     renderItem: (_params: CustomSeriesRenderItemParams, api: CustomSeriesRenderItemAPI): CustomSeriesRenderItemReturn => {
       const x = Number(api.value(0))
@@ -112,21 +113,22 @@ export function buildVelocityChart(input: VelocityChartInput): VelocityChartMode
   for (const [name, style] of styles) {
     const data = byInstrument.get(name) ?? []
     counts[name] = data.length
-    series.push(errorBarSeries(name, style.color, data, 2))
+    // The scatter series comes first: the legend takes its colour and symbol from the first series of a name.
     series.push({
       type: 'scatter', name, data, symbol: style.symbol, symbolSize: 8, z: 3,
       itemStyle: { color: style.color, borderColor: '#ffffff', borderWidth: 0.5 },
       encode: { x: 0, y: 1 },
     })
+    series.push(errorBarSeries(name, style.color, data, 2))
   }
   if (showExcluded && excludedPoints.length > 0) {
     counts[EXCLUDED_NAME] = excludedPoints.length
-    series.push(errorBarSeries(EXCLUDED_NAME, EXCLUDED_COLOR, excludedPoints, 1))
     series.push({
       type: 'scatter', name: EXCLUDED_NAME, data: excludedPoints, symbol: 'circle', symbolSize: 8, z: 2,
       itemStyle: { color: 'rgba(255,255,255,0)', borderColor: EXCLUDED_COLOR, borderWidth: 1.5 },
       encode: { x: 0, y: 1 },
     })
+    series.push(errorBarSeries(EXCLUDED_NAME, EXCLUDED_COLOR, excludedPoints, 1))
   }
 
   const legendNames = [...styles.keys()]

@@ -10,7 +10,9 @@ const { default: UploadWizard } = await import('@/components/upload/UploadWizard
 const { useUploadStore } = await import('@/stores/upload.ts')
 
 /** A three-column table whose error column the detection mistook for an activity indicator. */
-function detected(overrides: Partial<TableMapping> = {}, problems: FilePreview['problems'] = []): PreviewResponse {
+function detected(
+  overrides: Partial<TableMapping> = {}, problems: FilePreview['problems'] = [], mappingError: FilePreview['mappingError'] = null,
+): PreviewResponse {
   const mapping: TableMapping = {
     delimiter: 'whitespace', hasHeader: true, unit: 'km/s', timeFormat: 'jd', instrument: 'unnamed',
     columns: [
@@ -22,7 +24,7 @@ function detected(overrides: Partial<TableMapping> = {}, problems: FilePreview['
   }
   return {
     files: [{
-      fileName: 'night.txt', size: 120, rowCount: 2, problemCount: problems.length, problems,
+      fileName: 'night.txt', size: 120, rowCount: 2, problemCount: problems.length, problems, mappingError,
       instruments: [{ name: 'unnamed', count: 2 }],
       detection: {
         mapping, headerNames: ['jd', 'vrad', 'sig'], headerFromComment: false, headerLine: 1, columnCount: 3,
@@ -53,7 +55,7 @@ async function openColumnsStep(first: PreviewResponse) {
 
 describe('UploadWizard, correcting the detected columns', () => {
   it('shows what was detected and asks for an error for all rows while no column holds errors', async () => {
-    const w = await openColumnsStep(detected())
+    const w = await openColumnsStep(detected({}, [], { code: 'missing_error', message: 'No error column: give one error for all rows.' }))
     expect(api.previewUpload).toHaveBeenCalledWith(7, expect.any(Array))
     expect(w.text()).toContain('Read "vrad" as velocity in km/s.')
     expect(w.find('[data-test="default-error"]').exists()).toBe(true)
