@@ -213,14 +213,23 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
   let headerLine: number | null = null
   const unitsText: string[] = Array.from({ length: columnCount }, () => '')
   if (hasHeader) {
-    let names = sample[0]!
+    // Of the leading text rows, the one with the most recognisable column names is the header
+    // (a title row may come first, a units row after); the others are read for units only.
+    let best = 0
+    let bestScore = -1
+    for (let k = 0; k <= skipRows; k++) {
+      const score = sample[k]!.filter(c => readName(c).role !== null).length
+      if (score > bestScore) { best = k; bestScore = score }
+    }
+    let names = sample[best]!
     if (delimiter === 'whitespace' && names.length > columnCount) names = mergeUnitTokens(names)
     headerNames = names
-    headerLine = dataIdx[0]! + 1
+    headerLine = sampleIdx[best]! + 1
     notes.push(hints.hasHeader ? 'header row, as given' : `line ${headerLine} is a header row (text above numeric columns)`)
-    for (let k = 1; k <= skipRows; k++) {
+    for (let k = 0; k <= skipRows; k++) {
+      if (k === best) continue
       sample[k]!.forEach((c, j) => { if (j < columnCount) unitsText[j] += ` ${c}` })
-      notes.push(`line ${sampleIdx[k]! + 1} after the header is skipped (no numbers in numeric columns; read for units)`)
+      notes.push(`line ${sampleIdx[k]! + 1} is skipped (text, no numbers; read for units)`)
     }
   } else if (hints.hasHeader === undefined) {
     // Last comment line in the block just before the first data row.
@@ -306,6 +315,27 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
   applyHint('rv', hints.rv)
   applyHint('error', hints.error)
   applyHint('instrument', hints.instrument)
+
+  // A column counting rows (whole numbers rising by one) is not data, when enough others remain.
+  for (let j = 0; j < columnCount; j++) {
+    if (roles[j] !== null || !isNumeric[j]) continue
+    const others = roles.filter((r, k) => k !== j && isNumeric[k] && (r === null || r === 'time' || r === 'rv' || r === 'error')).length
+    if (others < 3) continue
+    const v = stats[j]!.values.slice(0, STAT_HEAD)
+    if (v.length >= 3 && v.every((x, k) => Number.isInteger(x) && (k === 0 || x === v[k - 1]! + 1))) {
+      roles[j] = 'ignore'
+      notes.push(`'${names[j]}' counts rows (1, 2, 3, …), so it is ignored`)
+    }
+  }
+
+  // Calendar dates as text where a time column should be: say so rather than guess.
+  if (taken('time') < 0 && hints.time === undefined && !stats.some((s, j) => roles[j] === null && isNumeric[j] && median(s.values) > 2_300_000)) {
+    const j = stats.findIndex((s, k) => !isNumeric[k] && s.text > 0 && [...s.distinct.keys()].every(c => /^\d{4}-\d{2}-\d{2}/.test(c)))
+    if (j >= 0) {
+      throw new IngestError('no_time_column',
+        `Column '${names[j]}' holds calendar dates; Starsway reads times as Julian days (JD, BJD, MJD or reduced JD). Convert the dates to Julian days and upload again.`, 'time')
+    }
+  }
 
   // Positional fill: time, velocity, error from the unassigned numeric columns.
   const free = (j: number): boolean => roles[j] === null && isNumeric[j]!

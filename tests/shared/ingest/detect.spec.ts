@@ -360,3 +360,44 @@ describe('preview and counts', () => {
     expect(d.columnCount).toBe(3)
   })
 })
+
+describe('awkward tables', () => {
+  it('ignores a leading row-counter column', () => {
+    const d = detectTable('1 2450001.5 10 1\n2 2450002.5 11 1\n3 2450003.5 12 1\n4 2450004.5 9 1\n')
+    expect(roles(d)).toEqual(['ignore', 'time', 'rv', 'error'])
+  })
+
+  it('keeps whole-number days as the time when there is no other time column', () => {
+    const d = detectTable('1 10.5 1.2\n2 11.0 1.2\n3 9.5 1.2\n4 9.0 1.1\n')
+    expect(roles(d)).toEqual(['time', 'rv', 'error'])
+  })
+
+  it('picks the header among a title row and a units row', () => {
+    const d = detectTable('Velocities of HD 1\ntime rv err\n(d) (km/s) (km/s)\n2450001 1.01 0.001\n2450002 1.02 0.001\n2450003 1.03 0.001\n')
+    expect(d.headerNames).toEqual(['time', 'rv', 'err'])
+    expect(d.headerLine).toBe(2)
+    expect(d.mapping.skipRows).toBe(2)
+    expect(d.mapping.unit).toBe('km/s')
+    expect(d.rowCount).toBe(3)
+  })
+
+  it('says so when times are calendar dates', () => {
+    expect(() => detectTable('2019-05-01 10.5 1.2\n2019-05-02 11.5 1.2\n2019-05-03 9.5 1.2\n')).toThrow(/calendar dates.*Julian days/)
+  })
+
+  it('takes a numeric instrument column when the header names it', () => {
+    const d = detectTable('jd rv err inst\n2450001 1 1 1\n2450002 1 1 2\n2450003 1 1 1\n')
+    expect(roles(d)).toEqual(['time', 'rv', 'error', 'instrument'])
+  })
+
+  it('skips a text time column named like one and uses the numeric one', () => {
+    const d = detectTable('date,bjd,rv,err\n2019-05-01,2458605.1,1,1\n2019-05-02,2458606.1,2,1\n')
+    expect(roles(d)).toEqual(['ignore', 'time', 'rv', 'error'])
+    expect(d.notes.join(' ')).toMatch(/'date' looks like the time column by its name but does not hold numbers/)
+  })
+
+  it('keeps a second velocity-like column as an indicator', () => {
+    const d = detectTable('jd rv rv_raw err\n2450001 1 1.1 1\n2450002 2 2.1 1\n')
+    expect(roles(d)).toEqual(['time', 'rv', 'indicator:rv_raw', 'error'])
+  })
+})
