@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import { QueryTypes, type Transaction } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star, User } from '../db/models.ts'
 import { HttpError, TooLargeError, ValidationError } from '../errors.ts'
@@ -11,7 +12,26 @@ export interface UploadedFile { originalname: string; buffer: Buffer; size: numb
 
 const PREVIEW_ROWS = 50
 const PREVIEW_PROBLEMS = 200
-const INSERT_CHUNK = 5000
+const INSERT_CHUNK = 20_000
+
+/**
+ * Inserts one chunk of rows as a single statement: each column travels as one array parameter
+ * and PostgreSQL unnests them, far faster than one VALUES tuple per model instance. Doubles keep
+ * their exact value (the driver writes the shortest round-trip representation).
+ */
+async function insertMeasurements(s: Services, datasetId: number, starId: number, rows: ParsedRow[], transaction: Transaction): Promise<void> {
+  await s.sequelize.query(
+    `INSERT INTO measurements (dataset_id, star_id, line, time, rv, error, indicators)
+     SELECT $1, $2, x.line, x.time, x.rv, x.error, x.indicators::jsonb
+       FROM unnest($3::integer[], $4::double precision[], $5::double precision[], $6::double precision[], $7::text[])
+         AS x(line, time, rv, error, indicators)`,
+    {
+      bind: [datasetId, starId, rows.map((r) => r.line), rows.map((r) => r.time), rows.map((r) => r.rv), rows.map((r) => r.error),
+        rows.map((r) => JSON.stringify(r.indicators))],
+      transaction, type: QueryTypes.INSERT,
+    },
+  )
+}
 
 /** Whole-file problems become 400 (413 for size and row limits), the message naming the file. */
 function fileError(fileName: string, err: unknown): never {
@@ -123,9 +143,7 @@ export async function commit(
           uploadedBy: actor.id,
         }, { transaction })
         for (let i = 0; i < rows.length; i += INSERT_CHUNK) {
-          await s.models.Measurement.bulkCreate(rows.slice(i, i + INSERT_CHUNK).map((r) => ({
-            datasetId: ds.id, starId: star.id, line: r.line, time: r.time, rv: r.rv, error: r.error, indicators: r.indicators,
-          })), { transaction, returning: false, validate: false, hooks: false })
+          await insertMeasurements(s, ds.id, star.id, rows.slice(i, i + INSERT_CHUNK), transaction)
         }
         out.datasets.push({ id: ds.id, instrument, fileName: pf.file.originalname, count: rows.length })
         out.measurementsCreated += rows.length
