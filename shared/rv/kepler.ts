@@ -33,11 +33,17 @@ export function solveKepler(M: number, e: number): number {
 
 /** Kepler's equation for M already in [−π, π). No argument checks (hot path). */
 function keplerReduced(mSigned: number, e: number): number {
-  if (e === 0) return mSigned
+  if (e === 0) { SINCOS.sin = Math.sin(mSigned); SINCOS.cos = Math.cos(mSigned); return mSigned }
   return keplerCore(mSigned, e, ALPHA0, ALPHA1 / (1 + e))
 }
 
 const ALPHA0 = 3 * PI2 / (PI2 - 6)
+const HALF_PI = 0.5 * Math.PI
+/**
+ * sin E and cos E of the last solve (E on the reduced revolution), left by the solver so the RV
+ * model need not recompute them. Internal to shared/rv; not re-exported.
+ */
+export const SINCOS = { sin: 0, cos: 1 }
 const ALPHA1 = 1.6 * Math.PI / (PI2 - 6)
 
 /**
@@ -55,7 +61,14 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
   const cb = Math.cbrt(Math.abs(r) + Math.sqrt(q * q * q + r * r))
   const w = cb * cb
   let E = (2 * r * w / (w * w + w * q + q * q) + M) / d
-  const sE = Math.sin(E), cE = Math.cos(E)
+  // sin E and cos E from one tangent of a half angle in [0, π/4] (t = tan h, sin = 2t/(1+t²),
+  // cos = (1−t²)/(1+t²)): one transcendental call instead of two, accurate to a few ulp.
+  const upper = E > HALF_PI
+  const tq = Math.tan(upper ? 0.5 * (Math.PI - E) : 0.5 * E)
+  const tt = tq * tq
+  const inv = 1 / (1 + tt)
+  const sE = 2 * tq * inv
+  const cE = upper ? (tt - 1) * inv : (1 - tt) * inv
   let se = e * sE
   const ce = e * cE
   let f0 = E - se - M
@@ -66,10 +79,13 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
   const d4 = -f0 / (f1 + 0.5 * d3 * f2 + d3 * d3 * f3 / 6)
   const d5 = -f0 / (f1 + 0.5 * d4 * f2 + d4 * d4 * f3 / 6 - d4 * d4 * d4 * f2 / 24)
   E += d5
-  // Verify the residual; sin(E + d5) from the angle-sum rule with short series in the small d5
-  // (|d5| < 1e-2 whenever the starter is sound), which saves a trigonometric call.
+  // sin and cos of E + d5 from the angle-sum rule with short series in the small d5
+  // (|d5| < 1e-2 whenever the starter is sound); they also serve the caller (SINCOS).
   const d52 = d5 * d5
-  se = e * (sE * (1 - d52 * (0.5 - d52 / 24)) + cE * d5 * (1 - d52 * (1 / 6 - d52 / 120)))
+  const cd = 1 - d52 * (0.5 - d52 / 24), sd = d5 * (1 - d52 * (1 / 6 - d52 / 120))
+  let sinE = sE * cd + cE * sd
+  let cosE = cE * cd - sE * sd
+  se = e * sinE
   f0 = E - se - M
   if (Math.abs(f0) >= KEPLER_TOLERANCE || Math.abs(d5) > 1e-2) {
     // Newton (Danby 1988) in the rare case the correction left a residual above tolerance.
@@ -78,7 +94,10 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
       E -= f0 / (1 - e * Math.cos(E))
       f0 = E - e * Math.sin(E) - M
     }
+    sinE = Math.sin(E); cosE = Math.cos(E)
   }
+  SINCOS.sin = sign * sinE
+  SINCOS.cos = cosE
   return sign * E
 }
 

@@ -7,7 +7,7 @@
  * of the STAR's orbit (the planet's is ω + π), positive velocities receding. Times in days, K in m/s,
  * angles in radians here (degrees only at the API/CLI edge).
  */
-import { keplerUnchecked, eccentricFromTrue, wrapPi } from './kepler.ts'
+import { keplerUnchecked, eccentricFromTrue, wrapPi, SINCOS } from './kepler.ts'
 
 const TWO_PI = 2 * Math.PI
 
@@ -46,8 +46,8 @@ export function addKeplerian(t: Float64Array, o: Keplerian, out: Float64Array): 
     return out
   }
   for (let i = 0; i < t.length; i++) {
-    const E = keplerUnchecked(n * (t[i] - tp), e)
-    const cE = Math.cos(E), sE = Math.sin(E)
+    keplerUnchecked(n * (t[i] - tp), e)
+    const cE = SINCOS.cos, sE = SINCOS.sin
     const den = 1 - e * cE
     const cnu = (cE - e) / den
     const snu = sq * sE / den
