@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest'
 import { createRandom } from '../../../shared/math/random.ts'
-import { periodogramDirect, periodogramFast } from '../../../shared/rv/periodogram.ts'
+import { periodogramDirect, periodogramFast, releasePeriodogramBuffers } from '../../../shared/rv/periodogram.ts'
 import { maxAbs, maxAbsDiff } from './periodogram-fixtures.ts'
 
 // Requirement of the product (issue 3 §1): the fast method (Press & Rybicki 1989 extirpolation + FFT)
@@ -48,5 +48,17 @@ describe('fast vs direct periodogram', () => {
     periodogramFast(b.t, b.y, b.dy)
     const fa2 = periodogramFast(a.t, a.y, a.dy).power
     expect(maxAbsDiff(fa1, fa2)).toBe(0)
+  })
+
+  it('stays right when a call needs bigger or smaller buffers than the previous one, and after releasing them', () => {
+    const a = synthetic(400, 1200, 3, false)
+    const small = { oversample: 5 }, large = { frequencies: 150_000 }
+    const ref = periodogramDirect(a.t, a.y, a.dy, small)
+    periodogramFast(a.t, a.y, a.dy, large)
+    const after = periodogramFast(a.t, a.y, a.dy, small)
+    expect(maxAbsDiff(after.power, ref.power)).toBeLessThanOrEqual(1e-4 * maxAbs(ref.power))
+    releasePeriodogramBuffers()
+    const again = periodogramFast(a.t, a.y, a.dy, small)
+    expect(maxAbsDiff(again.power, after.power)).toBe(0)
   })
 })
