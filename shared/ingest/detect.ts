@@ -422,14 +422,21 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
     notes.push(r.why)
   }
 
-  // Remaining columns.
+  // Remaining columns (indicator keys made unique: 'x', 'x_2', …).
+  const usedKeys = new Set<string>()
+  const uniqueKey = (key: string): string => {
+    let k = key
+    for (let n = 2; usedKeys.has(k); n++) k = `${key}_${n}`
+    usedKeys.add(k)
+    return k
+  }
   const columns: ColumnMapping[] = names.map((name, j) => {
     let role = roles[j]
     const col: ColumnMapping = { index: j, name, role: 'ignore' }
     if (role === null) role = isNumeric[j] ? 'indicator' : 'ignore'
     col.role = role
     if (role === 'indicator') {
-      const key = indicatorKeys[j] ?? (headerNames ? indicatorKey(name) : `column_${j + 1}`)
+      const key = uniqueKey(indicatorKeys[j] ?? (headerNames ? indicatorKey(name) : `column_${j + 1}`))
       col.indicator = key
       if (/^(?:bisector_span|fwhm)(?:_err)?$/.test(key)) col.unit = unitFromName(`${name} ${unitsText[j]}`) ?? unit
       if (readings[j]?.role !== 'indicator') {

@@ -401,3 +401,40 @@ describe('awkward tables', () => {
     expect(roles(d)).toEqual(['time', 'rv', 'indicator:rv_raw', 'error'])
   })
 })
+
+describe('more hints and corner cases', () => {
+  it('follows hasHeader: true', () => {
+    const d = detectTable('a b c\n2450001 1 1\n', { hasHeader: true })
+    expect(d.mapping.hasHeader).toBe(true)
+    expect(d.headerNames).toEqual(['a', 'b', 'c'])
+    expect(roles(d)).toEqual(['time', 'rv', 'error'])
+  })
+
+  it('follows a hint that there is no instrument column', () => {
+    const d = detectTable('2450001 1 1 A\n2450002 1 1 A\n', { instrument: null, instrumentName: 'Spec' })
+    expect(roles(d)).toEqual(['time', 'rv', 'error', 'ignore'])
+    expect(d.mapping.instrument).toBe('Spec')
+  })
+
+  it('accepts a 1-based position written as text (as a command line passes it)', () => {
+    const d = detectTable('a b c\n2450001 1 1\n2450002 1 1\n', { rv: '3', error: '2' })
+    expect(roles(d)).toEqual(['time', 'error', 'rv'])
+  })
+
+  it('reads decimal commas with a whitespace delimiter', () => {
+    const d = detectTable('2450001,5 12,5 1,5\n2450002,5 13,5 1,5\n')
+    expect(d.mapping).toMatchObject({ delimiter: 'whitespace', decimalComma: true })
+  })
+
+  it('makes indicator keys unique', () => {
+    const d = detectTable('time rv err x x\n2450001 1 1 2 3\n2450002 1 1 2 3\n')
+    expect(roles(d)).toEqual(['time', 'rv', 'error', 'indicator:x', 'indicator:x_2'])
+  })
+
+  it('reads a header with more names than fields, ignoring the extra names', () => {
+    const d = detectTable('time,rv,err,inst\n2450001,1,1\n2450002,1,1\n2450003,2,1\n')
+    expect(d.columnCount).toBe(3)
+    expect(d.headerNames).toEqual(['time', 'rv', 'err'])
+    expect(d.notes.join(' ')).toMatch(/extra names ignored/)
+  })
+})
