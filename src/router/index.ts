@@ -31,6 +31,7 @@ router.beforeEach(async (to) => {
   if (!to.meta.public && !session.user) {
     return { name: 'sign-in', query: to.fullPath === '/' || to.fullPath === '/stars' ? {} : { next: to.fullPath } }
   }
+  if (to.name === 'sign-in' && session.user) return { name: 'stars' }
   return true
 })
 

@@ -56,8 +56,8 @@ describe('adding a velocity table in the browser', () => {
     await page.locator('[data-test="velocity-chart"] canvas').first().waitFor()
     expect(Number(await page.locator('[data-test="velocity-chart"]').getAttribute('data-points'))).toBeGreaterThan(0)
     await page.locator('[data-test="velocity-chart"]').screenshot({ path: join(shots, 'demo-star-chart.png') })
-    await page.goto(`${app.baseUrl}/stars`)
-    await page.locator('[data-test="star-table"] tbody a').first().waitFor()
+    await page.locator('header a[href="/stars"]').first().click()
+    await page.locator('[data-test="new-star"]').waitFor()
 
     // A new star for the published table.
     await page.locator('[data-test="new-star"]').click()
@@ -108,6 +108,11 @@ describe('adding a velocity table in the browser', () => {
     await page.locator('[data-test="velocity-chart"]').scrollIntoViewIfNeeded()
     await page.screenshot({ path: join(shots, 'star-page.png'), fullPage: true })
     await page.locator('[data-test="velocity-chart"]').screenshot({ path: join(shots, 'velocity-chart.png') })
+
+    // Hiding excluded points takes them off the chart, not out of the table.
+    await page.locator('[data-test="toggle-excluded"] input').click()
+    await page.locator('[data-test="velocity-chart"][data-points="47"][data-excluded="0"]').waitFor()
+    expect(await tableBox.getAttribute('data-total')).toBe('48')
     expect(pageErrors).toEqual([])
   }, 90000)
 })
