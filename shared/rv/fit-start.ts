@@ -1,14 +1,14 @@
 /**
  * Starting values for a new Keplerian at a trial period, so that no initial guess is needed.
  *
- * At fixed (P, e, ω, Tp) the model is linear in K and in the offsets and trend, so a coarse grid
- * over e, ω and the periastron phase can be scored exactly by weighted linear least squares; the
- * best few grid points seed the non-linear fit. For e = 0 the sine and cosine amplitudes are
- * solved together (a one-frequency least-squares fit, the model behind the generalised
- * Lomb–Scargle periodogram of Zechmeister & Kürster 2009, A&A 496, 577), which gives K and the
- * phase directly.
+ * At fixed (P, e, Tp) the model is linear in K cos ω, K sin ω and in the offsets and trend, so a
+ * coarse grid over e and the periastron phase can be scored exactly by weighted linear least
+ * squares; the best few grid points seed the non-linear fit. For e = 0 this is the one-frequency
+ * least-squares fit behind the generalised Lomb–Scargle periodogram (Zechmeister & Kürster 2009,
+ * A&A 496, 577), which gives K and the phase directly.
  */
 import { addKeplerian, tpToTc, type Keplerian } from './model.ts'
+import { keplerUnchecked, SINCOS } from './kepler.ts'
 import { cholesky, choleskySolve } from './linalg.ts'
 import type { RvData } from './fit-data.ts'
 import type { PlanetStart, TrendKind } from './fit.ts'
@@ -24,8 +24,9 @@ export interface StartOptions {
   epoch?: number
   /** How many distinct starts to return (default 3). */
   count?: number
+  /** Non-zero eccentricities of the grid (default 0.15, 0.35, 0.55, 0.75, 0.9; e = 0 is always tried). */
   eccentricities?: number[]
-  omegaSteps?: number
+  /** Periastron phases per eccentricity (default 16). */
   phaseSteps?: number
 }
 
@@ -82,40 +83,33 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
 
   interface Cand { chi2: number; start: ScoredStart }
   const cands: Cand[] = []
-  // circular: cos and sin columns
-  {
-    const c = new Float64Array(n), s = new Float64Array(n)
-    const f = TWO_PI / period
-    for (let i = 0; i < n; i++) { const ph = f * (data.t[i] - epoch); c[i] = Math.cos(ph); s[i] = Math.sin(ph) }
-    const res = solve([c, s])
-    if (res) {
-      const A = res.coef[0], B = res.coef[1]
-      // A cos φ + B sin φ = K cos(φ − φ0); model K cos(M + ω) with ω = 0, M = 2π(t − tp)/P
-      const K = Math.hypot(A, B)
-      const phi0 = Math.atan2(B, A)
-      const tp = epoch + phi0 / f
-      cands.push({ chi2: res.chi2, start: { period, K, e: 0, omegaDeg: 0, tc: tpToTc(tp, period, 0, 0), chi2: res.chi2 } })
-    }
-  }
-  const eccs = opts.eccentricities ?? [0.2, 0.4, 0.6, 0.8]
-  const nW = opts.omegaSteps ?? 8
-  const nPh = opts.phaseSteps ?? 12
-  const shape = new Float64Array(n)
-  const orbit: Keplerian = { period, K: 1, e: 0, omega: 0, tp: 0 }
+  // At fixed (e, Tp) the model K[cos(ν+ω) + e cos ω] = (K cos ω)(cos ν + e) − (K sin ω) sin ν is
+  // linear in K cos ω and K sin ω, so ω and K are solved exactly; only e and Tp need a grid.
+  const colA = new Float64Array(n), colB = new Float64Array(n)
+  const f = TWO_PI / period
+  const eccs = [0, ...(opts.eccentricities ?? [0.15, 0.35, 0.55, 0.75, 0.9])]
+  const nPh = opts.phaseSteps ?? 16
   for (const e of eccs) {
-    for (let iw = 0; iw < nW; iw++) {
-      const omega = TWO_PI * iw / nW
-      for (let ip = 0; ip < nPh; ip++) {
-        const tp = epoch + period * ip / nPh
-        orbit.e = e; orbit.omega = omega; orbit.tp = tp
-        shape.fill(0)
-        addKeplerian(data.t, orbit, shape)
-        const res = solve([shape])
-        if (!res) continue
-        let K = res.coef[0], om = omega
-        if (K < 0) { K = -K; om = (omega + Math.PI) % TWO_PI }
-        cands.push({ chi2: res.chi2, start: { period, K, e, omegaDeg: om * 180 / Math.PI, tc: tpToTc(tp, period, e, om), chi2: res.chi2 } })
+    const sq = Math.sqrt(1 - e * e)
+    const phases = e === 0 ? 1 : nPh
+    for (let ip = 0; ip < phases; ip++) {
+      const tp = epoch + period * ip / phases
+      for (let i = 0; i < n; i++) {
+        const M = f * (data.t[i] - tp)
+        if (e === 0) { colA[i] = Math.cos(M); colB[i] = Math.sin(M); continue }
+        keplerUnchecked(M, e)
+        const cE = SINCOS.cos, sE = SINCOS.sin
+        const den = 1 - e * cE
+        colA[i] = (cE - e) / den + e
+        colB[i] = sq * sE / den
       }
+      const res = solve([colA, colB])
+      if (!res) continue
+      const a = res.coef[0], b = res.coef[1]
+      const K = Math.hypot(a, b)
+      let om = Math.atan2(-b, a)
+      if (om < 0) om += TWO_PI
+      cands.push({ chi2: res.chi2, start: { period, K, e, omegaDeg: om * 180 / Math.PI, tc: tpToTc(tp, period, e, om), chi2: res.chi2 } })
     }
   }
   cands.sort((a, b) => a.chi2 - b.chi2)
@@ -124,8 +118,8 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
   const circular = cands.find((c) => c.start.e === 0)
   for (const c of cands) {
     if (out.length >= count) break
-    // skip near-duplicates (same e and ω bin neighbours)
-    if (out.some((o) => o.e === c.start.e && Math.abs(((o.omegaDeg! - c.start.omegaDeg! + 540) % 360) - 180) < 50)) continue
+    // skip near-duplicates (same e, similar ω)
+    if (out.some((o) => o.e === c.start.e && Math.abs(((o.omegaDeg! - c.start.omegaDeg! + 540) % 360) - 180) < 30)) continue
     out.push(c.start)
   }
   if (circular && !out.includes(circular.start)) out.push(circular.start)
