@@ -50,7 +50,15 @@ export function createApp(deps: AppDeps): Express {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
-  app.use(pinoHttp({ logger, genReqId: (req) => (req.headers['x-request-id'] as string | undefined) ?? randomUUID() }))
+  app.use(pinoHttp({
+    logger,
+    genReqId: (req) => (req.headers['x-request-id'] as string | undefined) ?? randomUUID(),
+    // one short line per request: no headers (they carry the session cookie)
+    serializers: {
+      req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+      res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+    },
+  }))
   app.use(helmet({
     contentSecurityPolicy: {
       directives: {

@@ -14,7 +14,7 @@ export function parseMessage(raw: string): { headers: Record<string, string>; te
   const type = headers['content-type'] ?? 'text/plain'
   const boundary = /boundary="?([^";]+)"?/i.exec(type)?.[1]
   if (!boundary) {
-    const text = decodeBody(body, headers['content-transfer-encoding'])
+    const text = decodeBody(body, headers['content-transfer-encoding']).replace(/\r\n/g, '\n')
     return type.includes('html') ? { headers, text: '', html: text } : { headers, text }
   }
   let text = ''
@@ -22,7 +22,7 @@ export function parseMessage(raw: string): { headers: Record<string, string>; te
   for (const part of body.split(`--${boundary}`)) {
     const [ph, ...pb] = part.replace(/^\r?\n/, '').split(/\r?\n\r?\n/)
     const h = parseHeaders(ph ?? '')
-    const content = decodeBody(pb.join('\n\n').replace(/\r?\n$/, ''), h['content-transfer-encoding'])
+    const content = decodeBody(pb.join('\n\n').replace(/\r?\n$/, ''), h['content-transfer-encoding']).replace(/\r\n/g, '\n')
     if ((h['content-type'] ?? '').startsWith('text/plain')) text = content
     else if ((h['content-type'] ?? '').startsWith('text/html')) html = content
   }
