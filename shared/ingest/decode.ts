@@ -31,6 +31,8 @@ export function decodeTableBytes(bytes: Uint8Array, maxBytes: number = MAX_FILE_
   let text: string
   if (startsWith(bytes, [0xff, 0xfe])) text = new TextDecoder('utf-16le').decode(bytes)
   else if (startsWith(bytes, [0xfe, 0xff])) text = new TextDecoder('utf-16be').decode(bytes)
+  else if (looksUtf16(bytes, 1)) text = new TextDecoder('utf-16le').decode(bytes)
+  else if (looksUtf16(bytes, 0)) text = new TextDecoder('utf-16be').decode(bytes)
   else {
     const head = bytes.subarray(0, 65536)
     if (head.includes(0)) throw binaryError()
@@ -42,6 +44,18 @@ export function decodeTableBytes(bytes: Uint8Array, maxBytes: number = MAX_FILE_
   }
   assertText(text)
   return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text
+}
+
+/** UTF-16 without a byte-order mark: in the first 1000 bytes every other byte (from `zeroAt`: 1 little-endian, 0 big-endian) is 0 and the rest are ASCII. */
+function looksUtf16(bytes: Uint8Array, zeroAt: 0 | 1): boolean {
+  const n = Math.min(bytes.length, 1000) & ~1
+  if (n < 4) return false
+  for (let i = 0; i < n; i += 2) {
+    const hi = bytes[i + zeroAt]!
+    const lo = bytes[i + 1 - zeroAt]!
+    if (hi !== 0 || lo === 0 || lo > 127) return false
+  }
+  return true
 }
 
 function binaryError(): IngestError {

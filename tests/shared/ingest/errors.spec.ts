@@ -75,6 +75,15 @@ describe('text encodings', () => {
     expect(decodeTableBytes(le)).toBe(text)
   })
 
+  it('reads UTF-16 without a byte-order mark', () => {
+    const text = '2450001\t1\t1\n2450002\t2\t1\n'
+    const le = new Uint8Array(text.length * 2)
+    const be = new Uint8Array(text.length * 2)
+    for (let i = 0; i < text.length; i++) { le[2 * i] = text.charCodeAt(i); be[2 * i + 1] = text.charCodeAt(i) }
+    expect(decodeTableBytes(le)).toBe(text)
+    expect(decodeTableBytes(be)).toBe(text)
+  })
+
   it('falls back to Latin-1 for bytes that are not UTF-8', () => {
     expect(decodeTableBytes(new Uint8Array([0x73, 0xb1, 0x0a]))).toBe('s±\n')
   })
