@@ -9,6 +9,10 @@
  */
 import { addKeplerian, tpToTc, type Keplerian } from './model.ts'
 import { keplerUnchecked, SINCOS } from './kepler.ts'
+
+// Local references: module-namespace bindings can cost a getter call per access under some loaders.
+const kepler = keplerUnchecked
+const sincos = SINCOS
 import { cholesky, choleskySolve } from './linalg.ts'
 import type { RvData } from './fit-data.ts'
 import type { PlanetStart, TrendKind } from './fit.ts'
@@ -97,8 +101,8 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
       for (let i = 0; i < n; i++) {
         const M = f * (data.t[i] - tp)
         if (e === 0) { colA[i] = Math.cos(M); colB[i] = Math.sin(M); continue }
-        keplerUnchecked(M, e)
-        const cE = SINCOS.cos, sE = SINCOS.sin
+        kepler(M, e)
+        const cE = sincos.cos, sE = sincos.sin
         const den = 1 - e * cE
         colA[i] = (cE - e) / den + e
         colB[i] = sq * sE / den

@@ -459,8 +459,15 @@ function levenbergMarquardt(prob: Problem, x0: Float64Array, maxIter: number, ho
         xt.set(x)
         xt[j] += hh
         const own = perPlanet[k]
-        for (let i = 0; i < prob.n; i++) kep[i] = kepAll[i] - own[i]
-        addPlanet(prob, xt, k, kep)
+        const Kk = x[j]
+        if (j === prob.layouts[k].iK && Kk > 0) {
+          // the model is linear in K: no Kepler solves needed for this column
+          const g = hh / Kk
+          for (let i = 0; i < prob.n; i++) kep[i] = kepAll[i] + own[i] * g
+        } else {
+          for (let i = 0; i < prob.n; i++) kep[i] = kepAll[i] - own[i]
+          addPlanet(prob, xt, k, kep)
+        }
         const c = insideUniformPriors(prob, xt) ? residualFromModel(prob, xt, kep, rt) : Infinity
         if (Number.isFinite(c)) break
         hh = -h

@@ -9,6 +9,10 @@
  */
 import { keplerUnchecked, eccentricFromTrue, wrapPi, SINCOS } from './kepler.ts'
 
+// Local references: module-namespace bindings can cost a getter call per access under some loaders.
+const kepler = keplerUnchecked
+const sincos = SINCOS
+
 const TWO_PI = 2 * Math.PI
 
 /** One Keplerian signal. `omega` in radians (star's orbit), `tp` time of periastron (days). */
@@ -46,8 +50,8 @@ export function addKeplerian(t: Float64Array, o: Keplerian, out: Float64Array): 
     return out
   }
   for (let i = 0; i < t.length; i++) {
-    keplerUnchecked(n * (t[i] - tp), e)
-    const cE = SINCOS.cos, sE = SINCOS.sin
+    kepler(n * (t[i] - tp), e)
+    const cE = sincos.cos, sE = sincos.sin
     const den = 1 - e * cE
     const cnu = (cE - e) / den
     const snu = sq * sE / den
