@@ -9,12 +9,15 @@ export interface NameReading {
   time?: 'bjd' | 'jd' | 'mjd' | 'jd-2400000' | 'jd-2450000' | 'days'
 }
 
+/** Header names are read up to this length (longer ones are not names; keeps regexes cheap). */
+const MAX_NAME_CHARS = 120
+
 const KMS = /km\s*\/\s*s|km\s*[ .]?\s*s\s*\^?\s*-\s*1|(?:^|[^a-z])(?:kms|kmps|km_s)(?:[^a-z]|$)/
 const MS = /(?:^|[^k])m\s*\/\s*s|(?:^|[^a-z])m\s*[ .]?\s*s\s*\^?\s*-\s*1|(?:^|[^a-z])(?:ms|mps|m_s)(?:[^a-z]|$)/
 
 /** Velocity unit named in a header (or units-row) text, if any. */
 export function unitFromName(raw: string): VelocityUnit | undefined {
-  const s = raw.toLowerCase()
+  const s = raw.slice(0, MAX_NAME_CHARS).toLowerCase()
   if (KMS.test(s)) return 'km/s'
   if (MS.test(s)) return 'm/s'
   return undefined
@@ -22,7 +25,7 @@ export function unitFromName(raw: string): VelocityUnit | undefined {
 
 /** Time format or scale named in a header text, if any. */
 export function timeFromName(raw: string): NameReading['time'] {
-  const s = raw.toLowerCase().replace(/\s+/g, '')
+  const s = raw.slice(0, MAX_NAME_CHARS).toLowerCase().replace(/\s+/g, '')
   if (/2400000\.5/.test(s) || /(?:^|[^a-z])mjd/.test(s)) return 'mjd'
   if (/2450000/.test(s)) return 'jd-2450000'
   if (/2400000/.test(s) || /(?:^|[^a-z])rjd/.test(s)) return 'jd-2400000'
@@ -36,7 +39,7 @@ const UNIT_TOKENS = new Set(['kms', 'kmps', 'km', 'ms', 'mps', 'm', 's', '1', 'd
 
 /** Lower-case tokens of a header name, without bracketed units and trailing unit tokens. */
 export function nameTokens(raw: string): string[] {
-  const s = raw.toLowerCase()
+  const s = raw.slice(0, MAX_NAME_CHARS).toLowerCase()
     .replace(/σ/g, 'sigma').replace(/α/g, 'alpha').replace(/δ/g, 'd')
     .replace(/[[({].*?[\])}]/g, ' ')
     .replace(/km\s*\/\s*s|m\s*\/\s*s/g, ' ')
@@ -67,7 +70,7 @@ function indicatorOf(compact: string): string | undefined {
 
 /** A cleaned key for an unknown indicator column: lower case, [a-z0-9_]. */
 export function indicatorKey(raw: string): string {
-  const k = raw.toLowerCase().replace(/[[({].*?[\])}]/g, ' ').replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '')
+  const k = raw.slice(0, MAX_NAME_CHARS).toLowerCase().replace(/[[({].*?[\])}]/g, ' ').replace(/[^a-z0-9]+/g, '_').replace(/^_+|_+$/g, '')
   return k === '' ? 'value' : k
 }
 

@@ -92,6 +92,7 @@ function splitQuotedWhitespace(t: string): string[] {
   return out
 }
 
+const MAX_NUMBER_CHARS = 64
 const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
 const NUMBER_D = /^[+-]?(?:\d+\.?\d*|\.\d+)[dD][+-]?\d+$/
 const DECIMAL_COMMA = /^[+-]?\d*,\d+(?:[eE][+-]?\d+)?$/
@@ -102,6 +103,8 @@ const DECIMAL_COMMA = /^[+-]?\d*,\d+(?:[eE][+-]?\d+)?$/
  * not 46309.10999…).
  */
 export function parseNumber(cell: string, decimalComma = false, pow10 = 0): number {
+  // Longer cells are never plain numbers; the cap also keeps the regexes linear on hostile input.
+  if (cell.length > MAX_NUMBER_CHARS) return NaN
   let s: string
   if (NUMBER.test(cell)) s = cell
   else if (decimalComma && DECIMAL_COMMA.test(cell)) s = cell.replace(',', '.')
@@ -114,7 +117,7 @@ export function parseNumber(cell: string, decimalComma = false, pow10 = 0): numb
 }
 
 export function looksDecimalComma(cell: string): boolean {
-  return DECIMAL_COMMA.test(cell)
+  return cell.length <= MAX_NUMBER_CHARS && DECIMAL_COMMA.test(cell)
 }
 
 const MISSING = new Set(['', 'nan', '-nan', '+nan', 'na', 'n/a', 'null', 'none', '-', '--', '---', '?', 'inf', '-inf', 'infinity'])

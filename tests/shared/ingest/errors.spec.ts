@@ -148,3 +148,21 @@ describe('IngestError', () => {
     expect(e).toBeInstanceOf(Error)
   })
 })
+
+describe('hostile input', () => {
+  it('reads a huge non-numeric cell as text without slowing down', () => {
+    const long = `${'9'.repeat(200_000)}x`
+    const r = parseTable(`2450001 ${long} 1\n2450002 1 1\n`, {
+      delimiter: 'whitespace', hasHeader: false, unit: 'm/s', timeFormat: 'jd',
+      columns: [{ index: 0, name: 't', role: 'time' }, { index: 1, name: 'rv', role: 'rv' }, { index: 2, name: 'e', role: 'error' }],
+    })
+    expect(r.problems).toHaveLength(1)
+    expect(r.problems[0]!.message).toMatch(/is not a number/)
+    expect(r.problems[0]!.message.length).toBeLessThan(100)
+  })
+
+  it('reads a huge header name without slowing down', () => {
+    const d = detectTable(`time ${'['.repeat(100_000)} err\n2450001 1 1\n2450002 2 1\n`)
+    expect(d.mapping.columns.map(c => c.role)).toEqual(['time', 'rv', 'error'])
+  })
+})
