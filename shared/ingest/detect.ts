@@ -2,6 +2,7 @@ import { assertText } from './decode.ts'
 import { IngestError } from './errors.ts'
 import { MAX_FILE_BYTES, MAX_ROWS, PREVIEW_ROWS } from './limits.ts'
 import { DELIMITERS, TIME_FORMATS, VELOCITY_UNITS } from './mapping.ts'
+import { TIME_OFFSETS } from './time.ts'
 import { describeTimeFormat, indicatorKey, readName, timeFromName, unitFromName, type NameReading } from './names.ts'
 import { commentBody, commentPrefix, isBlank, isMissing, looksDecimalComma, parseNumber, splitCells, splitLines } from './text.ts'
 import type { ColumnMapping, ColumnRef, ColumnRole, Delimiter, DetectHints, Detection, TableMapping, TimeFormat, VelocityUnit } from './types.ts'
@@ -420,6 +421,13 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
     const r = timeFormatFromValues(tv, named)
     timeFormat = r.format
     notes.push(r.why)
+  }
+
+  if (timeFormat !== 'days' && tv.length > 0) {
+    const full = median(tv) + TIME_OFFSETS[timeFormat]
+    if (full < 2_400_000 || full > 2_500_000) {
+      notes.push(`check the time format: read as ${describeTimeFormat(timeFormat)}, the times fall near JD ${Math.round(full)}, outside 1858–2132`)
+    }
   }
 
   // Remaining columns (indicator keys made unique: 'x', 'x_2', …).

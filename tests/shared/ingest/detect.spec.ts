@@ -438,3 +438,12 @@ describe('more hints and corner cases', () => {
     expect(d.notes.join(' ')).toMatch(/extra names ignored/)
   })
 })
+
+describe('time plausibility', () => {
+  it('warns when a given time format puts the times outside the JD range of modern data', () => {
+    // JD 2400000 is 1858-11-16 12:00 and JD 2500000 is 2132-08-31 12:00 (astropy 5.2.1, Time(jd, format='jd').iso).
+    const d = detectTable('5001.5 1 1\n5002.5 2 1\n', { timeFormat: 'jd' })
+    expect(d.notes.join(' ')).toMatch(/check the time format/)
+    expect(detectTable('5001.5 1 1\n5002.5 2 1\n').notes.join(' ')).not.toMatch(/check the time format/)
+  })
+})

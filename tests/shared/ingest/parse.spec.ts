@@ -106,7 +106,7 @@ describe('instruments', () => {
   })
 
   it('takes split dates typed as calendar dates', () => {
-    // JD of 2000-01-01T12:00 UTC is 2451545.0 (the J2000 epoch, common practice).
+    // JD of 2000-01-01T12:00 UTC is 2451545.0 (astropy 5.2.1: Time('2000-01-01T12:00:00', scale='utc').jd).
     expect(calendarToJd('2000-01-01T12:00:00Z')).toBe(2451545)
     expect(calendarToJd('2000-01-01')).toBe(2451544.5)
     expect(() => calendarToJd('soon')).toThrow(/date/)
