@@ -3,7 +3,7 @@
  *
  * The solver takes Markley's (1995, Celest. Mech. 63, 101) cubic starting value and one
  * high-order correction of his form, which together leave |E − e sin E − M| below 3e-15; a guarded Newton
- * step (Danby 1988, *Fundamentals of Celestial Mechanics*, §6.6) then runs only if the residual
+ * step (Danby 1988, *Fundamentals of Celestial Mechanics*) then runs only if the residual
  * still exceeds the tolerance, so the result always meets |E − e sin E − M| < 1e-12.
  * Relations between anomalies follow Murray & Dermott 1999, *Solar System Dynamics*, §2.4.
  */
