@@ -6,6 +6,7 @@ set -uo pipefail
 cd "$(dirname "$0")/.."
 here=$PWD
 port=${STARSWAY_TEST_PG_PORT:-54391}
+cluster=${STARSWAY_TEST_PG_CLUSTER:-pg-test}
 failed_steps=0
 
 bash scripts/ensure-deps.sh || { echo "0 passed, 1 failed"; exit 1; }
@@ -15,9 +16,9 @@ if [ ! -x /usr/bin/chromium ]; then
   DEBIAN_FRONTEND=noninteractive $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq chromium >/dev/null
 fi
 
-bash scripts/pg.sh start pg-test "$port" || { echo "0 passed, 1 failed"; exit 1; }
-trap 'bash scripts/pg.sh stop pg-test' EXIT
-export TEST_DATABASE_URL=$(bash scripts/pg.sh url pg-test "$port" postgres)
+bash scripts/pg.sh start "$cluster" "$port" || { echo "0 passed, 1 failed"; exit 1; }
+trap 'bash scripts/pg.sh stop "$cluster"' EXIT
+export TEST_DATABASE_URL=$(bash scripts/pg.sh url "$cluster" "$port" postgres)
 export NODE_ENV=test
 
 echo "== type-check"
