@@ -128,8 +128,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     screened.sort((a, b) => a.chi2 - b.chi2)
     let best: FitResult | null = null
     for (const s of screened.slice(0, startsPerStep)) {
-      const { chi2: _c, ...start } = s
-      void _c
+      const { chi2, ...start } = s // the screening score is not a fit option
       const f = fitKeplerians(data, { planets: [...toStarts(cur), start], trend: curTrend, epoch, jitterStart: jitter, skipUncertainties: true })
       if (better(best, f)) best = f
     }
