@@ -1,0 +1,130 @@
+"""Reference posterior for the sampler tests, and the reference timing for the sampler benchmark.
+
+Default mode writes fixtures/sampler/one-planet-emcee.json: a synthetic one-planet series with
+jitter, and emcee's medians and 16/84 % percentiles of the posterior of the model
+v = K[cos(nu + w) + e cos w] + offset with the likelihood of Ford (2006) (jitter s added in
+quadrature) sampled in (ln P, ln K, sqrt(e) cos w, sqrt(e) sin w, Tc, offset, ln s) with priors
+flat in P > 0, K > 0, e in [0, 0.99), w, Tc, offset and s > 0 (Jacobian ln P + ln K + ln s; the
+sqrt(e) map has a constant Jacobian). Kepler's equation by vectorised Newton
+(fit_kepler_model.py), independent of the TypeScript code.
+
+  /usr/bin/python3 scripts/reference/sampler_emcee.py             # writes the fixture
+  /usr/bin/python3 scripts/reference/sampler_emcee.py --timing F  # F: JSON {t, y, dy, start, walkers, steps, seed}
+                                                                  # prints {"ms": ..., "versions": ...}
+"""
+import json
+import os
+import sys
+import time
+
+import numpy as np
+import emcee
+
+sys.path.insert(0, os.path.dirname(__file__))
+from fit_kepler_model import ecc_anomaly, tc_to_tp  # noqa: E402
+
+E_MAX = 0.99
+
+
+def make_log_prob(t, y, dy):
+    dy2 = dy * dy
+    n = len(t)
+    const = n * np.log(2 * np.pi)
+
+    def log_prob(x):
+        lnP, lnK, h, k, tc, off, lns = x
+        e = h * h + k * k
+        if not e < E_MAX or abs(lnP) > 700 or abs(lnK) > 700 or abs(lns) > 350:
+            return -np.inf
+        P, K = np.exp(lnP), np.exp(lnK)
+        w = np.arctan2(k, h) if e > 0 else 0.0
+        tp = tc_to_tp(tc, P, e, w)
+        E = ecc_anomaly(2 * np.pi * (t - tp) / P, e)
+        nu = 2 * np.arctan2(np.sqrt(1 + e) * np.sin(E / 2), np.sqrt(1 - e) * np.cos(E / 2))
+        r = y - (K * (np.cos(nu + w) + e * np.cos(w)) + off)
+        V = dy2 + np.exp(2 * lns)
+        return -0.5 * (np.sum(r * r / V + np.log(V)) + const) + lnP + lnK + lns
+
+    return log_prob
+
+
+def versions():
+    return {'emcee': emcee.__version__, 'numpy': np.__version__, 'python': sys.version.split()[0]}
+
+
+def timing(path):
+    with open(path) as f:
+        d = json.load(f)
+    t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
+    lp = make_log_prob(t, y, dy)
+    rng = np.random.default_rng(d.get('seed', 1))
+    start = np.asarray(d['start'], dtype=float)
+    scale = np.asarray(d['scale'], dtype=float)
+    walkers, steps = int(d['walkers']), int(d['steps'])
+    p0 = start + 0.1 * scale * rng.standard_normal((walkers, len(start)))
+    sampler = emcee.EnsembleSampler(walkers, len(start), lp)
+    t0 = time.perf_counter()
+    sampler.run_mcmc(p0, steps, progress=False)
+    ms = (time.perf_counter() - t0) * 1000
+    print(json.dumps({'ms': ms, 'acceptance': float(np.mean(sampler.acceptance_fraction)), 'versions': versions()}))
+
+
+def truth_model(p, t):
+    P, K, e, w, tc, off = p
+    tp = tc_to_tp(tc, P, e, w)
+    E = ecc_anomaly(2 * np.pi * (t - tp) / P, e)
+    nu = 2 * np.arctan2(np.sqrt(1 + e) * np.sin(E / 2), np.sqrt(1 - e) * np.cos(E / 2))
+    return K * (np.cos(nu + w) + e * np.cos(w)) + off
+
+
+def fixture():
+    seed = 20261202
+    rng = np.random.default_rng(seed)
+    n = 80
+    t = np.sort(2458000 + rng.uniform(0, 400, n))
+    dy = rng.uniform(1.5, 3.0, n)
+    P, K, e, w, tc, off, jit = 15.8, 9.0, 0.3, 1.0, 2458203.1, -3.0, 2.5
+    y = truth_model((P, K, e, w, tc, off), t) + np.sqrt(dy ** 2 + jit ** 2) * rng.standard_normal(n)
+    lp = make_log_prob(t, y, dy)
+    x0 = np.array([np.log(P), np.log(K), np.sqrt(e) * np.cos(w), np.sqrt(e) * np.sin(w), tc, off, np.log(jit)])
+    walkers, steps, burn = 32, 20000, 4000
+    p0 = x0 + 1e-3 * rng.standard_normal((walkers, 7))
+    sampler = emcee.EnsembleSampler(walkers, 7, lp)
+    sampler.run_mcmc(p0, steps, progress=False)
+    tau = sampler.get_autocorr_time(discard=burn, quiet=True)
+    ch = sampler.get_chain(discard=burn, flat=True)
+    Pd, Kd = np.exp(ch[:, 0]), np.exp(ch[:, 1])
+    ed = ch[:, 2] ** 2 + ch[:, 3] ** 2
+    wd = np.degrees(np.arctan2(ch[:, 3], ch[:, 2]))
+    wd = np.degrees(w) + np.mod(wd - np.degrees(w) + 180, 360) - 180
+    cols = {'P': Pd, 'K': Kd, 'e': ed, 'omegaDeg': wd, 'tc': ch[:, 4], 'offset': ch[:, 5], 'jitter': np.exp(ch[:, 6])}
+    summary = {}
+    for name, v in cols.items():
+        q16, q50, q84 = np.percentile(v, [16, 50, 84])
+        summary[name] = {'median': q50, 'lo': q16, 'hi': q84, 'sd': float(np.std(v, ddof=1))}
+    out = {
+        'provenance': {
+            'tool': f"emcee {emcee.__version__} EnsembleSampler (default stretch move, a = 2), numpy {np.__version__}, python {sys.version.split()[0]}",
+            'command': '/usr/bin/python3 scripts/reference/sampler_emcee.py',
+            'model': 'v = K[cos(nu+w) + e cos w] + offset, Ford 2006 jitter likelihood; sampled in ln P, ln K, sqrt(e)cos w, sqrt(e)sin w, Tc, offset, ln s; priors flat in P, K, e<0.99, w, Tc, offset, s',
+            'seed': seed,
+            'truth': {'P': P, 'K': K, 'e': e, 'omegaDeg': float(np.degrees(w)), 'tc': tc, 'offset': off, 'jitter': jit},
+            'run': {'walkers': walkers, 'steps': steps, 'burn': burn, 'tauSteps': [float(v) for v in tau],
+                    'acceptance': float(np.mean(sampler.acceptance_fraction)), 'draws': int(ch.shape[0])},
+            'versions': versions(),
+        },
+        'data': {'t': t.tolist(), 'y': y.tolist(), 'dy': dy.tolist()},
+        'summary': {k: {kk: float(vv) for kk, vv in v.items()} for k, v in summary.items()},
+    }
+    path = os.path.join(os.path.dirname(__file__), '..', '..', 'fixtures', 'sampler', 'one-planet-emcee.json')
+    with open(path, 'w') as f:
+        json.dump(out, f, indent=1)
+    print(json.dumps(out['summary'], indent=1))
+    print(json.dumps(out['provenance']['run']))
+
+
+if __name__ == '__main__':
+    if len(sys.argv) >= 3 and sys.argv[1] == '--timing':
+        timing(sys.argv[2])
+    else:
+        fixture()

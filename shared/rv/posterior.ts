@@ -1,0 +1,364 @@
+/**
+ * Log-posterior of the RV model (N Keplerians + per-instrument offset and jitter + optional
+ * trend) in a parameterisation suited to sampling.
+ *
+ * Sampling coordinates, in this order:
+ *   per planet   ln P, ln K, √e cos ω, √e sin ω, Tc     (Ford 2006, ApJ 642, 505; Eastman, Gaudi &
+ *                                                      Agol 2013, PASP 125, 83 for √e cos ω, √e sin ω)
+ *   per instrument  offset
+ *   per instrument  ln s (only when jitters are sampled)
+ *   trend        slope [, curvature]                  (about `epoch`)
+ *
+ * Likelihood (Ford 2006): ln L = −½ Σ_i [ r_i² / (σ_i² + s_k²) + ln 2π(σ_i² + s_k²) ], the same
+ * as the fitter's; offsets and trend are sampled, not profiled.
+ *
+ * Priors are stated on the physical parameters and converted with the Jacobian of the map, so they
+ * mean what they say. Defaults (common practice for RV posteriors): flat in P > 0, flat in K ≥ 0,
+ * flat in e on [0, eMax) and flat in ω, flat in Tc, flat in the offsets and trend, flat in the
+ * jitter s ≥ 0. Jacobians:
+ *   - P = e^{u}: p(u) = p(P) · P, so ln p gains + ln P;
+ *   - K = e^{v}: + ln K;  s = e^{w}: + ln s;
+ *   - (h, k) = (√e cos ω, √e sin ω): ∂(h, k)/∂(e, ω) = [[cos ω/(2√e), −√e sin ω], [sin ω/(2√e), √e cos ω]],
+ *     determinant ½ (constant), so a prior uniform in e and ω is uniform in (h, k) and needs no term;
+ *     any stated prior on e or ω enters as is, p(h, k) = 2 p(e) p(ω).
+ * Stated priors (`SamplingPrior`) multiply into the defaults: uniform and log-uniform priors
+ * restrict the support (−∞ outside) and add their normalised densities; Gaussian priors add
+ * −½((x − μ)/σ)² − ln σ√2π, with ω differences wrapped to ±180° and Tp taken on the revolution
+ * nearest the prior's centre.
+ *
+ * The evaluation allocates nothing: one model buffer, Kepler's equation by the core's solver
+ * (`addKeplerian`), per-row constants precomputed.
+ */
+import { addKeplerian, tcToTp, tpToTc, nearestEpoch, type Keplerian } from './model.ts'
+import { checkRvData, type RvData } from './fit-data.ts'
+import { E_MAX, type TrendKind, type FitResult } from './fit.ts'
+
+const TWO_PI = 2 * Math.PI
+const DEG = Math.PI / 180
+const LN_2PI = Math.log(TWO_PI)
+
+export type SamplingParam = 'period' | 'K' | 'e' | 'omegaDeg' | 'tc' | 'tp' | 'offset' | 'jitter'
+
+/**
+ * A prior on a physical parameter: `planet` (index) for period/K/e/omegaDeg/tc/tp, `instrument`
+ * (index) for offset/jitter. Give exactly one of uniform, logUniform, gaussian. The fitter's
+ * `Prior` objects are valid `SamplingPrior`s.
+ */
+export interface SamplingPrior {
+  planet?: number
+  instrument?: number
+  param: SamplingParam
+  uniform?: { min: number; max: number }
+  logUniform?: { min: number; max: number }
+  gaussian?: { mu: number; sigma: number }
+}
+
+/** The model to sample and the point it is centred on (usually the maximum-likelihood fit). */
+export interface PosteriorSpec {
+  planets: Array<{ period: number; K: number; e?: number; omegaDeg?: number; tc?: number; tp?: number }>
+  trend?: TrendKind
+  /** Reference time of the trend (default: mean time of the data). */
+  epoch?: number
+  /** 'fit' (default): jitters are sampled; or fixed jitters per instrument (m/s). */
+  jitter?: 'fit' | number[]
+  /** Centre values per instrument (default 0 offsets, 1 m/s jitters when sampled). */
+  offsets?: number[]
+  jitters?: number[]
+  slope?: number
+  curvature?: number
+  priors?: SamplingPrior[]
+  /** Hard upper bound on e (default E_MAX = 0.99 of the fitter). */
+  eMax?: number
+}
+
+export interface PosteriorLayout {
+  nPlanets: number
+  nInst: number
+  /** Index of the first offset, of the first ln jitter (−1 if fixed), of the slope and curvature (−1 if absent). */
+  iOffset: number
+  iJitter: number
+  iSlope: number
+  iCurvature: number
+}
+
+export interface LogPosterior {
+  nDim: number
+  /** Names and units of the sampling coordinates. */
+  names: string[]
+  units: string[]
+  layout: PosteriorLayout
+  epoch: number
+  eMax: number
+  /** ln posterior (up to a constant) at a sampling point; −Infinity outside the support. No allocation. */
+  logProb(x: ArrayLike<number>): number
+  /** ln L alone (Ford 2006) at a sampling point (NaN-free: −Infinity for impossible points). */
+  logLikelihood(x: ArrayLike<number>): number
+  /** ln prior including the Jacobian terms. */
+  logPrior(x: ArrayLike<number>): number
+  /** Sampling point of the spec's centre values. */
+  centre: Float64Array
+}
+
+const LETTERS = 'bcdefghijklmnopqrstuvwxyz'
+/** Planet label used in parameter names: b, c, d… (the trade's habit for companions of one star). */
+export function planetLabel(k: number): string {
+  return k < LETTERS.length ? LETTERS[k] : `p${k + 1}`
+}
+
+/**
+ * Builds the log-posterior of `spec` for `data` (see the module comment). Throws a RangeError
+ * naming the field on misuse.
+ */
+export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPosterior {
+  checkRvData(data)
+  const n = data.t.length
+  const nInst = data.instrumentNames.length
+  const nPl = spec.planets.length
+  const trend = spec.trend ?? 'none'
+  if (!['none', 'linear', 'quadratic'].includes(trend)) throw new RangeError(`trend must be none, linear or quadratic, got ${trend}`)
+  const eMax = spec.eMax ?? E_MAX
+  if (!(eMax > 0 && eMax < 1)) throw new RangeError(`eMax must be in (0, 1), got ${eMax}`)
+  let mean = 0
+  for (let i = 0; i < n; i++) mean += data.t[i]
+  const epoch = spec.epoch ?? (n ? mean / n : 0)
+  if (!Number.isFinite(epoch)) throw new RangeError('epoch must be finite')
+  const fixedJitter = Array.isArray(spec.jitter) ? spec.jitter : null
+  if (fixedJitter) {
+    if (fixedJitter.length !== nInst) throw new RangeError(`jitter must have one value per instrument (${nInst})`)
+    fixedJitter.forEach((s, k) => { if (!(s >= 0)) throw new RangeError(`jitter[${k}] must be ≥ 0`) })
+  } else if (spec.jitter !== undefined && spec.jitter !== 'fit') throw new RangeError("jitter must be 'fit' or an array")
+
+  const names: string[] = [], units: string[] = []
+  const centre: number[] = []
+  spec.planets.forEach((p, k) => {
+    const label = `planets[${k}]`
+    if (!(p.period > 0)) throw new RangeError(`${label}.period must be > 0, got ${p.period}`)
+    if (!(p.K > 0)) throw new RangeError(`${label}.K must be > 0 to start the sampler (ln K), got ${p.K}`)
+    const e = p.e ?? 0
+    if (!(e >= 0 && e < eMax)) throw new RangeError(`${label}.e must be in [0, eMax), got ${e}`)
+    const w = (p.omegaDeg ?? 0) * DEG
+    let tc: number
+    if (p.tc !== undefined) tc = p.tc
+    else if (p.tp !== undefined) tc = tpToTc(p.tp, p.period, e, w)
+    else throw new RangeError(`${label} needs tc or tp`)
+    if (!Number.isFinite(tc)) throw new RangeError(`${label}.tc must be finite`)
+    const L = planetLabel(k)
+    names.push(`ln P ${L}`, `ln K ${L}`, `√e cos ω ${L}`, `√e sin ω ${L}`, `Tc ${L}`)
+    units.push('ln d', 'ln m/s', '', '', 'd')
+    centre.push(Math.log(p.period), Math.log(p.K), Math.sqrt(e) * Math.cos(w), Math.sqrt(e) * Math.sin(w), nearestEpoch(tc, p.period, epoch))
+  })
+  const iOffset = centre.length
+  for (let k = 0; k < nInst; k++) {
+    names.push(`offset ${data.instrumentNames[k]}`); units.push('m/s')
+    centre.push(spec.offsets?.[k] ?? 0)
+  }
+  let iJitter = -1
+  if (!fixedJitter) {
+    iJitter = centre.length
+    for (let k = 0; k < nInst; k++) {
+      names.push(`ln jitter ${data.instrumentNames[k]}`); units.push('ln m/s')
+      const s = spec.jitters?.[k] ?? 1
+      centre.push(Math.log(Math.max(s, 1e-3)))
+    }
+  }
+  let iSlope = -1, iCurvature = -1
+  if (trend !== 'none') { iSlope = centre.length; names.push('slope'); units.push('m/s/d'); centre.push(spec.slope ?? 0) }
+  if (trend === 'quadratic') { iCurvature = centre.length; names.push('curvature'); units.push('m/s/d²'); centre.push(spec.curvature ?? 0) }
+  const nDim = centre.length
+
+  // ---- priors, checked and compiled
+  const priors = (spec.priors ?? []).map((pr, j) => {
+    const label = `priors[${j}]`
+    const planetParam = ['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'].includes(pr.param)
+    const instParam = ['offset', 'jitter'].includes(pr.param)
+    if (!planetParam && !instParam) throw new RangeError(`${label}.param: unknown parameter ${pr.param}`)
+    if (planetParam && !(Number.isInteger(pr.planet) && pr.planet! >= 0 && pr.planet! < nPl)) throw new RangeError(`${label}.planet out of range`)
+    if (instParam && !(Number.isInteger(pr.instrument) && pr.instrument! >= 0 && pr.instrument! < nInst)) throw new RangeError(`${label}.instrument out of range`)
+    if (pr.param === 'jitter' && fixedJitter) throw new RangeError(`${label}: a prior on the jitter needs sampled jitters`)
+    const kinds = [pr.uniform, pr.logUniform, pr.gaussian].filter((v) => v !== undefined).length
+    if (kinds !== 1) throw new RangeError(`${label} must give exactly one of uniform, logUniform, gaussian`)
+    if (pr.uniform && !(pr.uniform.max > pr.uniform.min)) throw new RangeError(`${label}.uniform.max must exceed min`)
+    if (pr.logUniform && !(pr.logUniform.min > 0 && pr.logUniform.max > pr.logUniform.min)) throw new RangeError(`${label}.logUniform needs 0 < min < max`)
+    if (pr.gaussian && !(pr.gaussian.sigma > 0)) throw new RangeError(`${label}.gaussian.sigma must be > 0`)
+    const kind = pr.uniform ? 0 : pr.logUniform ? 1 : 2
+    const lo = pr.uniform?.min ?? pr.logUniform?.min ?? 0
+    const hi = pr.uniform?.max ?? pr.logUniform?.max ?? 0
+    const mu = pr.gaussian?.mu ?? 0.5 * (lo + hi)
+    const sigma = pr.gaussian?.sigma ?? 1
+    const norm = kind === 0 ? -Math.log(hi - lo) : kind === 1 ? -Math.log(Math.log(hi / lo)) : -Math.log(sigma) - 0.5 * LN_2PI
+    return { param: pr.param, index: planetParam ? pr.planet! : pr.instrument!, kind, lo, hi, mu, sigma, norm }
+  })
+
+  // ---- scratch and per-row constants
+  const model = new Float64Array(n)
+  const dt = new Float64Array(n), dt2 = new Float64Array(n), dy2 = new Float64Array(n)
+  for (let i = 0; i < n; i++) { dt[i] = data.t[i] - epoch; dt2[i] = dt[i] * dt[i]; dy2[i] = data.dy[i] * data.dy[i] }
+  const { t, y, instrument } = data
+  const orbits: Keplerian[] = spec.planets.map(() => ({ period: 1, K: 0, e: 0, omega: 0, tp: 0 }))
+  const s2 = new Float64Array(nInst)
+  let fixedLogDet = 0
+  if (fixedJitter) {
+    for (let i = 0; i < n; i++) fixedLogDet += Math.log(dy2[i] + fixedJitter[instrument[i]] ** 2)
+    for (let k = 0; k < nInst; k++) s2[k] = fixedJitter[k] ** 2
+  }
+  const constTerm = n * LN_2PI
+  const ex = new Float64Array(nPl), om = new Float64Array(nPl)
+
+  /** Fills orbits / ex / om from x; returns the prior's Jacobian terms, or −Infinity outside the bounds. */
+  const unpack = (x: ArrayLike<number>): number => {
+    let jac = 0
+    for (let k = 0; k < nPl; k++) {
+      const o = 5 * k
+      const lnP = x[o], lnK = x[o + 1], h = x[o + 2], kk = x[o + 3], tc = x[o + 4]
+      const e = h * h + kk * kk
+      if (!(e < eMax) || !Number.isFinite(lnP) || !Number.isFinite(lnK) || !Number.isFinite(tc) || lnP > 700 || lnK > 700) return -Infinity
+      const P = Math.exp(lnP)
+      if (!(P > 0)) return -Infinity
+      const w = e > 0 ? Math.atan2(kk, h) : 0
+      const orb = orbits[k]
+      orb.period = P; orb.K = Math.exp(lnK); orb.e = e; orb.omega = w
+      orb.tp = tcToTp(tc, P, e, w)
+      ex[k] = e; om[k] = w
+      jac += lnP + lnK
+    }
+    if (iJitter >= 0) {
+      for (let k = 0; k < nInst; k++) {
+        const ls = x[iJitter + k]
+        if (!(ls < 350 && ls > -350)) return -Infinity
+        s2[k] = Math.exp(2 * ls)
+        jac += ls
+      }
+    }
+    for (let d = iOffset; d < nDim; d++) if (!Number.isFinite(x[d])) return -Infinity
+    return jac
+  }
+
+  const statedPriors = (x: ArrayLike<number>): number => {
+    let s = 0
+    for (let j = 0; j < priors.length; j++) {
+      const pr = priors[j]
+      let v: number
+      switch (pr.param) {
+        case 'period': v = orbits[pr.index].period; break
+        case 'K': v = orbits[pr.index].K; break
+        case 'e': v = ex[pr.index]; break
+        case 'omegaDeg': {
+          v = om[pr.index] / DEG
+          const ref = pr.kind === 2 ? pr.mu : 0.5 * (pr.lo + pr.hi)
+          v = ref + ((((v - ref) % 360) + 540) % 360) - 180
+          break
+        }
+        case 'tc': v = x[5 * pr.index + 4]; break
+        case 'tp': {
+          const ref = pr.kind === 2 ? pr.mu : 0.5 * (pr.lo + pr.hi)
+          v = nearestEpoch(orbits[pr.index].tp, orbits[pr.index].period, ref)
+          break
+        }
+        case 'offset': v = x[iOffset + pr.index]; break
+        default: v = Math.sqrt(s2[pr.index])
+      }
+      if (pr.kind === 2) { const z = (v - pr.mu) / pr.sigma; s += -0.5 * z * z + pr.norm }
+      else if (v < pr.lo || v > pr.hi) return -Infinity
+      else s += pr.kind === 1 ? pr.norm - Math.log(v) : pr.norm
+    }
+    return s
+  }
+
+  const likelihood = (x: ArrayLike<number>): number => {
+    model.fill(0)
+    for (let k = 0; k < nPl; k++) addKeplerian(t, orbits[k], model)
+    const slope = iSlope >= 0 ? x[iSlope] : 0
+    const curv = iCurvature >= 0 ? x[iCurvature] : 0
+    let chi2 = 0, logDet = 0
+    if (fixedJitter) {
+      for (let i = 0; i < n; i++) {
+        const r = y[i] - model[i] - x[iOffset + instrument[i]] - slope * dt[i] - curv * dt2[i]
+        chi2 += r * r / (dy2[i] + s2[instrument[i]])
+      }
+      logDet = fixedLogDet
+    } else {
+      for (let i = 0; i < n; i++) {
+        const k = instrument[i]
+        const r = y[i] - model[i] - x[iOffset + k] - slope * dt[i] - curv * dt2[i]
+        const V = dy2[i] + s2[k]
+        chi2 += r * r / V
+        logDet += Math.log(V)
+      }
+    }
+    const ll = -0.5 * (chi2 + logDet + constTerm)
+    return Number.isNaN(ll) ? -Infinity : ll
+  }
+
+  const logPrior = (x: ArrayLike<number>): number => {
+    if (x.length !== nDim) throw new RangeError(`x must have ${nDim} coordinates, got ${x.length}`)
+    const jac = unpack(x)
+    if (jac === -Infinity) return -Infinity
+    return jac + statedPriors(x)
+  }
+  const logLikelihood = (x: ArrayLike<number>): number => {
+    if (x.length !== nDim) throw new RangeError(`x must have ${nDim} coordinates, got ${x.length}`)
+    if (unpack(x) === -Infinity) return -Infinity
+    return likelihood(x)
+  }
+  const logProb = (x: ArrayLike<number>): number => {
+    const jac = unpack(x)
+    if (jac === -Infinity) return -Infinity
+    const lp = jac + statedPriors(x)
+    if (lp === -Infinity) return -Infinity
+    return lp + likelihood(x)
+  }
+  return {
+    nDim, names, units, epoch, eMax, centre: Float64Array.from(centre),
+    layout: { nPlanets: nPl, nInst, iOffset, iJitter, iSlope, iCurvature },
+    logProb, logLikelihood, logPrior,
+  }
+}
+
+/**
+ * The centre of a posterior from a fit: planets, offsets, jitters (sampled unless every
+ * instrument's jitter error is exactly 0, the fitter's mark of a fixed jitter), trend, epoch.
+ */
+export function specFromFit(fit: FitResult, extra: { priors?: SamplingPrior[]; eMax?: number; jitter?: 'fit' | number[] } = {}): PosteriorSpec {
+  const fixed = fit.instruments.length > 0 && fit.instruments.every((s) => s.jitterErr === 0)
+  return {
+    planets: fit.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })),
+    trend: fit.trend?.kind ?? 'none',
+    epoch: fit.epoch,
+    jitter: extra.jitter ?? (fixed ? fit.instruments.map((s) => s.jitter) : 'fit'),
+    offsets: fit.instruments.map((s) => s.offset),
+    jitters: fit.instruments.map((s) => s.jitter),
+    slope: fit.trend?.slope,
+    curvature: fit.trend?.curvature,
+    priors: extra.priors,
+    eMax: extra.eMax,
+  }
+}
+
+/**
+ * Per-coordinate 1σ scales of the sampling coordinates from a fit's covariance errors (first-order
+ * propagation to ln P, ln K, √e cos ω, √e sin ω, ln s); `fallback` replaces NaN or zero errors.
+ */
+export function samplingScales(fit: FitResult, post: LogPosterior): Float64Array {
+  const sc = new Float64Array(post.nDim)
+  const ok = (v: number, fb: number): number => (Number.isFinite(v) && v > 0 ? v : fb)
+  fit.planets.forEach((p, k) => {
+    const o = 5 * k
+    const u = p.uncertainty
+    sc[o] = ok(u.period / p.period, 1e-4)
+    sc[o + 1] = ok(u.K / p.K, 0.05)
+    const se = Math.sqrt(p.e), w = p.omega
+    const sw = ok(u.omegaDeg * DEG, 0.1), sE = ok(u.e, 0.02)
+    const de = se > 1e-3 ? 1 / (2 * se) : 0
+    sc[o + 2] = ok(Math.hypot(Math.cos(w) * de * sE, se * Math.sin(w) * sw), 0.03)
+    sc[o + 3] = ok(Math.hypot(Math.sin(w) * de * sE, se * Math.cos(w) * sw), 0.03)
+    sc[o + 4] = ok(u.tc, 1e-3 * p.period)
+  })
+  const L = post.layout
+  fit.instruments.forEach((s, k) => {
+    sc[L.iOffset + k] = ok(s.offsetErr, 1)
+    if (L.iJitter >= 0) sc[L.iJitter + k] = ok(s.jitter > 0 ? s.jitterErr / s.jitter : NaN, 0.3)
+  })
+  if (L.iSlope >= 0) sc[L.iSlope] = ok(fit.trend?.slopeErr ?? NaN, 1e-3)
+  if (L.iCurvature >= 0) sc[L.iCurvature] = ok(fit.trend?.curvatureErr ?? NaN, 1e-6)
+  return sc
+}
