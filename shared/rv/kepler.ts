@@ -60,7 +60,8 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
   const r = 3 * alpha * d * (d - 1 + e) * M + M * M * M
   const cb = Math.cbrt(Math.abs(r) + Math.sqrt(q * q * q + r * r))
   const w = cb * cb
-  let E = (2 * r * w / (w * w + w * q + q * q) + M) / d
+  const D = w * w + w * q + q * q
+  let E = (2 * r * w + M * D) / (D * d) // = (2rw/D + M)/d with one division
   // sin E and cos E from one tangent of a half angle in [0, π/4] (t = tan h, sin = 2t/(1+t²),
   // cos = (1−t²)/(1+t²)): one transcendental call instead of two, accurate to a few ulp.
   const upper = E > HALF_PI
@@ -78,7 +79,7 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
   // Markley's nested corrections (his δ3 → δ4 → δ5); we stop one level early, feeding the Halley
   // step δ3 into the fifth-order form: the residual stays below 3e-15 over 0 ≤ e ≤ 0.99 (checked in
   // the tests), and the verification below falls back to Newton otherwise.
-  const d3 = -f0 / (f1 - 0.5 * f0 * f2 / f1)
+  const d3 = -f0 * f1 / (f1 * f1 - 0.5 * f0 * f2) // Halley: −f0/(f1 − ½ f0 f2/f1), one division
   const d5 = -f0 / (f1 + 0.5 * d3 * f2 + d3 * d3 * f3 / 6 - d3 * d3 * d3 * f2 / 24)
   E += d5
   // sin and cos of E + d5 from the angle-sum rule with short series in the small d5
