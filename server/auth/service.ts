@@ -8,6 +8,12 @@ import { hashToken, newToken } from './tokens.ts'
 import { acceptInvitationInTx, findOpenInvitation } from '../teams/service.ts'
 
 const RESET_HOURS = 1
+/** Hashes compared against when the e-mail is unknown (per cost), so both failures take the same time. */
+const dummyHashes = new Map<number, Promise<string>>()
+function dummyHash(cost: number): Promise<string> {
+  if (!dummyHashes.has(cost)) dummyHashes.set(cost, bcrypt.hash('starsway-no-such-user', cost))
+  return dummyHashes.get(cost)!
+}
 
 export function userJson(u: User): UserJson {
   return { id: u.id, email: u.email, name: u.name }
@@ -32,7 +38,7 @@ export async function register(s: Services, input: RegisterRequest): Promise<Use
 /** Same message for an unknown e-mail and a wrong password (no user enumeration). */
 export async function login(s: Services, email: string, password: string): Promise<User> {
   const user = await s.models.User.findOne({ where: { email } })
-  const ok = user ? await bcrypt.compare(password, user.passwordHash) : false
+  const ok = await bcrypt.compare(password, user ? user.passwordHash : await dummyHash(s.config.bcryptCost))
   if (!user || !ok) throw new UnauthorizedError('Wrong e-mail or password.')
   return user
 }

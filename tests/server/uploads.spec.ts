@@ -223,6 +223,12 @@ describe('bad input: a 4xx saying what to fix, and nothing stored', () => {
     await expectRefused(res, 413, /rows\.csv: the table has 1001 data rows/)
   })
 
+  it('more than 10 files at once', async () => {
+    const files = Array.from({ length: 11 }, (_, i) => ({ name: `f${i}.csv`, content: `time,rv,err\n${good(i)}\n` }))
+    const res = await analyst.upload(`/api/stars/${starId}/uploads/preview`, files)
+    await expectRefused(res, 413, /at most 10/)
+  })
+
   it('a commit without a mapping, or with a malformed one', async () => {
     const text = `time,rv,err\n${good(1)}\n`
     const none = await analyst.upload(`/api/stars/${starId}/uploads/commit`, [{ name: 'x.csv', content: text }])
