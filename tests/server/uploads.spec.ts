@@ -117,6 +117,13 @@ describe('upload happy paths with the published tables', () => {
     expect(com.body.datasets.map((d: { instrument: string; count: number }) => `${d.instrument}:${d.count}`)).toEqual(['Alpha:2', 'Beta:1'])
   })
 
+  it('splits one instrument at a date the user gives (an upgrade): one dataset per set-up', async () => {
+    const text = 'time,rv,err\n2459000.5,1.5,1.0\n2459001.5,2.5,1.0\n2459100.5,3.5,1.0\n'
+    const res = await previewAndCommit('upgrade.csv', text, { unit: 'm/s', instrument: 'Osprey-2', splitDates: [{ before: 2459050, instrument: 'Osprey-1' }] })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body.datasets.map((d: { instrument: string; count: number }) => `${d.instrument}:${d.count}`)).toEqual(['Osprey-1:2', 'Osprey-2:1'])
+  })
+
   it('records the upload in the audit log', async () => {
     await previewAndCommit('small.csv', 'time,rv,err\n2459000.5,1.5,1.0\n', { unit: 'm/s' })
     const audit = await reviewer.get(`/api/teams/${teamId}/audit`).expect(200)
