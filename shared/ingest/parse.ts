@@ -53,11 +53,10 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   let toSkip = (mapping.hasHeader ? 1 : 0) + (mapping.skipRows ?? 0)
 
   const rows: ParsedRow[] = []
-  const problems: RowProblem[] = []
-  let problemCount = 0
+  // Every problem is kept until the end, so duplicates (found last) sort into line order.
+  const all: RowProblem[] = []
   const counts = new Map<string, number>()
-  const seen = new Map<number, number | number[]>()
-  const add = (p: RowProblem): void => { problemCount++; if (problems.length < maxProblems) problems.push(p) }
+  const add = (p: RowProblem): void => { all.push(p) }
   const readNumber = (cells: string[], col: { index: number; name: string }, what: string, pow: number, line: number): number => {
     const c = cells[col.index] ?? ''
     if (c === '') { add({ line, column: col.name, message: `missing ${what}` }); return NaN }
@@ -88,7 +87,7 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       add({ line: lineNo, message: `too many fields: found ${cells.length}, expected ${width} (a stray delimiter, or a name with a space?)` })
       continue
     }
-    const before = problemCount
+    const before = all.length
     const t = readNumber(cells, m.time, 'time', 0, lineNo)
     const rv = readNumber(cells, m.rv, 'velocity', pow10, lineNo)
     let err = defaultError
@@ -109,26 +108,47 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       if (!Number.isNaN(v)) indicators[ind.key] = v
       else if (!isMissing(c)) add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` })
     }
-    if (problemCount !== before) continue
+    if (all.length !== before) continue
     const time = t + offset
     if (split) instrument = split(instrument, time)
-    // Rows by time: one row index, or a list when several rows share a time.
-    const same = seen.get(time)
-    if (same !== undefined) {
-      const list = typeof same === 'number' ? [same] : same
-      const dup = list.find(k => rows[k]!.rv === rv && rows[k]!.instrument === instrument)
-      if (dup !== undefined) {
-        add({ line: lineNo, message: `duplicate of line ${rows[dup]!.line} (same time, velocity and instrument)` })
-        continue
-      }
-      list.push(rows.length)
-      seen.set(time, list)
-    } else seen.set(time, rows.length)
     rows.push({ line: lineNo, time, rv, error: err, instrument, indicators })
-    counts.set(instrument, (counts.get(instrument) ?? 0) + 1)
   }
+
+  // Duplicates: rows in time order (files are usually in time order already; a sort beats a hash
+  // map of 100 000 float keys several times over), then equal velocity and instrument within
+  // each run of equal times.
+  const n = rows.length
+  const order = new Uint32Array(n)
+  for (let k = 0; k < n; k++) order[k] = k
+  let sorted = true
+  for (let k = 1; k < n && sorted; k++) sorted = rows[k - 1]!.time <= rows[k]!.time
+  if (!sorted) order.sort((a, b) => rows[a]!.time - rows[b]!.time || a - b)
+  const duplicate = new Uint8Array(n)
+  let dupCount = 0
+  for (let start = 0; start < n;) {
+    let end = start + 1
+    const t0 = rows[order[start]!]!.time
+    while (end < n && rows[order[end]!]!.time === t0) end++
+    if (end - start > 1) {
+      // Within a run the first row of each (velocity, instrument) is kept; later ones are duplicates.
+      const firsts = new Map<string, ParsedRow>()
+      for (let x = start; x < end; x++) {
+        const row = rows[order[x]!]!
+        const key = `${row.rv}\u0001${row.instrument}`
+        const first = firsts.get(key)
+        if (first === undefined) { firsts.set(key, row); continue }
+        duplicate[order[x]!] = 1
+        dupCount++
+        add({ line: row.line, message: `duplicate of line ${first.line} (same time, velocity and instrument)` })
+      }
+    }
+    start = end
+  }
+  const kept = dupCount === 0 ? rows : rows.filter((_, k) => !duplicate[k])
+  if (dupCount > 0) all.sort((a, b) => a.line - b.line)
+  for (const r of kept) counts.set(r.instrument, (counts.get(r.instrument) ?? 0) + 1)
   const instruments = [...counts].map(([name, count]) => ({ name, count }))
-  return { rows, problems, problemCount, instruments, rowsRead, truncated }
+  return { rows: kept, problems: all.slice(0, maxProblems), problemCount: all.length, instruments, rowsRead, truncated }
 }
 
 /**

@@ -181,6 +181,23 @@ describe('row problems', () => {
     expect(r.problems).toEqual([{ line: 2, message: 'duplicate of line 1 (same time, velocity and instrument)' }])
   })
 
+  it('finds duplicates in a file out of time order and lists problems in line order', () => {
+    const r = parseTable('2450003 1 1\n2450001 2 1\n2450003 1 2\n2450002 x 1\n2450001 2 1\n', basic())
+    expect(r.problems).toEqual([
+      { line: 3, message: 'duplicate of line 1 (same time, velocity and instrument)' },
+      { line: 4, column: 'rv', message: "velocity 'x' is not a number" },
+      { line: 5, message: 'duplicate of line 2 (same time, velocity and instrument)' },
+    ])
+    expect(r.rows.map(x => x.line)).toEqual([1, 2])
+  })
+
+  it('handles many rows sharing one time without slowing down', () => {
+    const text = Array.from({ length: 20_000 }, (_, i) => `0 ${i} 1`).join('\n')
+    const r = parseTable(text + '\n0 7 1\n', basic({ timeFormat: 'days' }))
+    expect(r.rows).toHaveLength(20_000)
+    expect(r.problems).toEqual([{ line: 20_001, message: 'duplicate of line 8 (same time, velocity and instrument)' }])
+  })
+
   it('caps the problems list but counts all', () => {
     const text = Array.from({ length: 30 }, (_, i) => `${2450000 + i} x 1`).join('\n')
     const r = parseTable(text, basic(), { maxProblems: 5 })
