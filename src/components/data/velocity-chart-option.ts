@@ -5,7 +5,13 @@ import type { Measurement } from '@/api/types.ts'
 
 /** Colour-blind-safe colours (Okabe & Ito's palette, common practice), paired with distinct symbols. */
 export const INSTRUMENT_COLORS = ['#0072B2', '#D55E00', '#009E73', '#CC79A7', '#E69F00', '#56B4E9', '#6b4f2a', '#444444']
-export const INSTRUMENT_SYMBOLS = ['circle', 'rect', 'triangle', 'diamond', 'pin', 'roundRect', 'arrow', 'emptyCircle']
+/** Filled shapes only: hollow marks are kept for excluded points. */
+export const INSTRUMENT_SYMBOLS = [
+  'circle', 'rect', 'triangle', 'diamond',
+  'path://M0,0L10,0L5,9Z', // triangle pointing down
+  'path://M3.5,0H6.5V3.5H10V6.5H6.5V10H3.5V6.5H0V3.5H3.5Z', // plus
+  'roundRect', 'pin',
+]
 export const EXCLUDED_COLOR = '#9aa0a6'
 export const EXCLUDED_NAME = 'Excluded'
 
