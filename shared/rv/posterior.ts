@@ -264,25 +264,41 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
     return s
   }
 
+  let dyMin2 = Infinity, dyMax2 = 0
+  for (let i = 0; i < n; i++) { dyMin2 = Math.min(dyMin2, dy2[i]); dyMax2 = Math.max(dyMax2, dy2[i]) }
+
   const likelihood = (x: ArrayLike<number>): number => {
-    model.fill(0)
-    for (let k = 0; k < nPl; k++) addKeplerian(t, orbits[k], model)
+    // model = offsets + trend, then the Keplerians added in place
     const slope = iSlope >= 0 ? x[iSlope] : 0
     const curv = iCurvature >= 0 ? x[iCurvature] : 0
+    for (let i = 0; i < n; i++) model[i] = x[iOffset + instrument[i]] + slope * dt[i] + curv * dt2[i]
+    for (let k = 0; k < nPl; k++) addKeplerian(t, orbits[k], model)
     let chi2 = 0, logDet = 0
     if (fixedJitter) {
-      for (let i = 0; i < n; i++) {
-        const r = y[i] - model[i] - x[iOffset + instrument[i]] - slope * dt[i] - curv * dt2[i]
-        chi2 += r * r / (dy2[i] + s2[instrument[i]])
-      }
+      for (let i = 0; i < n; i++) { const r = y[i] - model[i]; chi2 += r * r / (dy2[i] + s2[instrument[i]]) }
       logDet = fixedLogDet
     } else {
-      for (let i = 0; i < n; i++) {
-        const k = instrument[i]
-        const r = y[i] - model[i] - x[iOffset + k] - slope * dt[i] - curv * dt2[i]
-        const V = dy2[i] + s2[k]
-        chi2 += r * r / V
-        logDet += Math.log(V)
+      let maxS2 = 0
+      for (let k = 0; k < nInst; k++) if (s2[k] > maxS2) maxS2 = s2[k]
+      if (dyMin2 > 1e-18 && dyMax2 + maxS2 < 1e18) {
+        // Σ ln V as logs of products of 16 variances (each product within 1e±288, no over- or
+        // underflow): 1/16 of the logarithms, same value to ~1e-14
+        let prod = 1, cnt = 0
+        for (let i = 0; i < n; i++) {
+          const r = y[i] - model[i]
+          const V = dy2[i] + s2[instrument[i]]
+          chi2 += r * r / V
+          prod *= V
+          if (++cnt === 16) { logDet += Math.log(prod); prod = 1; cnt = 0 }
+        }
+        logDet += Math.log(prod)
+      } else {
+        for (let i = 0; i < n; i++) {
+          const r = y[i] - model[i]
+          const V = dy2[i] + s2[instrument[i]]
+          chi2 += r * r / V
+          logDet += Math.log(V)
+        }
       }
     }
     const ll = -0.5 * (chi2 + logDet + constTerm)
