@@ -12,7 +12,7 @@ import type { RvData } from './fit-data.ts'
 import { nearestEpoch, tcToTp } from './model.ts'
 import { minimumMass, semiMajorAxis } from './derived.ts'
 import { createLogPosterior, specFromFit, samplingScales, planetLabel, type SamplingPrior } from './posterior.ts'
-import { runEnsemble, createSamplerRandom, type ProgressCallback } from './sampler.ts'
+import { runEnsemble, createSamplerRandom, type ProgressCallback, type SamplerState } from './sampler.ts'
 import { integratedTime, splitRhat, acceptanceFraction } from './diagnostics.ts'
 
 const DEG = Math.PI / 180
@@ -43,6 +43,12 @@ export interface SampleOptions {
   ballScale?: number
   /** Walker groups for split-R̂ (default 4; must divide walkers). */
   rhatGroups?: number
+  /**
+   * Continue an interrupted run: the state and the kept chain (and ln p) handed to `onProgress`
+   * (copied), with the same data, model, seed and options. The result equals that of the
+   * uninterrupted run.
+   */
+  resume?: { state: SamplerState; chain: ArrayLike<number>; lnProb: ArrayLike<number> }
 }
 
 export interface ParameterSummary {
@@ -165,10 +171,32 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     start.set(x, w * nDim)
   }
 
-  const run = runEnsemble({
-    logProb: post.logProb, nDim, nWalkers: walkers, start, steps, random: rng, thin,
-    onProgress: options.onProgress, progressEvery: options.progressEvery,
-  })
+  let run
+  const resume = options.resume
+  if (resume) {
+    const st = resume.state
+    if (!st || st.nWalkers !== walkers || st.nDim !== nDim) throw new RangeError(`resume.state must be ${walkers} walkers × ${nDim} parameters`)
+    if (!(Number.isInteger(st.step) && st.step >= 0 && st.step <= steps)) throw new RangeError(`resume.state.step must be in [0, steps], got ${st.step}`)
+    const keptBefore = Math.floor(st.step / thin)
+    if (resume.chain.length !== keptBefore * walkers * nDim || resume.lnProb.length !== keptBefore * walkers) {
+      throw new RangeError(`resume.chain must hold the ${keptBefore} kept steps of the state (thin ${thin})`)
+    }
+    if (st.step % thin) throw new RangeError('resume.state.step must be a multiple of thin')
+    const rest = runEnsemble({
+      logProb: post.logProb, nDim, nWalkers: walkers, start: st, steps: steps - st.step, random: rng, thin,
+      onProgress: options.onProgress, progressEvery: options.progressEvery,
+    })
+    const chainAll = new Float64Array((keptBefore + rest.nKept) * walkers * nDim)
+    chainAll.set(resume.chain); chainAll.set(rest.chain, keptBefore * walkers * nDim)
+    const lnpAll = new Float64Array((keptBefore + rest.nKept) * walkers)
+    lnpAll.set(resume.lnProb); lnpAll.set(rest.lnProb, keptBefore * walkers)
+    run = { ...rest, chain: chainAll, lnProb: lnpAll, nKept: keptBefore + rest.nKept, nSteps: st.step + rest.nSteps }
+  } else {
+    run = runEnsemble({
+      logProb: post.logProb, nDim, nWalkers: walkers, start, steps, random: rng, thin,
+      onProgress: options.onProgress, progressEvery: options.progressEvery,
+    })
+  }
 
   // ---- post-burn chain (kept steps are steps thin, 2·thin, …)
   const warnings: string[] = []

@@ -76,8 +76,19 @@ export interface SamplerState {
   step: number
 }
 
-/** Return 'stop' to end the run after the current step (the result then has `stopped: true`). */
-export type ProgressCallback = (done: number, total: number, state: SamplerState) => void | 'stop'
+/** The part of the chain kept so far in this call (views into the sampler's buffers: copy to keep). */
+export interface ChainSoFar {
+  chain: Float64Array
+  lnProb: Float64Array
+  nKept: number
+}
+
+/**
+ * Called every `progressEvery` steps with the steps done in this call, the steps asked for, a
+ * copy of the resumable state and the chain kept so far; return 'stop' to end the run after the
+ * current step (the result then has `stopped: true`).
+ */
+export type ProgressCallback = (done: number, total: number, state: SamplerState, kept: ChainSoFar) => void | 'stop'
 
 export interface EnsembleOptions {
   /** Log-probability (up to a constant) of one point; −Infinity outside the support. The array is a reused buffer: copy it to keep it. */
@@ -216,7 +227,9 @@ export function runEnsemble(opts: EnsembleOptions): EnsembleResult {
       kept++
     }
     if (opts.onProgress && (done % every === 0 || done === steps)) {
-      const reply = opts.onProgress(done, steps, snapshot(nWalkers, nDim, pos, lp, rng, acc, step0 + done))
+      const reply = opts.onProgress(done, steps, snapshot(nWalkers, nDim, pos, lp, rng, acc, step0 + done), {
+        chain: chain.subarray(0, kept * nWalkers * nDim), lnProb: chainLp.subarray(0, kept * nWalkers), nKept: kept,
+      })
       if (reply === 'stop') { stopped = done < steps; break }
     }
   }

@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url'
 import { samplePosterior, type SampleResult } from '../../../shared/rv/mcmc.ts'
 import { fitKeplerians } from '../../../shared/rv/fit.ts'
 import { derivedPlanet } from '../../../shared/rv/derived.ts'
+import { stateToJson, stateFromJson, type SamplerState } from '../../../shared/rv/sampler.ts'
 import { expectClose } from '../../helpers/expect-close.ts'
 import { synth } from './fit-helpers.ts'
 
@@ -148,6 +149,26 @@ describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
     expect(r.settings.stepsDone).toBe(150)
     expect(r.diagnostics.converged).toBe(false)
     expect(r.diagnostics.warnings[0]).toMatch(/stopped after 150 of 1000 steps/)
+  })
+
+  it('resumes a stopped run (state and kept chain from the progress callback) to the same result', () => {
+    const opts = { walkers: 12, steps: 300, burn: 60, seed: 4, thin: 2, progressEvery: 40 }
+    const whole = samplePosterior(data, spec, opts)
+    let saved: { state: SamplerState; chain: Float64Array; lnProb: Float64Array } | null = null
+    samplePosterior(data, spec, {
+      ...opts,
+      onProgress: (done, _total, state, kept) => {
+        if (done < 120) return undefined
+        saved = JSON.parse(JSON.stringify({ state: stateToJson(state), chain: Array.from(kept.chain), lnProb: Array.from(kept.lnProb) }))
+        return 'stop'
+      },
+    })
+    expect(saved).not.toBeNull()
+    const s = saved as unknown as { state: Record<string, unknown>; chain: number[]; lnProb: number[] }
+    const resumed = samplePosterior(data, spec, { ...opts, resume: { state: stateFromJson(s.state), chain: s.chain, lnProb: s.lnProb } })
+    expect(resumed.parameters).toEqual(whole.parameters)
+    expect(resumed.diagnostics).toEqual(whole.diagnostics)
+    expect(resumed.settings).toEqual(whole.settings)
   })
 
   it('throws on misuse, naming the option', () => {
