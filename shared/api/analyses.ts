@@ -1,0 +1,280 @@
+import { z } from 'zod'
+import { userRefSchema } from './common.ts'
+
+// Saved analyses of a star: periodogram runs, fit models (versioned), the automatic search and the
+// model comparison. Browser-safe. Units: days, m/s, degrees at this edge; times full JD.
+
+const positive = (what = 'must be positive') => z.number().finite().positive(what)
+const instrumentsSchema = z.array(z.string().trim().min(1).max(120)).min(1, 'must list at least one instrument').max(50)
+
+// ---------------------------------------------------------------------------------------------
+// Periodograms
+
+export const periodogramKindSchema = z.enum(['rv', 'indicator', 'residuals'])
+export type PeriodogramKind = z.infer<typeof periodogramKindSchema>
+
+/** POST /api/stars/:starId/periodograms */
+export const runPeriodogramRequestSchema = z.object({
+  kind: periodogramKindSchema,
+  /** Name of the activity indicator (a key of measurement.indicators); required for kind 'indicator'. */
+  indicator: z.string().trim().min(1).max(120).optional(),
+  /** A fitted model version of this star; required for kind 'residuals'. */
+  modelVersionId: z.number().int().positive().optional(),
+  /** Days; default 1.1. */
+  minPeriod: positive().optional(),
+  /** Days; default the baseline of the data. */
+  maxPeriod: positive().optional(),
+  /** Grid step 1/(oversample · baseline); default 10. */
+  oversample: z.number().finite().min(1, 'must be at least 1').max(100, 'must be at most 100').optional(),
+  /** Only these instruments (default: all). Excluded points are always left out. */
+  instruments: instrumentsSchema.optional(),
+}).superRefine((v, ctx) => {
+  if (v.kind === 'indicator' && !v.indicator) ctx.addIssue({ code: 'custom', path: ['indicator'], message: 'is required for an indicator periodogram' })
+  if (v.kind === 'residuals' && v.modelVersionId === undefined) ctx.addIssue({ code: 'custom', path: ['modelVersionId'], message: 'is required for a residual periodogram' })
+  if (v.minPeriod !== undefined && v.maxPeriod !== undefined && !(v.minPeriod < v.maxPeriod)) {
+    ctx.addIssue({ code: 'custom', path: ['maxPeriod'], message: 'must be larger than minPeriod' })
+  }
+})
+export type RunPeriodogramRequest = z.infer<typeof runPeriodogramRequestSchema>
+
+/** Which data went in: exclusions are always honoured; `hash` is a SHA-256 of the ids and values used. */
+export const dataSelectionSchema = z.object({
+  instruments: z.array(z.string()),
+  nPoints: z.number().int(),
+  /** Points of the selected instruments left out because they are excluded. */
+  nExcluded: z.number().int(),
+  hash: z.string(),
+  firstTime: z.number(),
+  lastTime: z.number(),
+  /** Days. */
+  baseline: z.number(),
+})
+export type DataSelection = z.infer<typeof dataSelectionSchema>
+
+export const aliasSchema = z.object({
+  period: z.number(), frequency: z.number(),
+  /** '1 solar day', '1 sidereal day', '1 synodic month', '1 year' */
+  source: z.string(),
+  windowPower: z.number(), power: z.number(),
+})
+export const peakSchema = z.object({
+  period: z.number(), frequency: z.number(), power: z.number(),
+  /** Baluev (2008) false-alarm probability. */
+  fap: z.number(),
+  aliases: z.array(aliasSchema),
+})
+export type PeriodogramPeak = z.infer<typeof peakSchema>
+
+/** A curve for plotting: parallel arrays, increasing period. */
+export const curveSchema = z.object({ period: z.array(z.number()), power: z.array(z.number()) })
+export type Curve = z.infer<typeof curveSchema>
+
+export const periodogramResultSchema = z.object({
+  grid: z.object({ minFrequency: z.number(), maxFrequency: z.number(), count: z.number().int(), method: z.enum(['direct', 'fast']) }),
+  /** Down-sampled to ≤ 4000 points: the minimum and maximum of each of ≤ 2000 equal bins of the grid (so every peak's top is kept). */
+  curve: curveSchema,
+  window: curveSchema,
+  /** Highest local maxima of the spectral window (period, power 0…1). */
+  windowPeaks: z.array(z.object({ period: z.number(), power: z.number() })),
+  /** Up to 10 highest peaks, by power. */
+  peaks: z.array(peakSchema),
+  /** Powers at which the FAP is 10 %, 1 %, 0.1 %. */
+  fapLevels: z.array(z.object({ fap: z.number(), power: z.number() })),
+  downsampling: z.string(),
+})
+export type PeriodogramResult = z.infer<typeof periodogramResultSchema>
+
+export const periodogramSettingsSchema = z.object({
+  minPeriod: z.number(), maxPeriod: z.number(), oversample: z.number(), instruments: z.array(z.string()).nullable(),
+})
+
+const periodogramBase = {
+  id: z.number().int(), starId: z.number().int(), kind: periodogramKindSchema,
+  indicator: z.string().nullable(), modelVersionId: z.number().int().nullable(),
+  settings: periodogramSettingsSchema, data: dataSelectionSchema,
+  createdBy: userRefSchema.nullable(), createdAt: z.string(),
+}
+export const periodogramRunSchema = z.object({ ...periodogramBase, result: periodogramResultSchema })
+export type PeriodogramRun = z.infer<typeof periodogramRunSchema>
+/** Items of GET /api/stars/:starId/periodograms (newest first): no curves. */
+export const periodogramSummarySchema = z.object({ ...periodogramBase, topPeak: peakSchema.omit({ aliases: true }).nullable() })
+export type PeriodogramSummary = z.infer<typeof periodogramSummarySchema>
+export const periodogramListResponseSchema = z.array(periodogramSummarySchema)
+
+// ---------------------------------------------------------------------------------------------
+// Fit models
+
+export const planetParamSchema = z.enum(['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'])
+export type PlanetParamName = z.infer<typeof planetParamSchema>
+export const trendSchema = z.enum(['none', 'linear', 'quadratic'])
+export type Trend = z.infer<typeof trendSchema>
+
+export const priorSpecSchema = z.object({
+  param: planetParamSchema,
+  gaussian: z.object({ mu: z.number().finite(), sigma: positive() }).optional(),
+  uniform: z.object({ min: z.number().finite(), max: z.number().finite() }).optional(),
+}).superRefine((v, ctx) => {
+  if (!v.gaussian === !v.uniform) ctx.addIssue({ code: 'custom', path: ['gaussian'], message: 'give exactly one of gaussian or uniform' })
+  if (v.uniform && !(v.uniform.min < v.uniform.max)) ctx.addIssue({ code: 'custom', path: ['uniform', 'max'], message: 'must be larger than min' })
+})
+export type PriorSpec = z.infer<typeof priorSpecSchema>
+
+/** Start (or fixed) values of one planet; give tc or tp (tc wins), neither → chosen from the data's phase. */
+export const planetSpecSchema = z.object({
+  period: positive(),
+  K: z.number().finite().min(0, 'must not be negative'),
+  e: z.number().min(0, 'must be in [0, 0.99)').lt(0.99, 'must be in [0, 0.99)').optional(),
+  omegaDeg: z.number().finite().optional(),
+  tc: z.number().finite().optional(),
+  tp: z.number().finite().optional(),
+  fix: z.array(planetParamSchema).optional(),
+  priors: z.array(priorSpecSchema).max(6).optional(),
+})
+export type PlanetSpec = z.infer<typeof planetSpecSchema>
+
+export const modelSpecSchema = z.object({
+  planets: z.array(planetSpecSchema).max(8, 'at most 8 planets'),
+  trend: trendSchema.default('none'),
+  /** Instruments fitted (null or absent: all of the star's). */
+  instruments: instrumentsSchema.nullable().optional(),
+})
+export type ModelSpec = z.infer<typeof modelSpecSchema>
+export type ModelSpecInput = z.input<typeof modelSpecSchema>
+
+const nameSchema = z.string().trim().min(1, 'is required').max(120)
+export const createModelRequestSchema = z.object({ name: nameSchema, spec: modelSpecSchema })
+export type CreateModelRequest = z.input<typeof createModelRequestSchema>
+export const updateModelRequestSchema = z.object({ name: nameSchema.optional(), spec: modelSpecSchema.optional() })
+  .refine((v) => v.name !== undefined || v.spec !== undefined, { message: 'give a new name or spec', path: ['spec'] })
+export type UpdateModelRequest = z.input<typeof updateModelRequestSchema>
+export const duplicateModelRequestSchema = z.object({ name: nameSchema.optional() })
+export type DuplicateModelRequest = z.infer<typeof duplicateModelRequestSchema>
+export const fitModelRequestSchema = z.object({ maxIterations: z.number().int().min(1).max(2000).optional() })
+export type FitModelRequest = z.infer<typeof fitModelRequestSchema>
+
+const num = z.number().nullable()
+
+export const fittedPlanetSchema = z.object({
+  /** 'b', 'c', … in the order of the spec. */
+  label: z.string(),
+  period: z.number(), K: z.number(), e: z.number(), omegaDeg: z.number(), tp: z.number(), tc: z.number(),
+  /** 1σ; null where not determined; 0 for fixed parameters. */
+  uncertainty: z.object({ period: num, K: num, e: num, omegaDeg: num, tp: num, tc: num }),
+  msiniMjup: z.number().nullable(), msiniMearth: z.number().nullable(), aAu: z.number().nullable(),
+  derivedUncertainty: z.object({ msiniMjup: num, msiniMearth: num, aAu: num }),
+  /** Orbit-averaged flux L/(a²√(1−e²)) relative to Earth's; null without the star's luminosity. */
+  insolationEarth: z.number().nullable(),
+})
+export type FittedPlanet = z.infer<typeof fittedPlanetSchema>
+
+export const fitWarningSchema = z.object({
+  code: z.enum(['not_converged', 'e_near_1', 'k_below_noise', 'period_beyond_baseline', 'failed']),
+  /** Index into planets, when the warning is about one. */
+  planet: z.number().int().nullable(),
+  message: z.string(),
+})
+export type FitWarning = z.infer<typeof fitWarningSchema>
+
+export const fitResultSchema = z.object({
+  planets: z.array(fittedPlanetSchema),
+  instruments: z.array(z.object({
+    name: z.string(), n: z.number().int(), offset: z.number(), offsetErr: z.number().nullable(),
+    jitter: z.number(), jitterErr: z.number().nullable(), rms: z.number(),
+  })),
+  trend: z.object({ kind: trendSchema, slope: z.number(), slopeErr: z.number().nullable(), curvature: z.number(), curvatureErr: z.number().nullable(), epoch: z.number() }).nullable(),
+  stats: z.object({
+    chi2: z.number(), reducedChi2: z.number().nullable(), lnL: z.number(), bic: z.number(), aic: z.number(), rms: z.number(),
+    nParams: z.number().int(), nPoints: z.number().int(), converged: z.boolean(),
+    status: z.enum(['converged', 'max-iterations', 'stalled', 'failed']), message: z.string(), iterations: z.number().int(),
+  }),
+  /** Reference time of the trend and of the reported Tc/Tp (full JD). */
+  epoch: z.number(),
+  /** Per measurement used: the model velocity (with its instrument's offset and the trend) and the residual, m/s. */
+  residuals: z.array(z.object({ measurementId: z.number().int(), model: z.number(), residual: z.number() })),
+  warnings: z.array(fitWarningSchema),
+  data: dataSelectionSchema,
+})
+export type FitResultJson = z.infer<typeof fitResultSchema>
+
+export const modelStatusSchema = z.enum(['draft', 'fitted', 'failed'])
+export type ModelStatus = z.infer<typeof modelStatusSchema>
+
+export const modelVersionSchema = z.object({
+  id: z.number().int(), modelId: z.number().int(), version: z.number().int(), name: z.string(),
+  spec: modelSpecSchema, status: modelStatusSchema, result: fitResultSchema.nullable(),
+  /** What made this version: 'created', 'updated', 'fitted', 'duplicated from model 12 version 3', 'search'. */
+  note: z.string(),
+  author: userRefSchema.nullable(), createdAt: z.string(),
+})
+export type ModelVersion = z.infer<typeof modelVersionSchema>
+
+export const modelSummarySchema = z.object({
+  id: z.number().int(), starId: z.number().int(), name: z.string(), currentVersion: z.number().int(),
+  status: modelStatusSchema, planets: z.number().int(), trend: trendSchema, bic: z.number().nullable(),
+  createdBy: userRefSchema.nullable(), createdAt: z.string(), updatedAt: z.string(),
+})
+export type ModelSummary = z.infer<typeof modelSummarySchema>
+export const modelListResponseSchema = z.array(modelSummarySchema)
+
+export const modelVersionListItemSchema = z.object({
+  id: z.number().int(), version: z.number().int(), name: z.string(), status: modelStatusSchema, note: z.string(),
+  planets: z.number().int(), bic: z.number().nullable(), author: userRefSchema.nullable(), createdAt: z.string(),
+})
+export const modelDetailSchema = modelSummarySchema.extend({
+  current: modelVersionSchema,
+  /** Every version, oldest first. */
+  versions: z.array(modelVersionListItemSchema),
+})
+export type ModelDetail = z.infer<typeof modelDetailSchema>
+
+// ---------------------------------------------------------------------------------------------
+// Search and comparison
+
+export const searchRequestSchema = z.object({
+  trend: z.enum(['auto', 'none', 'linear', 'quadratic']).optional(),
+  maxPlanets: z.number().int().min(1).max(6).optional(),
+  /** Stop when the next residual peak's FAP exceeds this (default 0.001). */
+  fapThreshold: z.number().gt(0, 'must be in (0, 1)').lt(1, 'must be in (0, 1)').optional(),
+  minPeriod: positive().optional(),
+  maxPeriod: positive().optional(),
+  instruments: instrumentsSchema.optional(),
+})
+export type SearchRequest = z.infer<typeof searchRequestSchema>
+
+export const searchStepSchema = z.object({
+  planets: z.number().int(), trend: trendSchema, bic: z.number(), lnL: z.number(),
+  nextPeakFap: z.number().nullable(), nextPeakPeriod: z.number().nullable(),
+})
+export const searchResponseSchema = z.object({
+  model: modelDetailSchema,
+  steps: z.array(searchStepSchema),
+  chosen: z.object({ planets: z.number().int(), trend: trendSchema }),
+})
+export type SearchResponse = z.infer<typeof searchResponseSchema>
+
+export const evidenceSchema = z.enum(['bare mention', 'positive', 'strong', 'very strong'])
+export const compareRowSchema = z.object({
+  modelId: z.number().int(), name: z.string(), version: z.number().int(),
+  planets: z.number().int(), trend: trendSchema,
+  lnL: z.number(), bic: z.number(),
+  /** bic − bic of the preferred model; null when not comparable. */
+  deltaBic: z.number().nullable(),
+  rms: z.number(),
+  jitters: z.array(z.object({ instrument: z.string(), jitter: z.number() })),
+  nPoints: z.number().int(), dataHash: z.string(),
+  /** Fitted to the same data as the preferred model (BIC differences mean something only then). */
+  comparable: z.boolean(),
+  preferred: z.boolean(),
+  /** Kass & Raftery (1995) grade of |ΔBIC| against the preferred model (null for the preferred itself or when not comparable). */
+  evidence: evidenceSchema.nullable(),
+  reading: z.string(),
+})
+export type CompareRow = z.infer<typeof compareRowSchema>
+export const compareResponseSchema = z.object({
+  /** Fitted models (current version of each), by BIC ascending. */
+  rows: z.array(compareRowSchema),
+  preferredModelId: z.number().int().nullable(),
+  rule: z.string(),
+  reading: z.string(),
+})
+export type CompareResponse = z.infer<typeof compareResponseSchema>
