@@ -37,6 +37,16 @@ export function csrfToken(): string | undefined {
   return undefined
 }
 
+let unauthorizedHandler: ((path: string) => void) | null = null
+
+/**
+ * Called when a request other than the sign-in family answers 401 (the session ran out), so the
+ * app can send the user to sign-in instead of showing a page of errors.
+ */
+export function onUnauthorized(handler: ((path: string) => void) | null): void {
+  unauthorizedHandler = handler
+}
+
 export interface RequestOptions {
   method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE'
   /** A plain object is sent as JSON; FormData as multipart. */
@@ -89,7 +99,11 @@ export async function request<T>(path: string, options: RequestOptions = {}): Pr
   } catch (cause) {
     throw new ApiError(0, 'network', `Could not reach the server (${(cause as Error).message}). Check your connection and try again.`)
   }
-  if (!response.ok) throw await toApiError(response)
+  if (!response.ok) {
+    const error = await toApiError(response)
+    if (error.status === 401 && !path.startsWith('/auth/')) unauthorizedHandler?.(path)
+    throw error
+  }
   if (response.status === 204) return undefined as T
   const text = await response.text()
   return (text ? JSON.parse(text) : undefined) as T

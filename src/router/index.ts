@@ -1,4 +1,5 @@
 import { createRouter, createWebHistory, type RouteRecordRaw } from 'vue-router'
+import { onUnauthorized } from '@/api/http.ts'
 import { useSessionStore } from '@/stores/session.ts'
 
 declare module 'vue-router' {
@@ -33,6 +34,14 @@ router.beforeEach(async (to) => {
   }
   if (to.name === 'sign-in' && session.user) return { name: 'stars' }
   return true
+})
+
+/** A session that expires mid-work leads back to sign-in, and then to the same page. */
+onUnauthorized(() => {
+  const session = useSessionStore()
+  session.me.data = null
+  const here = router.currentRoute.value
+  if (!here.meta.public) router.replace({ name: 'sign-in', query: { next: here.fullPath } })
 })
 
 export default router
