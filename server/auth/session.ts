@@ -43,11 +43,18 @@ export function sessionMiddleware(s: Services): RequestHandler {
     res.locals.user = null
     const token = req.cookies?.[SESSION_COOKIE] as string | undefined
     if (token) {
+      let claims: SessionClaims | null = null
       try {
-        const claims = jwt.verify(token, s.config.jwtSecret, { algorithms: ['HS256'] }) as unknown as SessionClaims
-        const user = await s.models.User.findByPk(Number(claims.sub))
-        if (user && user.tokenVersion === claims.tv) res.locals.user = user
+        claims = jwt.verify(token, s.config.jwtSecret, { algorithms: ['HS256'] }) as unknown as SessionClaims
       } catch { /* expired or forged: treated as signed out */ }
+      if (claims) {
+        try {
+          const user = await s.models.User.findByPk(Number(claims.sub))
+          if (user && user.tokenVersion === claims.tv) res.locals.user = user
+        } catch (err) {
+          return next(err) // a database failure is a 500, not a silent sign-out
+        }
+      }
     }
     next()
   }
