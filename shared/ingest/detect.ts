@@ -205,7 +205,7 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
   if (hasHeader) while (skipRows < 3 && 1 + skipRows < sample.length - 1 && isPreamble(sample[1 + skipRows]!)) skipRows++
   const firstData = hasHeader ? 1 + skipRows : 0
   const dataSample = sample.slice(firstData)
-  const columnCount = mode(dataSample.map(r => r.length)).value
+  let columnCount = mode(dataSample.map(r => r.length)).value
   if (dataSample.length === 0 || columnCount === 0) throw new IngestError('empty', 'The file has a header but no data rows. Upload a table with one row per measurement.')
 
   // Header names: the header row, else a commented name line just before the data.
@@ -276,6 +276,33 @@ export function detectTable(text: string, hints: DetectHints = {}): Detection {
   const isNumeric = stats.map(s => s.numeric > 0 && s.numeric >= 0.5 * (s.numeric + s.text))
   if (!isNumeric.some(Boolean)) {
     throw new IngestError('no_numeric_columns', 'No column holds numbers. A velocity table needs numeric time, velocity and error columns (check the delimiter and the decimal separator).')
+  }
+
+  // Whitespace-separated with several unnamed text columns at the end: one name with spaces
+  // ("HARPS N"), so they are one column (parseTable joins the extra fields of the last column).
+  if (delimiter === 'whitespace') {
+    let first = columnCount
+    while (first > 0 && !isNumeric[first - 1] && stats[first - 1]!.text > 0) first--
+    const named = headerNames ? headerNames.filter(n => !/^column \d+$/.test(n)).length : 0
+    if (columnCount - first >= 2 && named <= first + 1) {
+      notes.push(`columns ${first + 1}–${columnCount} are words of one name (e.g. '${[...stats[first]!.distinct.keys()][0]} …'), read as one column`)
+      columnCount = first + 1
+      names.length = columnCount
+      stats.length = columnCount
+      isNumeric.length = columnCount
+      unitsText.length = columnCount
+      if (headerNames) headerNames = names.slice()
+      // Count names as whole: re-read the distinct values of the joined column.
+      const joined = stats[first]!
+      joined.distinct = new Map()
+      joined.text = 0
+      for (const row of dataSample) {
+        if (row.length <= first) continue
+        const c = row.slice(first).join(' ')
+        joined.text++
+        if (joined.distinct.size < 1000) joined.distinct.set(c, (joined.distinct.get(c) ?? 0) + 1)
+      }
+    }
   }
 
   // Roles from names.

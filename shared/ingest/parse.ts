@@ -50,6 +50,7 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   const defaultError = (mapping.defaultError ?? NaN) * scale
   const baseInstrument = (mapping.instrument ?? DEFAULT_INSTRUMENT).trim()
   const split = splitter(mapping.splitDates)
+  const joinTail = delimiter === 'whitespace' && m.instrument !== null && m.instrument.index === width - 1
   let toSkip = (mapping.hasHeader ? 1 : 0) + (mapping.skipRows ?? 0)
 
   const rows: ParsedRow[] = []
@@ -78,7 +79,9 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       throw new IngestError('too_many_rows', `The table has more than ${MAX_ROWS} rows. Split it into smaller files.`)
     }
     const lineNo = i + 1
-    const cells = splitCells(line, delimiter)
+    let cells = splitCells(line, delimiter)
+    // Whitespace-separated with the instrument last: a name with spaces ("HARPS N") is one name.
+    if (joinTail && cells.length > width) cells = [...cells.slice(0, width - 1), cells.slice(width - 1).join(' ')]
     if (cells.length < m.needed) {
       add({ line: lineNo, message: `too few fields: found ${cells.length}, expected ${width}` })
       continue

@@ -447,3 +447,16 @@ describe('time plausibility', () => {
     expect(detectTable('5001.5 1 1\n5002.5 2 1\n').notes.join(' ')).not.toMatch(/check the time format/)
   })
 })
+
+describe('instrument names with spaces in whitespace tables', () => {
+  it('reads trailing unnamed words as one instrument column', () => {
+    const d = detectTable('# time rv err inst\n2450001 1 1 HARPS N\n2450002 2 1 HARPS N\n2450003 3 1 CORALIE\n')
+    expect(d.columnCount).toBe(4)
+    expect(roles(d)).toEqual(['time', 'rv', 'error', 'instrument'])
+  })
+
+  it('keeps two named text columns apart', () => {
+    const d = detectTable('time rv err inst note\n2450001 1 1 HARPS ok\n2450002 2 1 HARPS ok\n2450003 3 1 HIRES bad\n')
+    expect(d.columnCount).toBe(5)
+  })
+})

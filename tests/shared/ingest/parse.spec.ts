@@ -75,6 +75,13 @@ describe('instruments', () => {
     expect(r.instruments).toEqual([{ name: 'Alpha Spec', count: 3 }, { name: 'BetaGraph', count: 3 }])
   })
 
+  it('reads a last-column instrument name with spaces in a whitespace-separated table', () => {
+    const text = '2450001 1 1 HARPS\n2450002 2 1 HARPS N\n2450003 3 1 HARPS  N\n2450004 3 1 HARPS N\n'
+    const r = parseTable(text, detectTable(text).mapping)
+    expect(r.problems).toEqual([])
+    expect(r.instruments).toEqual([{ name: 'HARPS', count: 1 }, { name: 'HARPS N', count: 3 }])
+  })
+
   it('names all rows after mapping.instrument when there is no instrument column', () => {
     const r = parseTable('2450001 1 1\n2450002 2 1\n', basic({ instrument: 'HARPS' }))
     expect(r.instruments).toEqual([{ name: 'HARPS', count: 2 }])
