@@ -12,7 +12,7 @@ export class ComputeError extends HttpError {
 /** A computation ran past its time limit; its worker was stopped. */
 export class ComputeTimeoutError extends HttpError {
   constructor(readonly task: string, readonly timeoutMs: number) {
-    super(503, 'internal', `The ${task} computation took longer than its limit of ${Math.round(timeoutMs / 1000)} s and was stopped: narrow the period range or lower the oversampling, or try again later.`)
+    super(503, 'internal', `The ${task} computation took longer than its limit of ${timeoutMs >= 10_000 ? Math.round(timeoutMs / 1000) : (timeoutMs / 1000).toFixed(1)} s and was stopped: narrow the period range or lower the oversampling, or try again later.`)
   }
 }
 /** Too many computations waiting. */
@@ -42,10 +42,11 @@ interface Slot { worker: Worker; job: Job | null; timer: NodeJS.Timeout | null }
 
 type Reply = { id: number; ok: true; output: unknown } | { id: number; ok: false; error: { name: string; message: string } }
 
-function workerScript(): { url: URL; execArgv: string[] } {
-  // Under tsx or vitest the sources are .ts and the worker needs the tsx loader; a compiled build has .js.
+function workerScript(): URL {
+  // Under tsx or vitest the sources are .ts: worker-boot.mjs registers tsx inside the worker first
+  // (execArgv ['--import', 'tsx'] is not honoured by worker threads on Node 20). A compiled build has .js.
   const ts = import.meta.url.endsWith('.ts')
-  return { url: new URL(ts ? './worker.ts' : './worker.js', import.meta.url), execArgv: ts ? ['--import', 'tsx'] : [] }
+  return new URL(ts ? './worker-boot.mjs' : './worker.js', import.meta.url)
 }
 
 /**
@@ -99,8 +100,7 @@ export class ComputePool {
   }
 
   private spawn(): Slot {
-    const { url, execArgv } = workerScript()
-    const worker = new Worker(url, { execArgv })
+    const worker = new Worker(workerScript())
     worker.unref()
     const slot: Slot = { worker, job: null, timer: null }
     worker.on('message', (msg: Reply) => {
