@@ -11,7 +11,7 @@ export default defineConfig({
       '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
     },
   },
-  server: { host: '127.0.0.1', proxy: { '/api': 'http://127.0.0.1:3000' } },
+  server: { host: '127.0.0.1', proxy: { '/api': 'http://127.0.0.1:3000', '/dev': 'http://127.0.0.1:3000' } },
   preview: { host: '127.0.0.1', port: 4173, strictPort: true },
   build: { chunkSizeWarningLimit: 1500 },
   worker: { format: 'es' },
