@@ -4,7 +4,7 @@
  * against scipy's least_squares (scripts/reference/fit_timing.py, same data, model and start, same
  * run), a one-planet fit from the data alone and a three-planet, two-instrument search.
  *
- *   npx tsx scripts/bench.ts [--json] [--skip-periodogram]
+ *   npx tsx scripts/bench.ts [--json] [--skip-periodogram] [--skip-sampler]
  *
  * Times are best-of-repeats wall times on this machine; speed is never asserted in tests.
  */
@@ -15,6 +15,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { createRandom } from '../shared/math/random.ts'
 import { benchPeriodogram, type BenchRow } from './bench-periodogram.ts'
+import { benchSampler } from './bench-sampler.ts'
 import { solveKeplerArray, radialVelocity, fitKeplerians, searchPlanets, tpToTc, type RvData, type Keplerian } from '../shared/rv/index.ts'
 
 const here = dirname(fileURLToPath(import.meta.url))
@@ -142,6 +143,7 @@ async function main(): Promise<void> {
   const rows: BenchRow[] = []
   if (!process.argv.includes('--skip-periodogram')) rows.push(...(await benchPeriodogram()))
   rows.push(benchKepler(), benchFitNearOptimum(), benchFitFromData(), benchThreePlanets())
+  if (!process.argv.includes('--skip-sampler')) rows.push(...(await benchSampler())) // ensemble sampler vs emcee (scripts/bench-sampler.ts)
   if (json) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
   const f = (v: number | null | undefined): string => (v === null || v === undefined ? '—' : v >= 100 ? v.toFixed(0) : v.toPrecision(3))
   for (const r of rows) {

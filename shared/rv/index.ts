@@ -13,3 +13,16 @@ export { type StartOptions, type ScoredStart, planetStarts } from './fit-start.t
 export { type SearchOptions, type SearchStep, type SearchResult, searchPlanets } from './search.ts'
 export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiMajorAxis, derivedPlanet } from './derived.ts'
 export * from './periodogram.ts'
+export {
+  type StatefulRandom, type SamplerState, type ChainSoFar, type ProgressCallback, type EnsembleOptions, type EnsembleResult,
+  createSamplerRandom, runEnsemble, stateToJson, stateFromJson,
+} from './sampler.ts'
+export {
+  type ChainShape, type RhatOptions,
+  autocorrelation, windowedTau, integratedTime1d, integratedTime, normalQuantile, classicRhat, splitRhat, acceptanceFraction,
+} from './diagnostics.ts'
+export {
+  type SamplingParam, type SamplingPrior, type PosteriorSpec, type PosteriorLayout, type LogPosterior,
+  createLogPosterior, specFromFit, samplingScales, planetLabel,
+} from './posterior.ts'
+export { type SampleOptions, type ParameterSummary, type SampleDiagnostics, type SampleResult, samplePosterior } from './mcmc.ts'
