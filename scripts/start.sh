@@ -36,12 +36,13 @@ export NODE_ENV=${NODE_ENV:-development}
 export PORT HOST=127.0.0.1 APP_URL=${APP_URL:-http://127.0.0.1:$PORT}
 export SMTP_HOST=127.0.0.1 SMTP_PORT=$MAIL_PORT MAIL_DIR=${MAIL_DIR:-$PWD/.data/mail}
 
-echo "== migrating"; npx tsx scripts/migrate.ts
-echo "== seeding the demo (skipped when the database already has users)"; npx tsx scripts/seed.ts
+echo "== migrating"; node --import tsx scripts/migrate.ts
+echo "== seeding the demo (skipped when the database already has users)"; node --import tsx scripts/seed.ts
 echo "== building the client"; npx vite build --logLevel warn
 
-npx tsx scripts/dev-mail.ts --port "$MAIL_PORT" --dir "$MAIL_DIR" & pids+=($!)
-npx tsx server/index.ts & pids+=($!)
+# node --import tsx (not npx): one process each, so a signal reaches the server itself
+node --import tsx scripts/dev-mail.ts --port "$MAIL_PORT" --dir "$MAIL_DIR" & pids+=($!)
+node --import tsx server/index.ts & pids+=($!)
 
 node -e "
 const url = 'http://127.0.0.1:$PORT/api/health'

@@ -37,7 +37,12 @@ rc=$?
 node -e "
 const fs = require('fs')
 let p = 0, f = 0
-try { const r = JSON.parse(fs.readFileSync('out/vitest.json', 'utf8')); p = r.numPassedTests; f = r.numFailedTests + (r.numFailedTestSuites || 0) } catch { f = 1 }
+try {
+  const r = JSON.parse(fs.readFileSync('out/vitest.json', 'utf8'))
+  p = r.numPassedTests; f = r.numFailedTests
+  // a file that failed outside any test (import error, failing hook) counts once
+  for (const file of r.testResults) if (file.status === 'failed' && !file.assertionResults.some(a => a.status === 'failed')) f += 1
+} catch { f = 1 }
 if ($rc !== 0 && f === 0) f = 1
 f += $failed_steps
 console.log(p + ' passed, ' + f + ' failed')
