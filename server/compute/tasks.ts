@@ -1,7 +1,7 @@
 // The computations the compute pool runs in its worker threads: thin wrappers around the numerical
 // core (shared/rv) that take and return structured-clonable plain data.
 import {
-  periodogram, findPeaks, falseAlarmLevel, windowFunction, fitKeplerians, planetStarts, searchPlanets, tcToTp,
+  periodogram, findPeaks, falseAlarmLevel, windowFunction, fitKeplerians, fitBaseline, planetStarts, searchPlanets, tcToTp,
   type RvData, type FitResult, type PlanetStart, type Prior, type TrendKind, type SearchOptions, type SearchStep, type Keplerian,
 } from '../../shared/rv/index.ts'
 import type { PeriodogramResult, PlanetSpec } from '../../shared/api/analyses.ts'
@@ -13,6 +13,33 @@ export const FAP_LEVELS = [0.1, 0.01, 0.001]
 export interface PeriodogramInput {
   t: Float64Array; y: Float64Array; dy: Float64Array
   minPeriod?: number; maxPeriod?: number; oversample?: number
+  /**
+   * How the instruments' zero points are removed first (needs `instrument`): 'fit' — offsets and
+   * jitters of a no-planet maximum-likelihood fit, errors then include the jitters; 'mean' — each
+   * instrument's weighted mean; 'none' (default) — as given.
+   */
+  center?: 'fit' | 'mean' | 'none'
+  instrument?: Int32Array
+}
+
+function centred(inp: PeriodogramInput): { y: Float64Array; dy: Float64Array } {
+  const { t, y, dy, instrument } = inp
+  const center = inp.center ?? 'none'
+  if (center === 'none') return { y, dy }
+  if (!instrument || instrument.length !== t.length) throw new RangeError('instrument must give one index per point when center is fit or mean')
+  const nInst = instrument.reduce((m, k) => Math.max(m, k + 1), 0)
+  if (center === 'fit') {
+    const names = Array.from({ length: nInst }, (_, k) => `i${k}`)
+    const base = fitBaseline({ t, y, dy, instrument, instrumentNames: names }, 'none')
+    const dyEff = new Float64Array(t.length)
+    for (let i = 0; i < t.length; i++) { const s = base.instruments[instrument[i]!]!.jitter; dyEff[i] = Math.sqrt(dy[i]! ** 2 + s * s) }
+    return { y: base.residuals, dy: dyEff }
+  }
+  const sw = new Float64Array(nInst), swy = new Float64Array(nInst)
+  for (let i = 0; i < t.length; i++) { const w = 1 / dy[i]! ** 2; sw[instrument[i]!]! += w; swy[instrument[i]!]! += w * y[i]! }
+  const out = new Float64Array(t.length)
+  for (let i = 0; i < t.length; i++) out[i] = y[i]! - swy[instrument[i]!]! / sw[instrument[i]!]!
+  return { y: out, dy }
 }
 
 /**
@@ -53,7 +80,8 @@ function topMaxima(power: Float64Array, count: number): number[] {
  * false-alarm levels and the spectral window (Dawson & Fabrycky 2010), all from shared/rv.
  */
 export function periodogramTask(inp: PeriodogramInput): PeriodogramResult {
-  const { t, y, dy } = inp
+  const { t } = inp
+  const { y, dy } = centred(inp)
   const pg = periodogram(t, y, dy, { minPeriod: inp.minPeriod, maxPeriod: inp.maxPeriod, oversample: inp.oversample })
   const { grid } = pg
   const fmax = grid.f0 + (grid.count - 1) * grid.df

@@ -178,12 +178,14 @@ export type FitWarning = z.infer<typeof fitWarningSchema>
 export const fitResultSchema = z.object({
   planets: z.array(fittedPlanetSchema),
   instruments: z.array(z.object({
-    name: z.string(), n: z.number().int(), offset: z.number(), offsetErr: z.number().nullable(),
-    jitter: z.number(), jitterErr: z.number().nullable(), rms: z.number(),
+    name: z.string(), n: z.number().int(), offset: z.number().nullable(), offsetErr: z.number().nullable(),
+    jitter: z.number().nullable(), jitterErr: z.number().nullable(), rms: z.number().nullable(),
   })),
   trend: z.object({ kind: trendSchema, slope: z.number(), slopeErr: z.number().nullable(), curvature: z.number(), curvatureErr: z.number().nullable(), epoch: z.number() }).nullable(),
   stats: z.object({
-    chi2: z.number(), reducedChi2: z.number().nullable(), lnL: z.number(), bic: z.number(), aic: z.number(), rms: z.number(),
+    /** Non-finite values (a failed fit, no degrees of freedom) are null. */
+    chi2: z.number().nullable(), reducedChi2: z.number().nullable(), lnL: z.number().nullable(), bic: z.number().nullable(),
+    aic: z.number().nullable(), rms: z.number().nullable(),
     nParams: z.number().int(), nPoints: z.number().int(), converged: z.boolean(),
     status: z.enum(['converged', 'max-iterations', 'stalled', 'failed']), message: z.string(), iterations: z.number().int(),
   }),

@@ -1,0 +1,73 @@
+import type { Request, Response } from 'express'
+import type { Services } from '../services.ts'
+import { scope, signedInUser } from '../guards.ts'
+import { NotFoundError } from '../errors.ts'
+import {
+  createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, runPeriodogramRequestSchema,
+  searchRequestSchema, updateModelRequestSchema,
+} from '../../shared/api/analyses.ts'
+import { analysisScope } from './guards.ts'
+import * as analyses from './service.ts'
+import { compareModels } from './compare.ts'
+
+export async function runPeriodogram(req: Request, res: Response, s: Services): Promise<void> {
+  const input = runPeriodogramRequestSchema.parse(req.body)
+  res.status(201).json(await analyses.runPeriodogram(s, signedInUser(res), scope(res).star!, input))
+}
+
+export async function listPeriodograms(_req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await analyses.listPeriodograms(s, scope(res).star!))
+}
+
+export async function showPeriodogram(_req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await analyses.getPeriodogram(s, analysisScope(res).periodogram!.id))
+}
+
+export async function listModels(_req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await analyses.listModels(s, scope(res).star!))
+}
+
+export async function createModel(req: Request, res: Response, s: Services): Promise<void> {
+  const input = createModelRequestSchema.parse(req.body)
+  res.status(201).json(await analyses.createModel(s, signedInUser(res), scope(res).star!, input))
+}
+
+export async function showModel(_req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await analyses.modelDetail(s, analysisScope(res).model!.id))
+}
+
+export async function showVersion(req: Request, res: Response, s: Services): Promise<void> {
+  const raw = String(req.params.version)
+  const n = Number(raw)
+  if (!Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError('Model version')
+  res.json(await analyses.getVersion(s, analysisScope(res).model!, n))
+}
+
+export async function updateModel(req: Request, res: Response, s: Services): Promise<void> {
+  const input = updateModelRequestSchema.parse(req.body)
+  res.json(await analyses.updateModel(s, signedInUser(res), scope(res).star!, analysisScope(res).model!, input))
+}
+
+export async function fitModel(req: Request, res: Response, s: Services): Promise<void> {
+  const input = fitModelRequestSchema.parse(req.body ?? {})
+  res.json(await analyses.fitModel(s, signedInUser(res), scope(res).star!, analysisScope(res).model!, input))
+}
+
+export async function duplicateModel(req: Request, res: Response, s: Services): Promise<void> {
+  const input = duplicateModelRequestSchema.parse(req.body ?? {})
+  res.status(201).json(await analyses.duplicateModel(s, signedInUser(res), scope(res).star!, analysisScope(res).model!, input))
+}
+
+export async function archiveModel(_req: Request, res: Response, s: Services): Promise<void> {
+  await analyses.archiveModel(s, signedInUser(res), scope(res).star!, analysisScope(res).model!)
+  res.status(204).end()
+}
+
+export async function search(req: Request, res: Response, s: Services): Promise<void> {
+  const input = searchRequestSchema.parse(req.body ?? {})
+  res.status(201).json(await analyses.search(s, signedInUser(res), scope(res).star!, input))
+}
+
+export async function compare(_req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await compareModels(s, scope(res).star!))
+}
