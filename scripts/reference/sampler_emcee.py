@@ -63,6 +63,7 @@ def timing(path):
     walkers, steps = int(d['walkers']), int(d['steps'])
     p0 = start + 0.1 * scale * rng.standard_normal((walkers, len(start)))
     sampler = emcee.EnsembleSampler(walkers, len(start), lp)
+    sampler.random_state = np.random.RandomState(int(d.get('seed', 1))).get_state()
     t0, c0 = time.perf_counter(), time.process_time()
     sampler.run_mcmc(p0, steps, progress=False)
     ms = (time.perf_counter() - t0) * 1000
@@ -91,6 +92,7 @@ def fixture():
     walkers, steps, burn = 32, 20000, 4000
     p0 = x0 + 1e-3 * rng.standard_normal((walkers, 7))
     sampler = emcee.EnsembleSampler(walkers, 7, lp)
+    sampler.random_state = np.random.RandomState(seed).get_state()  # emcee's own generator, seeded
     sampler.run_mcmc(p0, steps, progress=False)
     tau = sampler.get_autocorr_time(discard=burn, quiet=True)
     ch = sampler.get_chain(discard=burn, flat=True)

@@ -238,6 +238,14 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     const stuck = Array.from(run.acceptance).map((a, w) => (a < 0.05 ? w : -1)).filter((w) => w >= 0)
     warnings.push(`Some walkers barely moved (${stuck.length} of ${walkers} accepted under 5 % of their moves); they may be stuck in a region of low probability.`)
   }
+  const fixedNames = fit.planets.flatMap((p, k) => {
+    const fixedHere = isFitResult(model) ? [] : (model.planets[k]?.fix ?? [])
+    const u = p.uncertainty
+    const zero = (['period', 'K', 'e', 'omegaDeg', 'tc'] as const).filter((q) => u[q] === 0 && !(q === 'omegaDeg' && p.e === 0))
+    const all = [...new Set([...fixedHere, ...zero])]
+    return all.length ? [`${all.join(', ')} of planet ${planetLabel(k)}`] : []
+  })
+  if (fixedNames.length) warnings.push(`The fit held ${fixedNames.join('; ')} fixed; the sampler does not fix parameters and sampled them all.`)
   if (!fit.success) warnings.push(`The starting fit did not converge (${fit.message}); the walkers started from its last point.`)
   const converged = !run.stopped && shortOnes.length === 0 && badRhat.length === 0 && acc >= 0.15 && !(acc > 0.2 && accMin < 0.05)
 
