@@ -65,7 +65,7 @@ export interface VelocityChartModel {
   excluded: number
 }
 
-function errorBarSeries(name: string, color: string, data: Point[], z: number) {
+export function errorBarSeries(name: string, color: string, data: Point[], z: number) {
   return {
     type: 'custom' as const,
     name,
@@ -188,6 +188,6 @@ export function buildVelocityChart(input: VelocityChartInput): VelocityChartMode
   return { option, offset, counts, included, excluded: showExcluded ? excludedPoints.length : 0 }
 }
 
-function escapeHtml(text: string): string {
+export function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
 }

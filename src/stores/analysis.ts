@@ -1,0 +1,205 @@
+import { defineStore } from 'pinia'
+import { computed, reactive, ref } from 'vue'
+import * as api from '@/api/analyses.ts'
+import { modelSpecSchema } from '@shared/api/analyses.ts'
+import type {
+  CompareResponse, ModelDetail, ModelSpecInput, ModelSummary, PeriodogramRun, RunPeriodogramRequest, SearchResponse,
+} from '@shared/api/analyses.ts'
+import {
+  defaultModelName, planetForm, planetFormFromFit, specToForm, type ModelForm,
+} from '@/components/analysis/model-form.ts'
+import { asyncState, track, type AsyncState } from './async-state.ts'
+
+export type PeriodogramSettings = Pick<RunPeriodogramRequest, 'minPeriod' | 'maxPeriod' | 'oversample'>
+
+/**
+ * The analysis of one star: periodograms (velocities, indicators, residuals of the selected model),
+ * the saved models, the model being edited, the automatic search and the comparison.
+ */
+export const useAnalysisStore = defineStore('analysis', () => {
+  let starId: number | null = null
+  let instruments: string[] = []
+
+  const rv = asyncState<PeriodogramRun>()
+  const residuals = asyncState<PeriodogramRun>()
+  const indicators = reactive<Record<string, AsyncState<PeriodogramRun>>>({})
+  const settings = reactive<PeriodogramSettings>({})
+
+  const models = asyncState<ModelSummary[]>([])
+  /** The selected saved model (its current version is what the plots and results show). */
+  const selected = asyncState<ModelDetail>()
+  const fitting = asyncState<ModelDetail>()
+  const compare = asyncState<CompareResponse>()
+  const search = asyncState<SearchResponse>()
+
+  /** The form being edited, and the saved model it belongs to (null: a new model, saved on fit). */
+  const form = ref<ModelForm>({ name: defaultModelName(0, 'none'), trend: 'none', instruments: [], planets: [] })
+  const formModelId = ref<number | null>(null)
+  const fitStartedAt = ref<number | null>(null)
+
+  const fitted = computed(() => (selected.data?.current.status === 'fitted' ? selected.data.current : null))
+
+  function reset(id: number, names: string[]) {
+    starId = id
+    instruments = [...names]
+    for (const s of [rv, residuals, selected, fitting, compare, search]) { s.data = null; s.error = null; s.apiError = null }
+    for (const key of Object.keys(indicators)) delete indicators[key]
+    models.data = []
+    form.value = { name: defaultModelName(0, 'none'), trend: 'none', instruments: [...names], planets: [] }
+    formModelId.value = null
+  }
+
+  /** Opens a star: its models and comparison, and the newest saved periodograms. */
+  async function load(id: number, names: string[]) {
+    if (starId !== id) reset(id, names)
+    else { instruments = [...names]; if (form.value.instruments.length === 0) form.value.instruments = [...names] }
+    await Promise.all([
+      track(models, () => api.listModels(id)),
+      track(compare, () => api.compareModels(id)),
+      loadSavedPeriodograms(id),
+    ])
+  }
+
+  async function loadSavedPeriodograms(id: number) {
+    try {
+      const list = await api.listPeriodograms(id)
+      const newestRv = list.find((p) => p.kind === 'rv')
+      if (newestRv && !rv.data) await track(rv, () => api.fetchPeriodogram(newestRv.id))
+    } catch {
+      // An empty history is no error for the page; running a periodogram reports its own errors.
+    }
+  }
+
+  function need(): number {
+    if (starId === null) throw new Error('No star is open')
+    return starId
+  }
+
+  const runRv = () => track(rv, () => api.runPeriodogram(need(), { kind: 'rv', ...settings }))
+
+  async function runIndicator(name: string) {
+    if (!indicators[name]) indicators[name] = asyncState<PeriodogramRun>()
+    await track(indicators[name]!, () => api.runPeriodogram(need(), { kind: 'indicator', indicator: name, ...settings }))
+  }
+
+  async function runResiduals() {
+    const version = fitted.value
+    if (!version) return null
+    return track(residuals, () => api.runPeriodogram(need(), { kind: 'residuals', modelVersionId: version.id, ...settings }))
+  }
+
+  /**
+   * Adds a planet at `period` with start K (m/s) and e = 0. A planet added to a fitted model starts a
+   * new model (the fitted one stays for comparison) whose other planets start at their fitted values.
+   */
+  function addPlanet(period: number, K: number) {
+    const version = fitted.value
+    if (version && formModelId.value === version.modelId && version.result) {
+      const planets = version.result.planets.map(planetFormFromFit)
+      form.value = {
+        name: defaultModelName(planets.length + 1, version.spec.trend),
+        trend: version.spec.trend, instruments: version.spec.instruments ? [...version.spec.instruments] : [...instruments],
+        planets: [...planets, planetForm(period, K, 0)],
+      }
+      formModelId.value = null
+      return
+    }
+    form.value.planets.push(planetForm(period, K, 0))
+    if (formModelId.value === null) form.value.name = defaultModelName(form.value.planets.length, form.value.trend)
+  }
+
+  /** Starts a new, empty model form (keeps the saved ones). */
+  function newModel() {
+    form.value = { name: defaultModelName(0, 'none'), trend: 'none', instruments: [...instruments], planets: [] }
+    formModelId.value = null
+  }
+
+  function editFrom(detail: ModelDetail) {
+    form.value = specToForm(detail.name, detail.current.spec, instruments)
+    formModelId.value = detail.id
+  }
+
+  async function selectModel(modelId: number) {
+    const detail = await track(selected, () => api.fetchModel(modelId))
+    if (detail) {
+      editFrom(detail)
+      residuals.data = null
+      if (detail.current.status === 'fitted') await runResiduals()
+    }
+  }
+
+  /**
+   * Saves the form (a new model, or a new version of the one it belongs to) and fits it; then the
+   * lists, the comparison and the residual periodogram follow.
+   */
+  async function fit(name: string, spec: ModelSpecInput, asNew = false) {
+    const id = need()
+    fitStartedAt.value = Date.now()
+    try {
+      const detail = await track(fitting, async () => {
+        let modelId = asNew ? null : formModelId.value
+        if (modelId === null) {
+          modelId = (await api.createModel(id, { name, spec })).id
+        } else {
+          const saved = selected.data?.id === modelId ? selected.data : await api.fetchModel(modelId)
+          if (saved.name !== name || JSON.stringify(modelSpecSchema.parse(saved.current.spec)) !== JSON.stringify(modelSpecSchema.parse(spec))) {
+            await api.updateModel(modelId, { name, spec })
+          }
+        }
+        return api.fitModel(modelId)
+      })
+      if (!detail) return null
+      selected.data = detail
+      selected.error = null
+      formModelId.value = detail.id
+      form.value.name = detail.name
+      residuals.data = null
+      await Promise.all([
+        track(models, () => api.listModels(id)),
+        track(compare, () => api.compareModels(id)),
+        detail.current.status === 'fitted' ? runResiduals() : Promise.resolve(null),
+      ])
+      return detail
+    } finally {
+      fitStartedAt.value = null
+    }
+  }
+
+  /** The automatic search: the server adds planets while the residual peaks are significant. */
+  async function runSearch() {
+    const id = need()
+    const found = await track(search, () => api.searchSignals(id, { trend: 'auto' }))
+    if (!found) return null
+    selected.data = found.model
+    editFrom(found.model)
+    residuals.data = null
+    await Promise.all([
+      track(models, () => api.listModels(id)),
+      track(compare, () => api.compareModels(id)),
+      runResiduals(),
+    ])
+    return found
+  }
+
+  async function duplicate(modelId: number) {
+    const copy = await track(fitting, () => api.duplicateModel(modelId))
+    if (copy) {
+      await track(models, () => api.listModels(need()))
+      await selectModel(copy.id)
+    }
+  }
+
+  async function archive(modelId: number) {
+    const archiving = asyncState<void>()
+    await track(archiving, () => api.archiveModel(modelId))
+    if (archiving.error) { fitting.error = archiving.error; return }
+    if (selected.data?.id === modelId) { selected.data = null; residuals.data = null; newModel() }
+    const id = need()
+    await Promise.all([track(models, () => api.listModels(id)), track(compare, () => api.compareModels(id))])
+  }
+
+  return {
+    rv, residuals, indicators, settings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
+    fitted, load, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
+  }
+})
