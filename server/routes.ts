@@ -8,6 +8,8 @@ import * as uploads from './uploads/routes.ts'
 import * as measurements from './measurements/routes.ts'
 import * as audit from './audit/routes.ts'
 import * as dev from './dev/routes.ts'
+import * as analyses from './analyses/routes.ts'
+import { fitModel, periodogramRun } from './analyses/guards.ts'
 
 export type Handler = (req: Request, res: Response, s: Services) => Promise<void> | void
 export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: string; guards: Guard[]; handler: Handler }
@@ -53,6 +55,20 @@ export const routes: Route[] = [
   { method: 'patch', path: '/api/measurements/:measurementId', guards: [measurement('analyst')], handler: measurements.update },
 
   { method: 'get', path: '/api/teams/:teamId/audit', guards: [team('reviewer')], handler: audit.list },
+
+  { method: 'post', path: '/api/stars/:starId/periodograms', guards: [star('analyst')], handler: analyses.runPeriodogram },
+  { method: 'get', path: '/api/stars/:starId/periodograms', guards: [star('reviewer')], handler: analyses.listPeriodograms },
+  { method: 'get', path: '/api/periodograms/:periodogramId', guards: [periodogramRun('reviewer')], handler: analyses.showPeriodogram },
+  { method: 'get', path: '/api/stars/:starId/models/compare', guards: [star('reviewer')], handler: analyses.compare },
+  { method: 'get', path: '/api/stars/:starId/models', guards: [star('reviewer')], handler: analyses.listModels },
+  { method: 'post', path: '/api/stars/:starId/models', guards: [star('analyst')], handler: analyses.createModel },
+  { method: 'get', path: '/api/models/:modelId', guards: [fitModel('reviewer')], handler: analyses.showModel },
+  { method: 'get', path: '/api/models/:modelId/versions/:version', guards: [fitModel('reviewer')], handler: analyses.showVersion },
+  { method: 'patch', path: '/api/models/:modelId', guards: [fitModel('analyst')], handler: analyses.updateModel },
+  { method: 'post', path: '/api/models/:modelId/fit', guards: [fitModel('analyst')], handler: analyses.fitModel },
+  { method: 'post', path: '/api/models/:modelId/duplicate', guards: [fitModel('analyst')], handler: analyses.duplicateModel },
+  { method: 'delete', path: '/api/models/:modelId', guards: [fitModel('analyst')], handler: analyses.archiveModel },
+  { method: 'post', path: '/api/stars/:starId/search', guards: [star('analyst')], handler: analyses.search },
 
   { method: 'get', path: '/api/dev/mail', guards: [], handler: dev.mailJson },
   { method: 'get', path: '/dev/mail', guards: [], handler: dev.mailPage },
