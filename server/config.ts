@@ -18,6 +18,12 @@ const envSchema = z.object({
   UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(20 * 1024 * 1024),
   UPLOAD_MAX_ROWS: z.coerce.number().int().positive().default(200_000),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+  JOB_WORKERS: z.enum(['0', '1', 'true', 'false']).default('1'),
+  JOB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
+  JOB_STALE_SECONDS: z.coerce.number().positive().default(30),
+  JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(100).default(5),
+  SAMPLING_CHECKPOINT_STEPS: z.coerce.number().int().positive().default(250),
+  SAMPLING_CHECKPOINT_MIN_SECONDS: z.coerce.number().min(0).default(5),
 })
 
 export interface Config {
@@ -35,6 +41,11 @@ export interface Config {
   loginRateLimit: number
   /** Development-only routes (/api/dev/mail, /dev/mail). */
   devRoutes: boolean
+  /** Job queue (server/jobs): whether this server process also works on jobs, and how. */
+  jobs: {
+    workers: boolean; concurrency: number; staleSeconds: number; retryLimit: number
+    checkpointEvery: number; checkpointMinMs: number; pollingIntervalSeconds: number
+  }
 }
 
 const DEV_SECRET = 'starsway-development-secret-not-for-production'
@@ -60,6 +71,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     upload: { maxBytes: e.UPLOAD_MAX_BYTES, maxRows: e.UPLOAD_MAX_ROWS, maxFiles: 10 },
     loginRateLimit: e.LOGIN_RATE_LIMIT,
     devRoutes: e.NODE_ENV !== 'production',
+    jobs: {
+      workers: e.JOB_WORKERS === '1' || e.JOB_WORKERS === 'true', concurrency: e.JOB_CONCURRENCY, staleSeconds: e.JOB_STALE_SECONDS,
+      retryLimit: e.JOB_RETRY_LIMIT, checkpointEvery: e.SAMPLING_CHECKPOINT_STEPS, checkpointMinMs: e.SAMPLING_CHECKPOINT_MIN_SECONDS * 1000, pollingIntervalSeconds: 2,
+    },
   }
   return { ...config, ...overrides }
 }

@@ -4,6 +4,7 @@ import { loadConfig } from './config.ts'
 import { createApp } from './app.ts'
 import { createSequelize, initModels } from './db/index.ts'
 import { createMailer } from './mail/mailer.ts'
+import { startJobWorkers, type JobWorkers } from './jobs/index.ts'
 
 const config = loadConfig()
 const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' })
@@ -12,6 +13,11 @@ await sequelize.authenticate()
 const models = initModels(sequelize)
 const mailer = createMailer(config.smtp)
 const app = createApp({ config, sequelize, models, mailer, logger })
+
+// job workers (posterior sampling) in this process unless JOB_WORKERS=0; more can run elsewhere (scripts/worker.ts)
+const workers: JobWorkers | null = config.jobs.workers
+  ? await startJobWorkers({ config, sequelize, models, mailer }, { log: (msg) => logger.info(msg) })
+  : null
 
 const server: Server = app.listen(config.port, config.host, () => {
   logger.info(`Starsway API listening on http://${config.host}:${config.port} (app URL ${config.appUrl})`)
@@ -26,6 +32,7 @@ async function shutdown(signal: string): Promise<void> {
   force.unref()
   server.close()
   server.closeIdleConnections()
+  await workers?.stop().catch((err: unknown) => logger.error({ err }, 'stopping the job workers failed'))
   mailer.close()
   await sequelize.close()
   process.exit(0)

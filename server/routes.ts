@@ -8,6 +8,7 @@ import * as uploads from './uploads/routes.ts'
 import * as measurements from './measurements/routes.ts'
 import * as audit from './audit/routes.ts'
 import * as dev from './dev/routes.ts'
+import * as sampling from './sampling/routes.ts'
 import * as analyses from './analyses/routes.ts'
 import { fitModel, periodogramRun } from './analyses/guards.ts'
 
@@ -69,6 +70,12 @@ export const routes: Route[] = [
   { method: 'post', path: '/api/models/:modelId/duplicate', guards: [fitModel('analyst')], handler: analyses.duplicateModel },
   { method: 'delete', path: '/api/models/:modelId', guards: [fitModel('analyst')], handler: analyses.archiveModel },
   { method: 'post', path: '/api/stars/:starId/search', guards: [star('analyst')], handler: analyses.search },
+
+  { method: 'post', path: '/api/models/:modelId/sampling', guards: [fitModel('analyst')], handler: sampling.start },
+  { method: 'get', path: '/api/stars/:starId/sampling', guards: [star('reviewer')], handler: sampling.list },
+  { method: 'get', path: '/api/sampling/:runId', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.show },
+  { method: 'get', path: '/api/sampling/:runId/events', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.events },
+  { method: 'post', path: '/api/sampling/:runId/cancel', guards: [sampling.samplingRunGuard('analyst')], handler: sampling.cancel },
 
   { method: 'get', path: '/api/dev/mail', guards: [], handler: dev.mailJson },
   { method: 'get', path: '/dev/mail', guards: [], handler: dev.mailPage },

@@ -1,0 +1,218 @@
+// Posterior sampling runs: requested from a fitted model version, queued on pg-boss (server/jobs),
+// worked on by server/sampling/runner.ts. The run freezes its input (the measurements the fit
+// used, the fitted model, the star's mass) so it can be resumed and reproduced exactly.
+import { randomInt } from 'node:crypto'
+import { Op, QueryTypes, type Sequelize } from 'sequelize'
+import type PgBoss from 'pg-boss'
+import type { Services } from '../services.ts'
+import type { Star, User } from '../db/models.ts'
+import { samplingModels, type SamplingInput, type SamplingRun } from '../db/models-sampling.ts'
+import { analysisModels, type FitModel, type FitModelVersion } from '../db/models-analysis.ts'
+import { ConflictError, ValidationError } from '../errors.ts'
+import { record } from '../audit/service.ts'
+import { createJobSender, SAMPLING_QUEUE } from '../jobs/boss.ts'
+import { createLogPosterior, type PosteriorSpec } from '../../shared/rv/posterior.ts'
+import { rvDataOf } from './thread.ts'
+import {
+  SAMPLING_DEFAULTS, type SamplingRun as SamplingRunJson, type SamplingRunSummary, type SamplingSettings, type StartSamplingRequest,
+  type SamplingEvent,
+} from '../../shared/api/sampling.ts'
+
+/** pg-boss job options of a sampling run: retried when its worker is lost; expiry is only a backstop. */
+export function samplingJobOptions(s: Services): PgBoss.SendOptions {
+  return { retryLimit: s.config.jobs.retryLimit, retryDelay: 1, expireInSeconds: 23 * 3600 }
+}
+
+const senders = new WeakMap<Sequelize, PgBoss>()
+/** The API's job sender (never started; sends through the Sequelize pool). */
+export function jobSender(s: Services): PgBoss {
+  let b = senders.get(s.sequelize)
+  if (!b) { b = createJobSender(s.sequelize); senders.set(s.sequelize, b) }
+  return b
+}
+
+const iso = (d: Date | null | undefined): string | null => (d ? d.toISOString() : null)
+
+function base(r: SamplingRun) {
+  return {
+    id: r.id, starId: r.starId, modelId: r.modelId, modelVersionId: r.modelVersionId, modelVersion: r.modelVersion,
+    settings: r.settings, state: r.state, progress: r.progress ?? null, estimateSeconds: r.estimateSeconds,
+    attempts: r.attempts, checkpointStep: r.checkpointStep, resumedFromStep: r.resumedFromStep ?? null, error: r.error ?? null,
+    requestedBy: r.requester ? { id: r.requester.id, name: r.requester.name } : null,
+    createdAt: r.createdAt.toISOString(), startedAt: iso(r.startedAt), finishedAt: iso(r.finishedAt),
+  }
+}
+export function runJson(r: SamplingRun): SamplingRunJson { return { ...base(r), result: r.result ?? null } }
+export function runSummaryJson(r: SamplingRun): SamplingRunSummary { return { ...base(r), converged: r.result ? r.result.diagnostics.converged : null } }
+export function eventJson(r: SamplingRun): SamplingEvent { return { id: r.id, state: r.state, progress: r.progress ?? null, error: r.error ?? null } }
+
+const LIGHT = { exclude: ['input', 'checkpoint', 'checkpointChain', 'checkpointLnprob'] }
+
+export async function loadRun(s: Services, id: number, withResult = true): Promise<SamplingRun | null> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  return SamplingRun.findByPk(id, {
+    attributes: withResult ? LIGHT : { exclude: [...LIGHT.exclude, 'result'] },
+    include: [{ model: s.models.User, as: 'requester', attributes: ['id', 'name'] }],
+  })
+}
+
+export async function listRuns(s: Services, star: Star): Promise<SamplingRunSummary[]> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  const rows = await SamplingRun.findAll({
+    where: { starId: star.id }, attributes: LIGHT, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: 200,
+    include: [{ model: s.models.User, as: 'requester', attributes: ['id', 'name'] }],
+  })
+  return rows.map(runSummaryJson)
+}
+
+/** Freezes what a run of this fitted version samples: its measurements, its fitted model as the start, the star's mass. */
+export async function inputFromVersion(s: Services, star: Star, version: FitModelVersion): Promise<SamplingInput> {
+  const result = version.result
+  if (version.status !== 'fitted' || !result) {
+    throw new ConflictError(`Version ${version.version} of this model is not fitted: fit it first (sampling starts from the fit).`)
+  }
+  if (!result.planets.length) throw new ConflictError('The model has no planet: add one and fit it before sampling.')
+  const ids = result.residuals.map((r) => r.measurementId)
+  const rows = await s.sequelize.query<{ id: number; instrument: string; time: number; rv: number; error: number }>(
+    `SELECT m.id, d.instrument, m.time, m.rv, m.error FROM measurements m JOIN datasets d ON d.id = m.dataset_id
+      WHERE m.star_id = :star AND m.id IN (:ids) ORDER BY m.time, m.id`,
+    { replacements: { star: star.id, ids: ids.length ? ids : [0] }, type: QueryTypes.SELECT },
+  )
+  if (rows.length < 3) throw new ConflictError('The fit used fewer than 3 measurements: there is nothing to sample.')
+  const names = result.instruments.map((i) => i.name).filter((n) => rows.some((r) => r.instrument === n))
+  for (const r of rows) if (!names.includes(r.instrument)) names.push(r.instrument)
+  const spec = version.spec
+  return {
+    data: {
+      measurementIds: rows.map((r) => r.id), t: rows.map((r) => r.time), y: rows.map((r) => r.rv), dy: rows.map((r) => r.error),
+      instrument: rows.map((r) => names.indexOf(r.instrument)), instrumentNames: names,
+    },
+    model: {
+      planets: result.planets.map((p, k) => {
+        const fix = spec.planets[k]?.fix ?? []
+        const phase = fix.includes('tp') ? { tp: p.tp } : { tc: p.tc }
+        return { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, ...phase, ...(fix.length ? { fix } : {}) }
+      }),
+      trend: spec.trend ?? 'none',
+      epoch: result.epoch,
+      priors: spec.planets.flatMap((p, k) => (p.priors ?? []).map((pr) => ({ planet: k, param: pr.param, gaussian: pr.gaussian, uniform: pr.uniform }))),
+    },
+    mstar: star.massMsun > 0 ? { value: star.massMsun, err: Math.max(0, star.massErrMsun ?? 0) } : null,
+  }
+}
+
+/**
+ * Times the log-posterior of the frozen input at its fitted point and returns the number of
+ * sampled parameters and the expected wall-clock seconds of `walkers × steps` evaluations
+ * (plus a fixed allowance for the start-up fit and the summaries).
+ */
+export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['result'], walkers: number | null, steps: number): { nDim: number; seconds: number } {
+  const data = rvDataOf(input)
+  const r = fitVersion!
+  const spec: PosteriorSpec = {
+    planets: input.model.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp })),
+    trend: input.model.trend, epoch: input.model.epoch,
+    offsets: input.data.instrumentNames.map((n) => r.instruments.find((i) => i.name === n)?.offset ?? 0),
+    jitters: input.data.instrumentNames.map((n) => Math.max(r.instruments.find((i) => i.name === n)?.jitter ?? 0, 0.1)),
+    slope: r.trend?.slope, curvature: r.trend?.curvature,
+  }
+  const post = createLogPosterior(data, spec)
+  const x = Float64Array.from(post.centre)
+  let n = 0
+  const t0 = performance.now()
+  let t = t0
+  while (t - t0 < 25 || n < 20) {
+    for (let i = 0; i < 10; i++) { x[0] = post.centre[0]! + 1e-9 * (n % 7); post.logProb(x); n++ }
+    t = performance.now()
+  }
+  const perEval = (t - t0) / 1000 / n
+  const w = walkers ?? Math.max(SAMPLING_DEFAULTS.walkers, 2 * post.nDim + (post.nDim % 2))
+  return { nDim: post.nDim, seconds: 1.5 + 1.15 * w * steps * perEval }
+}
+
+export function settingsFor(req: StartSamplingRequest, nDim: number): SamplingSettings {
+  const steps = req.steps ?? SAMPLING_DEFAULTS.steps
+  const walkers = req.walkers ?? Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim + (nDim % 2))
+  if (walkers < 2 * nDim) throw new ValidationError(`walkers: at least ${2 * nDim} are needed for the ${nDim} sampled parameters of this model (twice their number).`, 'walkers')
+  return { walkers, steps, burn: req.burn ?? Math.floor(steps / 4), thin: req.thin ?? SAMPLING_DEFAULTS.thin, seed: req.seed ?? randomInt(1, 2 ** 31) }
+}
+
+/** Inserts a run and queues its job. */
+export async function enqueueRun(s: Services, fields: {
+  starId: number; modelId: number | null; modelVersionId: number | null; modelVersion: number | null
+  settings: SamplingSettings; input: SamplingInput; estimateSeconds: number | null; requestedBy: number | null
+}): Promise<SamplingRun> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  const run = await SamplingRun.create({
+    ...fields, progress: { stepsDone: 0, stepsTotal: fields.settings.steps, tau: null, etaSeconds: fields.estimateSeconds, acceptance: null, updatedAt: new Date().toISOString() },
+  })
+  const jobId = await jobSender(s).send(SAMPLING_QUEUE, { runId: run.id }, samplingJobOptions(s))
+  await run.update({ jobId })
+  return run
+}
+
+/** POST /api/models/:modelId/sampling: a run of the model's current version. */
+export async function startRun(s: Services, actor: User, star: Star, model: FitModel, req: StartSamplingRequest): Promise<SamplingRunJson> {
+  const { FitModelVersion } = analysisModels(s.sequelize, s.models)
+  const version = await FitModelVersion.findOne({ where: { modelId: model.id, version: model.currentVersion } })
+  if (!version) throw new ConflictError('The model has no current version.')
+  const input = await inputFromVersion(s, star, version)
+  const steps = req.steps ?? SAMPLING_DEFAULTS.steps
+  const first = estimateRun(input, version.result, req.walkers ?? null, steps)
+  const settings = settingsFor(req, first.nDim)
+  const estimate = estimateRun(input, version.result, settings.walkers, settings.steps)
+  const run = await enqueueRun(s, {
+    starId: star.id, modelId: model.id, modelVersionId: version.id, modelVersion: version.version,
+    settings, input, estimateSeconds: Math.round(estimate.seconds * 10) / 10, requestedBy: actor.id,
+  })
+  await record(s, {
+    teamId: star.teamId, userId: actor.id, action: 'sampling.start', entity: 'sampling', entityId: run.id,
+    detail: { starId: star.id, modelId: model.id, version: version.version, settings, estimateSeconds: run.estimateSeconds },
+  })
+  return runJson((await loadRun(s, run.id))!)
+}
+
+/** POST /api/sampling/:runId/cancel: a queued run never starts; a running one stops within about a second (its partial result is kept). */
+export async function cancelRun(s: Services, actor: User, star: Star, run: SamplingRun): Promise<SamplingRunJson> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  if (['succeeded', 'failed', 'cancelled'].includes(run.state)) throw new ConflictError(`The run has already ${run.state === 'cancelled' ? 'been cancelled' : run.state}.`)
+  const [n] = await SamplingRun.update(
+    { state: 'cancelled', finishedAt: new Date(), error: `Cancelled by ${actor.name}.` },
+    { where: { id: run.id, state: { [Op.in]: ['queued', 'running'] } } },
+  )
+  if (n === 0) throw new ConflictError('The run finished in the meantime.')
+  if (run.state === 'queued' && run.jobId) {
+    await jobSender(s).cancel(SAMPLING_QUEUE, run.jobId).catch(() => undefined)
+  }
+  await record(s, { teamId: star.teamId, userId: actor.id, action: 'sampling.cancel', entity: 'sampling', entityId: run.id, detail: { starId: star.id, was: run.state } })
+  return runJson((await loadRun(s, run.id))!)
+}
+
+/**
+ * Runs marked running whose heartbeat is older than `staleSeconds` lost their worker (killed,
+ * machine gone): their pg-boss job is failed, so pg-boss retries it (up to the retry limit) and
+ * the next worker resumes from the checkpoint. Out of retries → the run is marked failed.
+ */
+export async function reapStaleRuns(s: Services, boss: PgBoss, staleSeconds: number): Promise<number> {
+  const stale = await s.sequelize.query<{ id: number; job_id: string | null; attempts: number }>(
+    `SELECT id, job_id, attempts FROM sampling_runs
+      WHERE state = 'running' AND heartbeat_at < now() - make_interval(secs => :stale)`,
+    { replacements: { stale: staleSeconds }, type: QueryTypes.SELECT },
+  )
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  for (const r of stale) {
+    const job = r.job_id ? await boss.getJobById(SAMPLING_QUEUE, r.job_id) : null
+    if (job && (job.state === 'created' || job.state === 'retry')) continue // already waiting for a worker
+    if (job && job.state === 'active') {
+      await boss.fail(SAMPLING_QUEUE, r.job_id!, { message: `worker lost (no heartbeat for ${staleSeconds} s)` })
+      const after = await boss.getJobById(SAMPLING_QUEUE, r.job_id!)
+      if (after && after.state !== 'failed') continue
+    }
+    // no job left to retry (out of retries, or it vanished): the run ends here
+    await SamplingRun.update(
+      { state: 'failed', finishedAt: new Date(), error: `The worker running this job was lost ${r.attempts} time(s) and the job is out of retries; start a new run.` },
+      { where: { id: r.id, state: 'running' } },
+    )
+  }
+  return stale.length
+}

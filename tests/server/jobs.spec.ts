@@ -1,0 +1,90 @@
+// Sampling runs on the job queue (pg-boss in the test database): a run completes and stores its
+// result and mails its requester; cancel stops a running sampler.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { startJobWorkers, type JobWorkers } from '../../server/jobs/index.ts'
+import { startSamplingWorld, waitForRun, type SamplingWorld } from './sampling-setup.ts'
+
+let w: SamplingWorld
+let workers: JobWorkers
+beforeAll(async () => {
+  w = await startSamplingWorld()
+  workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100 })
+})
+afterAll(async () => {
+  await workers?.stop()
+  w?.services.mailer.close()
+  await w?.t.close()
+})
+
+describe('sampling jobs', () => {
+  it('runs to completion, stores the result with its settings and mails the requester a link', async () => {
+    const t0 = Date.now()
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps: 600, seed: 11 })
+    expect(res.status, JSON.stringify(res.body)).toBe(201)
+    expect(res.body).toMatchObject({ state: 'queued', settings: { walkers: 16, steps: 600, burn: 150, thin: 1, seed: 11 }, modelId: w.modelId, modelVersion: 2 })
+    expect(res.body.estimateSeconds).toBeGreaterThan(0)
+    const run = await waitForRun(w, res.body.id, (r) => r.state === 'succeeded' || r.state === 'failed', 30_000, 'succeeded')
+    expect(run.error).toBeNull()
+    expect(run.state).toBe('succeeded')
+    expect(run.result!.settings).toMatchObject({ seed: 11, walkers: 16, steps: 600, stepsDone: 600, stopped: false })
+    expect(run.progress!.stepsDone).toBe(600)
+    const K = run.result!.parameters.find((p) => p.name === 'K b')!
+    // the synthetic series was made with K = 30 m/s and 3 m/s noise on 40 points (sampling-setup.ts)
+    expect(K.median).toBeGreaterThan(25)
+    expect(K.median).toBeLessThan(35)
+    expect(K.lo).toBeLessThan(K.median)
+    expect(K.hi).toBeGreaterThan(K.median)
+    expect(run.result!.parameters.some((p) => p.name === 'M sin i b')).toBe(true)
+    expect(run.checkpointChain).toBeNull() // dropped once the result is stored
+    const shown = await w.reviewer.get(`/api/sampling/${run.id}`).expect(200)
+    expect(shown.body.result.parameters.length).toBeGreaterThan(5)
+    expect(shown.body.requestedBy.name).toBeTruthy()
+    const mail = await w.t.mail.waitFor((m) => m.subject.includes(`run ${run.id}`), 10_000)
+    expect(mail.to).toContain('tomas.analyst@lanternfield.test')
+    expect(mail.text).toContain(`${w.t.config.appUrl}/stars/${w.starId}?sampling=${run.id}`)
+    expect(mail.subject).toMatch(/finished/)
+    const audit = await w.owner.get(`/api/teams/${w.teamId}/audit`).expect(200)
+    expect(audit.body.some((a: { action: string; entityId: number }) => a.action === 'sampling.start' && a.entityId === run.id)).toBe(true)
+    console.log(`[jobs] 16 × 600 run done in ${Date.now() - t0} ms (estimate ${res.body.estimateSeconds} s)`)
+  })
+
+  it('streams progress as server-sent events until the run is done', async () => {
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps: 400, seed: 3 }).expect(201)
+    const ev = await w.reviewer.get(`/api/sampling/${res.body.id}/events`).buffer(true).parse((r, cb) => {
+      let text = ''
+      r.on('data', (c: Buffer) => { text += c.toString() })
+      r.on('end', () => cb(null, text))
+    }).expect(200)
+    expect(ev.headers['content-type']).toMatch(/text\/event-stream/)
+    const text = ev.body as string
+    expect(text).toMatch(/event: progress\ndata: \{/)
+    const done = /event: done\ndata: (.*)\n/.exec(text)
+    expect(done).not.toBeNull()
+    expect(JSON.parse(done![1]!)).toMatchObject({ id: res.body.id, state: 'succeeded', progress: { stepsDone: 400, stepsTotal: 400 } })
+  })
+
+  it('cancels a running sampler: it stops within seconds and keeps what it had', async () => {
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps: 200_000, seed: 5 }).expect(201)
+    await waitForRun(w, res.body.id, (r) => r.state === 'running' && (r.progress?.stepsDone ?? 0) > 0, 20_000, 'running')
+    await w.reviewer.post(`/api/sampling/${res.body.id}/cancel`).expect(403)
+    const c = await w.analyst.post(`/api/sampling/${res.body.id}/cancel`).expect(200)
+    expect(c.body.state).toBe('cancelled')
+    const run = await waitForRun(w, res.body.id, (r) => r.result !== null, 15_000, 'a stored partial result')
+    expect(run.state).toBe('cancelled')
+    expect(run.result!.settings.stopped).toBe(true)
+    expect(run.result!.settings.stepsDone).toBeLessThan(200_000)
+    expect(run.result!.diagnostics.converged).toBe(false)
+    await w.analyst.post(`/api/sampling/${res.body.id}/cancel`).expect(409)
+  })
+
+  it('cancels a queued run before any worker takes it', async () => {
+    await workers.stop()
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps: 400 }).expect(201)
+    await w.owner.post(`/api/sampling/${res.body.id}/cancel`).expect(200)
+    workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5 })
+    await new Promise((r) => setTimeout(r, 1500))
+    const run = await waitForRun(w, res.body.id, () => true)
+    expect(run.state).toBe('cancelled')
+    expect(run.attempts).toBe(0)
+  })
+})
