@@ -17,6 +17,15 @@ export function pool(s: Services): ComputePool { return s.compute ?? defaultPool
 const M = (s: Services) => analysisModels(s.sequelize, s.models)
 const ref = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null)
 const iso = (d: Date) => new Date(d).toISOString()
+/** JSON with sorted keys: PostgreSQL's JSONB does not keep key order, so specs are compared in this form. */
+function canonical(v: unknown): string {
+  if (Array.isArray(v)) return `[${v.map(canonical).join(',')}]`
+  if (v && typeof v === 'object') {
+    return `{${Object.keys(v).filter((k) => (v as Record<string, unknown>)[k] !== undefined).sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical((v as Record<string, unknown>)[k])}`).join(',')}}`
+  }
+  return JSON.stringify(v)
+}
 
 /** Fewest points a periodogram is computed for. */
 export const MIN_PERIODOGRAM_POINTS = 5
@@ -253,7 +262,7 @@ export async function updateModel(s: Services, actor: User, star: Star, model: F
     const m = await lockModel(s, model.id, transaction)
     const cur = (await M(s).FitModelVersion.findOne({ where: { modelId: m.id, version: m.currentVersion }, transaction }))!
     const name = req.name ?? cur.name
-    const specChanged = spec !== undefined && JSON.stringify(spec) !== JSON.stringify(cur.spec)
+    const specChanged = spec !== undefined && canonical(spec) !== canonical(cur.spec)
     const v = await addVersion(s, actor, m, specChanged
       ? { name, spec: spec!, status: 'draft', result: null, note: 'updated' }
       : { name, spec: cur.spec, status: cur.status, result: cur.result, note: name !== cur.name ? 'renamed' : 'updated' }, transaction)

@@ -104,11 +104,16 @@ describe('versions', () => {
     expect(renamed.versions.map((v) => [v.version, v.status, v.note])).toEqual([
       [1, 'draft', 'created'], [2, 'draft', 'updated'], [3, 'fitted', 'fitted'], [4, 'fitted', 'renamed'],
     ])
+    // the same spec sent back (JSONB reorders keys) is no change: the result stays
+    const same = (await a.patch(`/api/models/${created.id}`, { spec: renamed.current.spec }).expect(200)).body as ModelDetail
+    expect(same.currentVersion).toBe(5)
+    expect(same.current.status).toBe('fitted')
+    expect(same.current.result).toEqual(fit.current.result)
     const dup = await a.post(`/api/models/${created.id}/duplicate`, {}).expect(201)
     expect(dup.body.id).not.toBe(created.id)
     expect(dup.body.name).toBe('Outer planet (copy)')
     expect(dup.body.current.result).toEqual(fit.current.result)
-    expect(dup.body.current.note).toBe(`duplicated from model ${created.id} version 4`)
+    expect(dup.body.current.note).toBe(`duplicated from model ${created.id} version 5`)
     await a.delete(`/api/models/${dup.body.id}`).expect(204)
   })
 })
