@@ -4,7 +4,7 @@
 // handler stops it through a shared flag (the sampler's loop never yields to messages).
 import { parentPort, workerData } from 'node:worker_threads'
 import { fitKeplerians, type PlanetStart, type Prior, type RvData } from '../../shared/rv/index.ts'
-import { samplePosterior } from '../../shared/rv/mcmc.ts'
+import { samplePosterior, type SampleOptions, type SampleResult } from '../../shared/rv/mcmc.ts'
 import { stateFromJson, stateToJson } from '../../shared/rv/sampler.ts'
 import { integratedTime } from '../../shared/rv/diagnostics.ts'
 import type { SamplingInput } from '../db/models-sampling.ts'
@@ -37,14 +37,26 @@ export function rvDataOf(input: SamplingInput): RvData {
   }
 }
 
-function run(port: NonNullable<typeof parentPort>, wd: ThreadData): void {
-  const { input, settings } = wd
-  const stop = new Int32Array(wd.stop)
+/**
+ * One sampling run of a frozen input: the maximum-likelihood fit from the stored fitted values
+ * (deterministic, so a resumed run starts from the same fit), then samplePosterior with the run's
+ * settings. The same call with `resume` continues an interrupted run exactly.
+ */
+export function sampleInput(input: SamplingInput, settings: SamplingSettings, extra: Pick<SampleOptions, 'onProgress' | 'progressEvery' | 'resume'> = {}): SampleResult {
   const data = rvDataOf(input)
   const priors = input.model.priors as Prior[]
   const fit = fitKeplerians(data, {
     planets: input.model.planets as PlanetStart[], trend: input.model.trend, epoch: input.model.epoch, priors,
   })
+  return samplePosterior(data, fit, {
+    walkers: settings.walkers, steps: settings.steps, burn: settings.burn, thin: settings.thin, seed: settings.seed,
+    mstar: input.mstar ?? undefined, priors, ...extra,
+  })
+}
+
+function run(port: NonNullable<typeof parentPort>, wd: ThreadData): void {
+  const { input, settings } = wd
+  const stop = new Int32Array(wd.stop)
   const thin = settings.thin
   const progressEvery = thin * Math.max(1, Math.ceil(10 / thin))
   const checkpointEvery = thin * Math.max(1, Math.round(wd.checkpointEvery / thin))
@@ -54,9 +66,8 @@ function run(port: NonNullable<typeof parentPort>, wd: ThreadData): void {
   let lastCheckpointAt = Date.now()
   const resume = wd.resume ? { state: stateFromJson(wd.resume.state), chain: wd.resume.chain, lnProb: wd.resume.lnProb } : undefined
 
-  const result = samplePosterior(data, fit, {
-    walkers: settings.walkers, steps: settings.steps, burn: settings.burn, thin, seed: settings.seed,
-    mstar: input.mstar ?? undefined, priors, progressEvery, resume,
+  const result = sampleInput(input, settings, {
+    progressEvery, resume,
     onProgress: (_done, total, state, kept) => {
       const step = state.step
       const flag = Atomics.load(stop, 0)
