@@ -20,6 +20,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/stars', name: 'stars', component: () => import('@/views/StarListView.vue') },
   { path: '/stars/:starId(\\d+)', name: 'star', component: () => import('@/views/StarView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/stars/:starId(\\d+)/add-data', name: 'add-data', component: () => import('@/views/AddDataView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
+  { path: '/stars/:starId(\\d+)/analysis', name: 'analysis', component: () => import('@/views/AnalysisView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { public: true } },
 ]
 

@@ -184,7 +184,7 @@ export function specToForm(name: string, spec: ModelSpec | ModelSpecInput, allIn
     trend: spec.trend ?? 'none',
     instruments: spec.instruments ? [...spec.instruments] : [...allInstruments],
     planets: spec.planets.map((p) => {
-      const form = planetForm(p.period, p.K, p.e ?? null)
+      const form = planetForm(p.period, p.K ?? null, p.e ?? null)
       if (p.omegaDeg !== undefined) form.params.omegaDeg.value = String(p.omegaDeg)
       if (p.tc !== undefined) form.params.phase.value = String(p.tc)
       else if (p.tp !== undefined) { form.phaseKind = 'tp'; form.params.phase.value = String(p.tp) }

@@ -164,7 +164,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
         return lines.join('<br>')
       },
     },
-    toolbox: compact ? undefined : {
+    toolbox: {
       right: 16, top: 0,
       feature: {
         dataZoom: { yAxisIndex: 'none', title: { zoom: 'Zoom to box', back: 'Undo zoom' } },
