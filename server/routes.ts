@@ -11,6 +11,8 @@ import * as dev from './dev/routes.ts'
 import * as sampling from './sampling/routes.ts'
 import * as analyses from './analyses/routes.ts'
 import { fitModel, periodogramRun } from './analyses/guards.ts'
+import * as reports from './reports/routes.ts'
+import { report } from './reports/guards.ts'
 
 export type Handler = (req: Request, res: Response, s: Services) => Promise<void> | void
 export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: string; guards: Guard[]; handler: Handler }
@@ -76,6 +78,17 @@ export const routes: Route[] = [
   { method: 'get', path: '/api/sampling/:runId', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.show },
   { method: 'get', path: '/api/sampling/:runId/events', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.events },
   { method: 'post', path: '/api/sampling/:runId/cancel', guards: [sampling.samplingRunGuard('analyst')], handler: sampling.cancel },
+
+  { method: 'post', path: '/api/models/:modelId/report', guards: [fitModel('analyst')], handler: reports.freeze },
+  { method: 'get', path: '/api/stars/:starId/reports', guards: [star('reviewer')], handler: reports.list },
+  { method: 'get', path: '/api/reports/:reportId', guards: [report('reviewer')], handler: reports.show },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version', guards: [report('reviewer')], handler: reports.showVersion },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version/pdf', guards: [report('reviewer')], handler: reports.pdf },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version/latex', guards: [report('reviewer')], handler: reports.latex },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version/csv', guards: [report('reviewer')], handler: reports.csv },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version/json', guards: [report('reviewer')], handler: reports.json },
+  { method: 'post', path: '/api/reports/:reportId/shares', guards: [report('analyst')], handler: reports.share },
+  { method: 'post', path: '/api/reports/:reportId/reviews', guards: [report('reviewer')], handler: reports.reviewReport },
 
   { method: 'get', path: '/api/dev/mail', guards: [], handler: dev.mailJson },
   { method: 'get', path: '/dev/mail', guards: [], handler: dev.mailPage },

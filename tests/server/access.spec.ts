@@ -4,6 +4,7 @@ import { startTestApp, type TestApp } from '../helpers/app.ts'
 import { routes } from '../../server/routes.ts'
 import * as analysisHandlers from '../../server/analyses/routes.ts'
 import * as samplingHandlers from '../../server/sampling/routes.ts'
+import * as reportHandlers from '../../server/reports/routes.ts'
 import { hashToken, newToken } from '../../server/auth/tokens.ts'
 import { anonymous, signIn, type Client } from './client.ts'
 
@@ -140,7 +141,7 @@ async function personaClient(p: Persona, route: string): Promise<Client> {
 describe('access to every route', () => {
   it('covers every route of the routes table', () => {
     // the analysis routes have their own table in analyses-access.spec.ts, the sampling routes in sampling-access.spec.ts
-    const elsewhere = new Set<unknown>([...Object.values(analysisHandlers), ...Object.values(samplingHandlers)])
+    const elsewhere = new Set<unknown>([...Object.values(analysisHandlers), ...Object.values(samplingHandlers), ...Object.values(reportHandlers)])
     const inTable = routes.filter((r) => !elsewhere.has(r.handler)).map((r) => `${r.method.toUpperCase()} ${r.path}`).sort()
     const tested = cases.map((c) => `${c.method.toUpperCase()} ${c.route}`).sort()
     expect(tested).toEqual(inTable)
