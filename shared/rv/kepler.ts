@@ -5,6 +5,8 @@
  * high-order correction of his form, which together leave |E − e sin E − M| below 3e-15; a guarded Newton
  * step (Danby 1988, *Fundamentals of Celestial Mechanics*) then runs only if the residual
  * still exceeds the tolerance, so the result always meets |E − e sin E − M| < 1e-12.
+ * Many M at one e (the array forms and the RV model) go through a per-e table instead (see
+ * `keplerTabled`): no transcendental call per solve, the same residual check and fallback.
  * Relations between anomalies follow Murray & Dermott 1999, *Solar System Dynamics*, §2.4.
  */
 
@@ -104,6 +106,113 @@ function keplerCore(mSigned: number, e: number, a0: number, a1: number): number 
   return sign * E
 }
 
+// ---- Array solver: a per-e table of the equation around fixed nodes in E ----------------------
+//
+// For one e and many M (a model evaluated at all observation times), E ∈ [0, π] is cut into
+// TABLE_NODES equal intervals of width TABLE_H. sin and cos at the interval boundaries and centres
+// E_c do not depend on e and are computed once; per e the table holds the boundaries' mean
+// anomalies M_b = E_b − e sin E_b (to find the interval of an M), and at each centre the Taylor
+// coefficients of f(δ) = E_c + δ − e sin(E_c + δ) − M in δ = E − E_c (common practice for
+// table-driven solvers of one equation at many points). Within an interval |δ| ≤ TABLE_H/2, so sin δ
+// and cos δ are short Taylor series and a solve needs no transcendental call.
+
+const TABLE_NODES = 64
+const TABLE_H = Math.PI / TABLE_NODES
+/** Uniform bins in M over [0, π] pointing at the first interval that can hold an M of the bin. */
+const TABLE_BINS = 128
+const BIN_SCALE = TABLE_BINS / Math.PI
+const SIN_B = new Float64Array(TABLE_NODES + 1)
+const SIN_C = new Float64Array(TABLE_NODES), COS_C = new Float64Array(TABLE_NODES)
+for (let j = 0; j <= TABLE_NODES; j++) SIN_B[j] = Math.sin(j * TABLE_H)
+for (let j = 0; j < TABLE_NODES; j++) { SIN_C[j] = Math.sin((j + 0.5) * TABLE_H); COS_C[j] = Math.cos((j + 0.5) * TABLE_H) }
+/** Per-e table: M at the boundaries (last one +∞ as a sentinel), M at the centres, e sin E_c, e cos E_c, 1/f′(0), and the reversion coefficients p = f″/(2f′), r = 2p² − f‴/(6f′). */
+const T_MB = new Float64Array(TABLE_NODES + 1)
+const T_MC = new Float64Array(TABLE_NODES)
+const T_ES = new Float64Array(TABLE_NODES), T_EC = new Float64Array(TABLE_NODES)
+const T_INV = new Float64Array(TABLE_NODES), T_P = new Float64Array(TABLE_NODES), T_R = new Float64Array(TABLE_NODES)
+const T_BIN = new Int32Array(TABLE_BINS + 1)
+let tableE = NaN
+
+/** Fills the per-e table (no-op when it already holds `e`). 0 < e < 1, not checked. */
+function prepareTable(e: number): void {
+  if (e === tableE) return
+  for (let j = 0; j <= TABLE_NODES; j++) T_MB[j] = j * TABLE_H - e * SIN_B[j]
+  T_MB[TABLE_NODES] = Infinity
+  for (let j = 0; j < TABLE_NODES; j++) {
+    const es = e * SIN_C[j], ec = e * COS_C[j]
+    const inv = 1 / (1 - ec)
+    const p = 0.5 * es * inv
+    T_MC[j] = (j + 0.5) * TABLE_H - es
+    T_ES[j] = es; T_EC[j] = ec; T_INV[j] = inv; T_P[j] = p
+    T_R[j] = 2 * p * p - ec * inv / 6
+  }
+  let j = 0
+  for (let b = 0; b <= TABLE_BINS; b++) {
+    const m = b / BIN_SCALE
+    while (T_MB[j + 1] <= m) j++
+    T_BIN[b] = j
+  }
+  tableE = e
+}
+
+/**
+ * E for a reduced mean anomaly m ∈ [0, π] from the table of `prepareTable(e)`: cubic series
+ * reversion of f about the interval's centre as the starter, then one fourth-order correction
+ * (the Halley step fed into Markley's 1995 form, as in `keplerCore`); sin E and cos E by the
+ * angle-sum rule, left in SINCOS. The residual is checked, and `keplerCore` (Markley 1995 with the
+ * Newton fallback) takes over in the rare case it is not below the tolerance.
+ */
+function keplerTabled(m: number, e: number): number {
+  let j = T_BIN[(m * BIN_SCALE) | 0]
+  while (T_MB[j + 1] <= m) j++
+  const es = T_ES[j], ec = T_EC[j]
+  const dM = m - T_MC[j]
+  const x = dM * T_INV[j]
+  let d = x * (1 - x * (T_P[j] - x * T_R[j]))
+  // sin d and 1 − cos d by Taylor series: |d| ≲ TABLE_H/2 = 0.0245, truncation below 1e-20
+  let d2 = d * d
+  let sd = d * (1 - d2 * (1 / 6 - d2 * (1 / 120 - d2 / 5040)))
+  let vd = d2 * (0.5 - d2 * (1 / 24 - d2 * (1 / 720 - d2 / 40320)))
+  const f0 = d - dM + es * vd - ec * sd
+  const f1 = 1 + es * sd - ec * (1 - vd)
+  const f2 = es * (1 - vd) + ec * sd
+  const f3 = ec * (1 - vd) - es * sd
+  const d3 = -f0 * f1 / (f1 * f1 - 0.5 * f0 * f2)
+  d += -f0 / (f1 + 0.5 * d3 * f2 + d3 * d3 * f3 / 6)
+  d2 = d * d
+  sd = d * (1 - d2 * (1 / 6 - d2 * (1 / 120 - d2 / 5040)))
+  vd = d2 * (0.5 - d2 * (1 / 24 - d2 * (1 / 720 - d2 / 40320)))
+  const res = d - dM + es * vd - ec * sd
+  if (!(Math.abs(res) < KEPLER_TOLERANCE && Math.abs(d) < TABLE_H)) return keplerCore(m, e, ALPHA0, ALPHA1 / (1 + e))
+  const s = SIN_C[j], c = COS_C[j]
+  const cd = 1 - vd
+  SINCOS.sin = s * cd + c * sd
+  SINCOS.cos = c * cd - s * sd
+  return (j + 0.5) * TABLE_H + d
+}
+
+/**
+ * Internal fast path for many M at one e (the RV model over all times of a planet): after
+ * `keplerPrepare(e)`, `keplerPrepared(M, e)` returns E (any range of M, on its reduced revolution;
+ * no checks) and leaves sin E, cos E in SINCOS. The table stays valid until `keplerPrepare` is
+ * called with another e; 0 ≤ e < 1 is the caller's to ensure.
+ */
+export function keplerPrepare(e: number): void {
+  prepareTable(e)
+}
+
+/** See `keplerPrepare`. */
+export function keplerPrepared(M: number, e: number): number {
+  const m = M >= -Math.PI && M < Math.PI ? M : M - TWO_PI * Math.floor((M + Math.PI) / TWO_PI)
+  if (m >= 0) return keplerTabled(m, e)
+  const E = keplerTabled(-m, e)
+  SINCOS.sin = -SINCOS.sin
+  return -E
+}
+
+/** Arrays shorter than this are solved point by point (the table costs about as much as a few solves). */
+const TABLE_MIN_LENGTH = 16
+
 /**
  * Solves Kepler's equation for every mean anomaly in `M`, writing E into `out`
  * (which may be `M` itself). No allocation. Returns `out`.
@@ -112,11 +221,15 @@ export function solveKeplerArray(M: Float64Array, e: number, out: Float64Array):
   if (!(e >= 0 && e < 1)) throw new RangeError(`e must be in [0, 1), got ${e}`)
   if (out.length < M.length) throw new RangeError('out must be at least as long as M')
   if (e === 0) { if (out !== M) out.set(M); return out }
-  const a1 = ALPHA1 / (1 + e)
+  if (M.length < TABLE_MIN_LENGTH) {
+    for (let i = 0; i < M.length; i++) { const m = wrapPi(M[i]); out[i] = M[i] - m + keplerReduced(m, e) }
+    return out
+  }
+  prepareTable(e)
   for (let i = 0; i < M.length; i++) {
     const Mi = M[i]
     const m = Mi >= -Math.PI && Mi < Math.PI ? Mi : Mi - TWO_PI * Math.floor((Mi + Math.PI) / TWO_PI)
-    out[i] = Mi - m + keplerCore(m, e, ALPHA0, a1)
+    out[i] = m < 0 ? Mi - m - keplerTabled(-m, e) : Mi - m + keplerTabled(m, e)
   }
   return out
 }

@@ -7,11 +7,15 @@
  * of the STAR's orbit (the planet's is ω + π), positive velocities receding. Times in days, K in m/s,
  * angles in radians here (degrees only at the API/CLI edge).
  */
-import { keplerUnchecked, eccentricFromTrue, wrapPi, SINCOS } from './kepler.ts'
+import { keplerUnchecked, keplerPrepare, keplerPrepared, eccentricFromTrue, wrapPi, SINCOS } from './kepler.ts'
 
 // Local references: module-namespace bindings can cost a getter call per access under some loaders.
 const kepler = keplerUnchecked
+const prepare = keplerPrepare
+const keplerAt = keplerPrepared
 const sincos = SINCOS
+/** From this many times on, the solver's per-e table pays for itself (see kepler.ts). */
+const TABLE_MIN_LENGTH = 16
 
 const TWO_PI = 2 * Math.PI
 
@@ -49,13 +53,22 @@ export function addKeplerian(t: Float64Array, o: Keplerian, out: Float64Array): 
     }
     return out
   }
+  // v = K [cos ν cos ω − sin ν sin ω + e cos ω] with cos ν = (cos E − e)/(1 − e cos E) and
+  // sin ν = √(1−e²) sin E/(1 − e cos E): one division per time
+  const Kecw = K * ecw, Kcw = K * cw, Ksqsw = K * sq * sw
+  if (t.length < TABLE_MIN_LENGTH) {
+    for (let i = 0; i < t.length; i++) {
+      kepler(n * (t[i] - tp), e)
+      const cE = sincos.cos, sE = sincos.sin
+      out[i] += ((cE - e) * Kcw - sE * Ksqsw) / (1 - e * cE) + Kecw
+    }
+    return out
+  }
+  prepare(e)
   for (let i = 0; i < t.length; i++) {
-    kepler(n * (t[i] - tp), e)
+    keplerAt(n * (t[i] - tp), e)
     const cE = sincos.cos, sE = sincos.sin
-    const den = 1 - e * cE
-    const cnu = (cE - e) / den
-    const snu = sq * sE / den
-    out[i] += K * (cnu * cw - snu * sw + ecw)
+    out[i] += ((cE - e) * Kcw - sE * Ksqsw) / (1 - e * cE) + Kecw
   }
   return out
 }
