@@ -8,7 +8,7 @@ let w: SamplingWorld
 let workers: JobWorkers
 beforeAll(async () => {
   w = await startSamplingWorld()
-  workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100 })
+  workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100, checkpointMinMs: 200 })
 })
 afterAll(async () => {
   await workers?.stop()
@@ -75,6 +75,22 @@ describe('sampling jobs', () => {
     expect(run.result!.settings.stepsDone).toBeLessThan(200_000)
     expect(run.result!.diagnostics.converged).toBe(false)
     await w.analyst.post(`/api/sampling/${res.body.id}/cancel`).expect(409)
+  })
+
+  it('puts a run back in the queue when its worker stops gracefully; the next worker resumes it', async () => {
+    const steps = 8000
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps, thin: 10, seed: 9 }).expect(201)
+    await waitForRun(w, res.body.id, (r) => r.state === 'running' && (r.progress?.stepsDone ?? 0) > 500, 20_000, 'running')
+    await workers.stop()
+    const parked = await waitForRun(w, res.body.id, () => true)
+    expect(parked.state).toBe('queued')
+    expect(parked.checkpointStep).toBeGreaterThan(0)
+    workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100, checkpointMinMs: 200 })
+    const run = await waitForRun(w, res.body.id, (r) => r.state === 'succeeded' || r.state === 'failed', 30_000, 'succeeded')
+    expect(run.state).toBe('succeeded')
+    expect(run.attempts).toBe(2)
+    expect(run.resumedFromStep).toBe(parked.checkpointStep)
+    expect(run.result!.settings).toMatchObject({ steps, stepsDone: steps, stopped: false })
   })
 
   it('cancels a queued run before any worker takes it', async () => {
