@@ -70,6 +70,8 @@ describe('from velocities to a two-planet solution in the browser', () => {
     await page.locator('[data-test="star-name"]', { hasText: 'Vela Sorrel' }).waitFor()
     await page.locator('[data-test="open-analysis"]').click()
     await page.locator('[data-test="analysis-title"]', { hasText: 'Vela Sorrel' }).waitFor()
+    // The fixed app bar would cover parts of the element screenshots below.
+    await page.addStyleTag({ content: 'header.v-app-bar { visibility: hidden !important; }' })
 
     // The periodogram of the velocities: its top peak is one of the two planets.
     await page.locator('[data-test="run-periodogram"]').click()

@@ -14,6 +14,8 @@ type Point = [number, number, number, number]
 const MODEL_COLOR = '#222222'
 const grid = { left: 72, right: 24 }
 const split = { lineStyle: { color: '#eceff1' } }
+/** Axes drawn at the grid's edge, not through zero. */
+const edge = { onZero: false }
 
 const toolbox = (name: string) => ({
   right: 16, top: 0,
@@ -102,12 +104,12 @@ export function buildTimeChart(points: PlotPoint[], result: FitResultJson, curve
       { type: 'slider', xAxisIndex: [0, 1], filterMode: 'none', bottom: 8, height: 18 },
     ],
     xAxis: [
-      { type: 'value', gridIndex: 0, scale: true, splitLine: split, axisLabel: { show: false } },
-      { type: 'value', gridIndex: 1, scale: true, splitLine: split, name: axisName, nameLocation: 'middle', nameGap: 26 },
+      { type: 'value', gridIndex: 0, scale: true, splitLine: split, axisLine: edge, axisLabel: { show: false } },
+      { type: 'value', gridIndex: 1, scale: true, splitLine: split, axisLine: edge, name: axisName, nameLocation: 'middle', nameGap: 26 },
     ],
     yAxis: [
-      { type: 'value', gridIndex: 0, scale: true, name: 'RV − offset [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split },
-      { type: 'value', gridIndex: 1, scale: true, name: 'Residual [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, splitNumber: 3 },
+      { type: 'value', gridIndex: 0, scale: true, name: 'RV − offset [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge },
+      { type: 'value', gridIndex: 1, scale: true, name: 'Residual [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge, splitNumber: 3 },
     ],
     series,
   }
@@ -140,8 +142,8 @@ export function buildFoldedChart(
     tooltip: tooltip(lookup, timeScale),
     toolbox: toolbox(`phase-folded-${label}`),
     dataZoom: [{ type: 'inside', xAxisIndex: 0, filterMode: 'none' }],
-    xAxis: { type: 'value', min: -0.5, max: 0.5, name: 'Orbital phase from Tc [cycles]', nameLocation: 'middle', nameGap: 26, splitLine: split },
-    yAxis: { type: 'value', scale: true, name: 'RV of this planet [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split },
+    xAxis: { type: 'value', min: -0.5, max: 0.5, name: 'Orbital phase from Tc [cycles]', nameLocation: 'middle', nameGap: 26, splitLine: split, axisLine: edge },
+    yAxis: { type: 'value', scale: true, name: 'RV of this planet [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge },
     series,
   }
 }
@@ -172,8 +174,8 @@ export function buildHistogramChart(points: PlotPoint[]): EChartsOption {
     grid: { ...grid, top: 40, bottom: 56 },
     tooltip: { trigger: 'item', formatter: (p: unknown) => { const v = (p as { value: number[] }).value; return `${v[0]!.toFixed(1)} … ${v[1]!.toFixed(1)} m/s: ${v[2]}` } },
     toolbox: toolbox('residual-histogram'),
-    xAxis: { type: 'value', scale: true, name: 'Residual [m/s]', nameLocation: 'middle', nameGap: 26, splitLine: split },
-    yAxis: { type: 'value', name: 'Points', nameLocation: 'middle', nameGap: 40, minInterval: 1, splitLine: split },
+    xAxis: { type: 'value', scale: true, name: 'Residual [m/s]', nameLocation: 'middle', nameGap: 26, splitLine: split, axisLine: edge },
+    yAxis: { type: 'value', name: 'Points', nameLocation: 'middle', nameGap: 40, minInterval: 1, splitLine: split, axisLine: edge },
     series: [{
       type: 'custom', name: 'Residuals', data: bins.map((b) => [b.from, b.to, b.count]), encode: { x: [0, 1], y: 2 },
       renderItem: (_params, api) => {

@@ -111,14 +111,16 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
   const xAxis = (gridIndex: number, named: boolean) => ({
     type: 'log' as const, gridIndex, min, max, logBase: 10,
     name: named ? PERIOD_AXIS : '', nameLocation: 'middle' as const, nameGap: 26,
-    axisLabel: { show: true, formatter: (v: number) => formatPeriod(v).replace(/\.0+$/, '') },
+    axisLabel: { show: true, formatter: (v: number) => String(Number(formatPeriod(v))) },
     splitLine: { lineStyle: { color: '#eceff1' } }, minorSplitLine: { show: false },
   })
-  const fapLines = run.result.fapLevels.map((l) => ({
+  // Labels staggered along the lines: the three levels lie close together.
+  const labelPositions = ['insideStartTop', 'insideMiddleTop', 'insideEndTop'] as const
+  const fapLines = run.result.fapLevels.map((l, i) => ({
     yAxis: l.power,
     name: `FAP ${fapLabel(l.fap)}`,
     lineStyle: { color: FAP_COLORS[String(l.fap)] ?? '#777', type: 'dashed' as const, width: 1.2 },
-    label: { formatter: `FAP ${fapLabel(l.fap)}`, position: 'insideEndTop' as const, color: FAP_COLORS[String(l.fap)] ?? '#777', fontSize: 11 },
+    label: { formatter: `FAP ${fapLabel(l.fap)}`, position: labelPositions[i % 3], color: FAP_COLORS[String(l.fap)] ?? '#777', fontSize: 11 },
   }))
   const planetLines = (input.planetPeriods ?? []).filter((p) => p >= min && p <= max).map((p) => ({
     xAxis: p, lineStyle: { color: '#2e7d4f', type: 'dotted' as const, width: 1.5 },
