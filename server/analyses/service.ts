@@ -4,7 +4,7 @@ import type { Star, User } from '../db/models.ts'
 import { analysisModels, type FitModel, type FitModelVersion, type PeriodogramRun } from '../db/models-analysis.ts'
 import { ConflictError, NotFoundError, ValidationError } from '../errors.ts'
 import { record } from '../audit/service.ts'
-import { defaultPool, type ComputePool } from '../compute/pool.ts'
+import { ComputeError, defaultPool, type ComputePool } from '../compute/pool.ts'
 import { contentHash, loadRv, selectRows, selection, starRows } from './data.ts'
 import { fitJson, specFromFit } from './fit-json.ts'
 import type {
@@ -106,7 +106,7 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
     center, instrument: inst ? Int32Array.from(inst) : undefined,
   }).catch((err: unknown) => {
     // the numerical core names the offending option (e.g. a grid too large)
-    if (err instanceof Error && /RangeError/.test((err as { remoteName?: string }).remoteName ?? '')) {
+    if (err instanceof ComputeError && err.remoteName === 'RangeError') {
       const field = /minPeriod|maxPeriod|oversample/.exec(err.message)?.[0] ?? 'oversample'
       throw new ValidationError(`${field}: ${err.message}`, field)
     }
@@ -281,6 +281,11 @@ export async function fitModel(s: Services, actor: User, star: Star, model: FitM
   const nParamsMin = spec.planets.length * 5 + 2
   const { data, ids, selection: sel } = await loadRv(s, star, spec.instruments, 'spec.instruments', Math.max(nParamsMin, 3))
   const out = await pool(s).run('fit', { data, planets: spec.planets, trend: spec.trend, maxIterations: req.maxIterations })
+    .catch((err: unknown) => {
+      // the fitter names the offending option (a prior on a fixed parameter, a fixed phase without a value…)
+      if (err instanceof ComputeError && err.remoteName === 'RangeError') throw new ValidationError(`spec: ${err.message}`, 'spec')
+      throw err
+    })
   const result = fitJson(out.fit, data, ids, star, sel)
   const status = out.fit.status === 'failed' ? 'failed' : 'fitted'
   await s.sequelize.transaction(async (transaction) => {

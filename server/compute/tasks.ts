@@ -115,14 +115,15 @@ export type PlainFit = Omit<FitResult, 'history'>
 export interface FitOutput { fit: PlainFit; starts: PlanetStart[] }
 
 function orbitOf(p: PlanetStart): Keplerian | null {
-  if (p.tc === undefined && p.tp === undefined) return null
+  if ((p.tc === undefined && p.tp === undefined) || !Number.isFinite(p.K)) return null
   const e = p.e ?? 0, omega = ((p.omegaDeg ?? 90) * Math.PI) / 180
   return { period: p.period, K: p.K, e, omega, tp: p.tp ?? tcToTp(p.tc!, p.period, e, omega) }
 }
 
 /**
- * Fits a model spec: planets given without a phase (tc/tp) get their starting e, ω and phase from
- * the exact linear scan of `planetStarts`, with the other planets subtracted; then one ML/MAP
+ * Fits a model spec: planets given without a phase (tc/tp) or without K get their starting K, e, ω
+ * and phase from the exact linear scan of `planetStarts` (given values are kept), with the other
+ * planets subtracted; then one ML/MAP
  * fit (`fitKeplerians`, Ford 2006 likelihood with jitters).
  */
 export function fitTask(inp: FitInput): FitOutput {
@@ -131,18 +132,20 @@ export function fitTask(inp: FitInput): FitOutput {
   for (const t of data.t) epoch += t
   epoch /= Math.max(1, data.t.length)
   const starts: PlanetStart[] = inp.planets.map((p) => ({
-    period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp, fix: p.fix,
+    period: p.period, K: p.K ?? NaN, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp, fix: p.fix,
   }))
   starts.forEach((s, k) => {
-    if (s.tc !== undefined || s.tp !== undefined) return
+    if ((s.tc !== undefined || s.tp !== undefined) && Number.isFinite(s.K)) return
     const others = starts.filter((_, j) => j !== k).map(orbitOf).filter((o): o is Keplerian => o !== null)
     const [best] = planetStarts(data, s.period, { others, trend: inp.trend, epoch, count: 1 })
-    if (!best) return
-    const keepShape = s.e !== undefined && s.omegaDeg !== undefined
+    if (!best) { if (!Number.isFinite(s.K)) starts[k] = { ...s, K: 1 }; return }
+    const hasPhase = s.tc !== undefined || s.tp !== undefined
+    const keepShape = hasPhase || (s.e !== undefined && s.omegaDeg !== undefined)
     starts[k] = {
-      ...s, tc: best.tc, tp: best.tc === undefined ? best.tp : undefined,
+      ...s,
+      tc: hasPhase ? s.tc : best.tc, tp: hasPhase ? s.tp : best.tc === undefined ? best.tp : undefined,
       e: keepShape ? s.e : best.e, omegaDeg: keepShape ? s.omegaDeg : best.omegaDeg,
-      K: s.fix?.includes('K') ? s.K : best.K,
+      K: Number.isFinite(s.K) ? s.K : best.K,
     }
   })
   const priors: Prior[] = []

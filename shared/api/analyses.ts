@@ -119,10 +119,13 @@ export const priorSpecSchema = z.object({
 })
 export type PriorSpec = z.infer<typeof priorSpecSchema>
 
-/** Start (or fixed) values of one planet; give tc or tp (tc wins), neither → chosen from the data's phase. */
+/**
+ * Start (or fixed) values of one planet. Only the period is required: without K or a phase (tc or
+ * tp; tc wins), K, e, ω and the phase are taken from a scan of the data at that period.
+ */
 export const planetSpecSchema = z.object({
   period: positive(),
-  K: z.number().finite().min(0, 'must not be negative'),
+  K: z.number().finite().min(0, 'must not be negative').optional(),
   e: z.number().min(0, 'must be in [0, 0.99)').lt(0.99, 'must be in [0, 0.99)').optional(),
   omegaDeg: z.number().finite().optional(),
   tc: z.number().finite().optional(),

@@ -174,7 +174,9 @@ describe('the two-planet demo star (Vela Sorrel)', () => {
   })
 
   it('the residual periodogram of a one-planet model shows the other planet as its top peak', async () => {
-    const one = await fitted('One planet', { planets: [{ period: 187, K: 14 }] })
+    // only the period, as from a clicked periodogram peak: K, e, ω and the phase come from the data
+    const one = await fitted('One planet', { planets: [{ period: 186 }] })
+    expect(Math.abs(one.current.result!.planets[0]!.period - 187)).toBeLessThan(2)
     oneId = one.id
     expect(one.current.status).toBe('fitted')
     const res = await a.post(`/api/stars/${vela}/periodograms`, { kind: 'residuals', modelVersionId: one.current.id }).expect(201)
