@@ -23,7 +23,7 @@ const envSchema = z.object({
   JOB_STALE_SECONDS: z.coerce.number().positive().default(30),
   JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(100).default(5),
   SAMPLING_CHECKPOINT_STEPS: z.coerce.number().int().positive().default(250),
-  SAMPLING_CHECKPOINT_MIN_SECONDS: z.coerce.number().min(0).default(5),
+  SAMPLING_CHECKPOINT_MIN_SECONDS: z.coerce.number().min(0).default(10),
 })
 
 export interface Config {

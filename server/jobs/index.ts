@@ -15,7 +15,7 @@ export interface JobWorkerOptions {
   staleSeconds?: number
   /** Steps between the checkpoints of a sampling run. */
   checkpointEvery?: number
-  /** Least time between checkpoints, ms (default from the config: 5 s). */
+  /** Least time between checkpoints, ms (default from the config: 10 s). */
   checkpointMinMs?: number
   /** Queue polling interval, seconds (pg-boss minimum 0.5). */
   pollingIntervalSeconds?: number

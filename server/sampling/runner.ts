@@ -174,7 +174,7 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
 }
 
 /** E-mails the requester that the run finished (a failure to send is logged, never fatal). */
-async function notify(s: Services, run: SamplingRun): Promise<void> {
+export async function notify(s: Services, run: SamplingRun): Promise<void> {
   if (!run.requestedBy) return
   const user = await s.models.User.findByPk(run.requestedBy)
   const star = await s.models.Star.findByPk(run.starId)

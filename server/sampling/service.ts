@@ -13,6 +13,7 @@ import { record } from '../audit/service.ts'
 import { createJobSender, SAMPLING_QUEUE } from '../jobs/boss.ts'
 import { createLogPosterior, type PosteriorSpec } from '../../shared/rv/posterior.ts'
 import { rvDataOf } from './thread.ts'
+import { notify } from './runner.ts'
 import {
   SAMPLING_DEFAULTS, type SamplingRun as SamplingRunJson, type SamplingRunSummary, type SamplingSettings, type StartSamplingRequest,
   type SamplingEvent,
@@ -216,10 +217,11 @@ export async function reapStaleRuns(s: Services, boss: PgBoss, staleSeconds: num
       if (after && after.state !== 'failed') continue
     }
     // no job left to retry (out of retries, or it vanished): the run ends here
-    await SamplingRun.update(
+    const [n] = await SamplingRun.update(
       { state: 'failed', finishedAt: new Date(), error: `The worker running this job was lost ${r.attempts} time(s) and the job is out of retries; start a new run.` },
       { where: { id: r.id, state: 'running' } },
     )
+    if (n) await notify(s, (await SamplingRun.findByPk(r.id))!)
   }
   return stale.length
 }
