@@ -218,6 +218,45 @@ describe('the two-planet demo star (Vela Sorrel)', () => {
   })
 })
 
+describe('data selection, fixed parameters, priors and warnings', () => {
+  it('honours instrument choice and exclusions, and the content hash follows the data', async () => {
+    const corvin = t.seed!.starIds!["Corvin's Lamp"]!
+    const kestrel = (await a.post(`/api/stars/${vela}/periodograms`, { kind: 'rv', instruments: ['Kestrel'], oversample: 3 }).expect(201)).body as PeriodogramRun
+    expect(kestrel.data.nPoints).toBe(114) // fixtures/demo/README.md: Kestrel 114
+    expect(kestrel.data.instruments).toEqual(['Kestrel'])
+    expect(kestrel.settings.instruments).toEqual(['Kestrel'])
+    const before = (await a.post(`/api/stars/${corvin}/periodograms`, { kind: 'rv', oversample: 3 }).expect(201)).body as PeriodogramRun
+    expect(before.data.nPoints).toBe(129) // fixtures/demo/README.md: 129 velocities
+    const again = (await a.post(`/api/stars/${corvin}/periodograms`, { kind: 'rv', oversample: 3 }).expect(201)).body as PeriodogramRun
+    expect(again.data.hash).toBe(before.data.hash)
+    const m = (await a.get(`/api/stars/${corvin}/measurements`).expect(200)).body[5]
+    await a.patch(`/api/measurements/${m.id}`, { excluded: true, reason: 'test: cosmic ray' }).expect(200)
+    const after = (await a.post(`/api/stars/${corvin}/periodograms`, { kind: 'rv', oversample: 3 }).expect(201)).body as PeriodogramRun
+    expect(after.data.nPoints).toBe(128)
+    expect(after.data.nExcluded).toBe(1)
+    expect(after.data.hash).not.toBe(before.data.hash)
+  })
+
+  it('keeps fixed parameters at their values, applies priors, and warns about a period beyond the baseline', async () => {
+    const m = await fitted('Fixed and priors', {
+      planets: [
+        { period: 187, e: 0, omegaDeg: 90, fix: ['e', 'omegaDeg'] },
+        { period: 12.4, priors: [{ param: 'period', gaussian: { mu: 12.4, sigma: 0.001 } }] },
+        { period: 3000, K: 1, fix: ['period'] },
+      ],
+    })
+    const [outer, inner, far] = m.current.result!.planets
+    expect(outer!.e).toBe(0)
+    expect(outer!.uncertainty.e).toBe(0)
+    // a prior much tighter than the data's own constraint (± 0.0015 d from the free fit) pulls the period to it
+    expect(Math.abs(inner!.period - 12.4)).toBeLessThan(0.002)
+    expect(far!.period).toBe(3000)
+    const warn = m.current.result!.warnings.find((w) => w.code === 'period_beyond_baseline')
+    expect(warn?.planet).toBe(2)
+    expect(warn?.message).toMatch(/longer than/)
+  })
+})
+
 describe('the active demo star (Tarn Meridian)', () => {
   it('an activity indicator\'s periodogram peaks near the rotation period', async () => {
     const res = await a.post(`/api/stars/${tarn}/periodograms`, { kind: 'indicator', indicator: 'bisector_span', maxPeriod: 200 })
