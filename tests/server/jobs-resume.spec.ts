@@ -74,5 +74,5 @@ describe('a worker killed mid-run', () => {
     expect(run.result!.parameters).toEqual(JSON.parse(JSON.stringify(whole.parameters)))
     const shown = await w.reviewer.get(`/api/sampling/${id}`).expect(200)
     expect(shown.body).toMatchObject({ attempts: 2, state: 'succeeded', resumedFromStep: run.resumedFromStep })
-  })
+  }, 120_000) // a second Node process starts from the TypeScript sources: slow on a busy machine
 })

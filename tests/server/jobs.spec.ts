@@ -16,7 +16,7 @@ afterAll(async () => {
   await w?.t.close()
 })
 
-describe('sampling jobs', () => {
+describe('sampling jobs', { timeout: 60_000 }, () => {
   it('runs to completion, stores the result with its settings and mails the requester a link', async () => {
     const t0 = Date.now()
     const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps: 600, seed: 11 })
