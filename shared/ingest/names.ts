@@ -55,8 +55,8 @@ const INSTRUMENT = new Set(['inst', 'instrument', 'instr', 'instrumentname', 'in
 const ERROR_TOKENS = new Set(['err', 'error', 'errors', 'sigma', 'sig', 'unc', 'uncertainty', 'e', 'eps', 'sd', 'std', 'stddev', 'dev'])
 const TIME_COMPACT = new Set(['t', 'time', 'jd', 'bjd', 'hjd', 'mjd', 'rjd', 'date', 'epoch', 'days', 'day', 'obstime', 'obsdate', 'btjd', 'bjdtdb', 'jdutc', 'bjdutc', 'hjdutc', 'jdtdb', 'julian', 'julianday', 'juliandate', 'dateobs', 'mjdobs', 'timebjd'])
 const TIME_START = /^(?:time|bjd|hjd|mjd|rjd|jd|date|epoch|julian)/
-const RV_COMPACT = new Set(['rv', 'vrad', 'radvel', 'vr', 'v', 'vel', 'velocity', 'rvel', 'radialvelocity', 'rvc', 'rvcorr', 'vhelio', 'vbary', 'rvs', 'vhel', 'vbar', 'rvbary'])
-const RV_START = /^(?:rv|vrad|radvel|radialvel|velocity)/
+const RV_COMPACT = new Set(['rv', 'vrad', 'vr', 'v', 'vel', 'velocity', 'rvel', 'radialvelocity', 'rvc', 'rvcorr', 'vhelio', 'vbary', 'rvs', 'vhel', 'vbar', 'rvbary'])
+const RV_START = /^(?:rv|vrad|radialvel|velocity)/
 
 /** Known activity indicator of a compact name, if any. */
 function indicatorOf(compact: string): string | undefined {
@@ -87,11 +87,11 @@ function splitError(tokens: string[]): { hasErr: boolean; base: string } {
   const post = /^(.+?)(?:err|error|sigma|sig|unc)$/.exec(base)
   if (pre) { hasErr = true; base = pre[1]! }
   else if (post) { hasErr = true; base = post[1]! }
-  else if (/^[esd](?:rv|vr|vrad|vel|radvel)$/.test(base)) { hasErr = true; base = base.slice(1) }
+  else if (/^[esd](?:rv|vr|vrad|vel)$/.test(base)) { hasErr = true; base = base.slice(1) }
   return { hasErr, base }
 }
 
-const RV_BASE = /^(?:rv|vr|vrad|v|vel|radvel|velocity|rvel)$/
+const RV_BASE = /^(?:rv|vr|vrad|v|vel|velocity|rvel)$/
 
 /** Read a header name: its likely role, indicator key, unit and time scale. */
 export function readName(raw: string): NameReading {

@@ -147,7 +147,7 @@ describe('column roles', () => {
   const byName: Array<[string, string[]]> = [
     ['BJD RV eRV', ['time', 'rv', 'error']],
     ['bjd_tdb vrad e_vrad', ['time', 'rv', 'error']],
-    ['JD radvel sigma_rv', ['time', 'rv', 'error']],
+    ['JD radialvel sigma_rv', ['time', 'rv', 'error']],
     ['date velocity uncertainty', ['time', 'rv', 'error']],
     ['t v e', ['time', 'rv', 'error']],
     ['time_jd rv_kms err_kms', ['time', 'rv', 'error']],

@@ -6,7 +6,7 @@ describe('header names', () => {
   const roles: Array<[string, string | null, string?]> = [
     ['time', 'time'], ['t', 'time'], ['JD', 'time'], ['BJD_TDB', 'time'], ['HJD', 'time'], ['MJD', 'time'],
     ['rjd', 'time'], ['Date', 'time'], ['epoch', 'time'], ['Time (BJD-2450000)', 'time'], ['t_bjd', 'time'],
-    ['rv', 'rv'], ['RV [m/s]', 'rv'], ['vrad', 'rv'], ['radvel', 'rv'], ['Vr', 'rv'], ['v', 'rv'],
+    ['rv', 'rv'], ['RV [m/s]', 'rv'], ['vrad', 'rv'], ['Vr', 'rv'], ['v', 'rv'],
     ['velocity', 'rv'], ['rv_kms', 'rv'], ['RV (km s-1)', 'rv'],
     ['err', 'error'], ['error', 'error'], ['sigma', 'error'], ['sig', 'error'], ['e', 'error'], ['e_rv', 'error'],
     ['eRV', 'error'], ['sRV', 'error'], ['sigma_RV [m/s]', 'error'], ['σRV', 'error'], ['rv_err', 'error'],
