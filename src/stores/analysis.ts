@@ -3,7 +3,7 @@ import { computed, reactive, ref } from 'vue'
 import * as api from '@/api/analyses.ts'
 import { modelSpecSchema } from '@shared/api/analyses.ts'
 import type {
-  CompareResponse, ModelDetail, ModelSpecInput, ModelSummary, PeriodogramRun, RunPeriodogramRequest, SearchResponse,
+  CompareResponse, ModelDetail, ModelSpecInput, ModelVersion, ModelSummary, PeriodogramRun, RunPeriodogramRequest, SearchResponse,
 } from '@shared/api/analyses.ts'
 import {
   defaultModelName, planetForm, planetFormFromFit, specToForm, type ModelForm,
@@ -181,6 +181,16 @@ export const useAnalysisStore = defineStore('analysis', () => {
     return found
   }
 
+  const versionLoad = asyncState<ModelVersion>()
+  /** Puts the spec of an older version of the selected model into the form (a fit then adds a new version). */
+  async function loadVersion(modelId: number, version: number) {
+    const v = await track(versionLoad, () => api.fetchModelVersion(modelId, version))
+    if (v) {
+      form.value = specToForm(v.name, v.spec, instruments)
+      formModelId.value = modelId
+    }
+  }
+
   async function duplicate(modelId: number) {
     const copy = await track(fitting, () => api.duplicateModel(modelId))
     if (copy) {
@@ -200,6 +210,6 @@ export const useAnalysisStore = defineStore('analysis', () => {
 
   return {
     rv, residuals, indicators, settings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
-    fitted, load, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
+    versionLoad, fitted, load, loadVersion, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
   }
 })
