@@ -8,9 +8,10 @@ export type SamplingState = z.infer<typeof samplingStateSchema>
 /** States after which a run never changes again. */
 export const SAMPLING_DONE_STATES: readonly SamplingState[] = ['succeeded', 'failed', 'cancelled']
 
-export const SAMPLING_DEFAULTS = { walkers: 32, steps: 5000, seed: 1, thin: 1 } as const
+/** Defaults of a run: walkers max(32, 2 × sampled parameters), burn steps / 4, seed drawn at random (and stored). */
+export const SAMPLING_DEFAULTS = { walkers: 32, steps: 5000, thin: 1 } as const
 
-/** Body of POST /api/models/:modelId/sampling; every field optional (defaults above; burn = steps / 4). */
+/** Body of POST /api/models/:modelId/sampling; every field optional (see SAMPLING_DEFAULTS). */
 export const startSamplingRequestSchema = z.object({
   walkers: z.number().int().min(4).max(512).refine((v) => v % 2 === 0, 'must be even').optional(),
   steps: z.number().int().min(20).max(200_000).optional(),

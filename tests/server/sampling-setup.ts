@@ -13,7 +13,7 @@ export const EMAIL = {
   analyst: 'tomas.analyst@lanternfield.test', owner: 'nadia.owner@lanternfield.test',
 }
 
-/** n points of one Keplerian-free sinusoid (e = 0 circular orbit, P = 12.3 d, K = 30 m/s) plus 3 m/s noise, seeded. */
+/** n velocities of one planet on a circular orbit (a sinusoid, P = 12.3 d, K = 30 m/s) plus 3 m/s Gaussian noise, seeded: this test's own data. */
 export function syntheticTable(n: number, seed = 7): string {
   const rnd = createRandom(seed)
   const lines = ['# bjd rv err']
