@@ -17,9 +17,9 @@ export function sampledParameterCount(result: Pick<FitResultJson, 'planets' | 'i
   return 5 * result.planets.length + result.instruments.length + result.instruments.filter((i) => i.jitter !== null).length + trend
 }
 
-/** The server's default: at least 32 walkers and twice the number of sampled parameters, even. */
+/** At least 32 walkers and twice the number of sampled parameters (always even). */
 export function defaultWalkers(nDim: number): number {
-  return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim + (nDim % 2))
+  return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim)
 }
 
 export interface LauncherInput { walkers: string; steps: string; seed: string }
