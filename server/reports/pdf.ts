@@ -1,3 +1,4 @@
+/// <reference path="../../types/vendor.d.ts" />
 // The PDF of one frozen report version: pdfkit with the app's Roboto font, the plots drawn from
 // ECharts SSR SVGs by svg-to-pdfkit (vector paths and text).
 import { createRequire } from 'node:module'

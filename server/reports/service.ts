@@ -100,7 +100,7 @@ export async function reportDetail(s: Services, id: number, viewer: User, role: 
   const analyst = ROLE_RANK[role] >= ROLE_RANK.analyst
   const current = versions.find((v) => v.version === report.currentVersion)
   return {
-    id: report.id, starId: report.starId, starName: star?.name ?? '', modelId: report.modelId, title: report.title, currentVersion: report.currentVersion,
+    id: report.id, teamId: star?.teamId ?? 0, starId: report.starId, starName: star?.name ?? '', modelId: report.modelId, title: report.title, currentVersion: report.currentVersion,
     createdBy: ref(report.creator), createdAt: iso(report.createdAt),
     versions: items,
     shares: shares.map((sh): Share => ({ id: sh.id, user: ref(sh.user), email: sh.email, invited: sh.invitationId !== null, sharedBy: ref(sh.sharer), version: sh.version, createdAt: iso(sh.createdAt) })),

@@ -122,7 +122,7 @@ export const reportVersionItemSchema = z.object({
 export type ReportVersionItem = z.infer<typeof reportVersionItemSchema>
 
 export interface ReportDetail {
-  id: number; starId: number; starName: string; modelId: number; title: string; currentVersion: number
+  id: number; teamId: number; starId: number; starName: string; modelId: number; title: string; currentVersion: number
   createdBy: UserRef | null; createdAt: string
   /** true on POST when a new version was frozen (false: nothing changed since the latest one). */
   created?: boolean

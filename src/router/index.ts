@@ -21,6 +21,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/stars/:starId(\\d+)', name: 'star', component: () => import('@/views/StarView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/stars/:starId(\\d+)/add-data', name: 'add-data', component: () => import('@/views/AddDataView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/stars/:starId(\\d+)/analysis', name: 'analysis', component: () => import('@/views/AnalysisView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
+  { path: '/reports/:reportId(\\d+)', name: 'report', component: () => import('@/views/ReportView.vue'), props: (r) => ({ reportId: Number(r.params.reportId) }) },
   { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { public: true } },
 ]
 
