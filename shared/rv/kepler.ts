@@ -6,12 +6,13 @@
  * step (Danby 1988, *Fundamentals of Celestial Mechanics*) then runs only if the residual
  * still exceeds the tolerance, so the result always meets |E − e sin E − M| < 1e-12.
  * Many M at one e (the array forms and the RV model) go through a per-e table instead (see
- * `keplerTabled`): no transcendental call per solve, the same residual check and fallback.
+ * `solveTabled`): no transcendental call per solve, the same residual check and fallback.
  * Relations between anomalies follow Murray & Dermott 1999, *Solar System Dynamics*, §2.4.
  */
 
 const TWO_PI = 2 * Math.PI
 const PI2 = Math.PI * Math.PI
+const INV_TWO_PI = 1 / TWO_PI
 /** Residual tolerance on Kepler's equation, radians. */
 export const KEPLER_TOLERANCE = 1e-12
 
@@ -129,7 +130,7 @@ for (let j = 0; j < TABLE_NODES; j++) { SIN_C[j] = Math.sin((j + 0.5) * TABLE_H)
 const T_MB = new Float64Array(TABLE_NODES + 1)
 const T_MC = new Float64Array(TABLE_NODES)
 const T_ES = new Float64Array(TABLE_NODES), T_EC = new Float64Array(TABLE_NODES)
-const T_INV = new Float64Array(TABLE_NODES), T_P = new Float64Array(TABLE_NODES), T_R = new Float64Array(TABLE_NODES)
+const T_INV = new Float64Array(TABLE_NODES), T_P = new Float64Array(TABLE_NODES), T_R = new Float64Array(TABLE_NODES), T_W = new Float64Array(TABLE_NODES)
 const T_BIN = new Int32Array(TABLE_BINS + 1)
 let tableE = NaN
 
@@ -144,7 +145,9 @@ function prepareTable(e: number): void {
     const p = 0.5 * es * inv
     T_MC[j] = (j + 0.5) * TABLE_H - es
     T_ES[j] = es; T_EC[j] = ec; T_INV[j] = inv; T_P[j] = p
-    T_R[j] = 2 * p * p - ec * inv / 6
+    const q = ec * inv / 6
+    T_R[j] = 2 * p * p - q
+    T_W[j] = p * (5 * q - 5 * p * p) + es * inv / 24
   }
   let j = 0
   for (let b = 0; b <= TABLE_BINS; b++) {
@@ -155,59 +158,75 @@ function prepareTable(e: number): void {
   tableE = e
 }
 
+/** Largest correction step for which the second-order angle-sum update of sin d, cos d is exact to 1e-16. */
+const STEP_MAX = 2e-5
+
 /**
- * E for a reduced mean anomaly m ∈ [0, π] from the table of `prepareTable(e)`: cubic series
- * reversion of f about the interval's centre as the starter, then one fourth-order correction
- * (the Halley step fed into Markley's 1995 form, as in `keplerCore`); sin E and cos E by the
- * angle-sum rule, left in SINCOS. The residual is checked, and `keplerCore` (Markley 1995 with the
- * Newton fallback) takes over in the rare case it is not below the tolerance.
+ * Solves Kepler's equation for M[0..n) at one e from the table of `prepareTable(e)`, writing E (on
+ * M's revolution) into `outE` and sin E, cos E into `outSin`, `outCos`, each when given (any may
+ * alias `M`). Per solve: the interval of |M| reduced to [0, π] from the bins, a quartic series
+ * reversion of f about the interval's centre as the starter, one Halley step (Danby 1988, §6.6),
+ * sin d and cos d by Taylor series updated by the angle-sum rule. The residual |f| is then
+ * evaluated; if it is not below KEPLER_TOLERANCE (or the step was too large for the series), that
+ * point goes to `keplerCore` (Markley 1995 with the Newton fallback). Over 0 ≤ e ≤ 0.99 the residual
+ * stays below 1e-16 and no point falls back (tests/shared/rv/kepler-table.spec.ts).
+ *
+ * The solve is written out inside the loop on purpose: a per-point call would box its double
+ * argument and result on the heap.
  */
-function keplerTabled(m: number, e: number): number {
-  let j = T_BIN[(m * BIN_SCALE) | 0]
-  while (T_MB[j + 1] <= m) j++
-  const es = T_ES[j], ec = T_EC[j]
-  const dM = m - T_MC[j]
-  const x = dM * T_INV[j]
-  let d = x * (1 - x * (T_P[j] - x * T_R[j]))
-  // sin d and 1 − cos d by Taylor series: |d| ≲ TABLE_H/2 = 0.0245, truncation below 1e-20
-  let d2 = d * d
-  let sd = d * (1 - d2 * (1 / 6 - d2 * (1 / 120 - d2 / 5040)))
-  let vd = d2 * (0.5 - d2 * (1 / 24 - d2 * (1 / 720 - d2 / 40320)))
-  const f0 = d - dM + es * vd - ec * sd
-  const f1 = 1 + es * sd - ec * (1 - vd)
-  const f2 = es * (1 - vd) + ec * sd
-  const f3 = ec * (1 - vd) - es * sd
-  const d3 = -f0 * f1 / (f1 * f1 - 0.5 * f0 * f2)
-  d += -f0 / (f1 + 0.5 * d3 * f2 + d3 * d3 * f3 / 6)
-  d2 = d * d
-  sd = d * (1 - d2 * (1 / 6 - d2 * (1 / 120 - d2 / 5040)))
-  vd = d2 * (0.5 - d2 * (1 / 24 - d2 * (1 / 720 - d2 / 40320)))
-  const res = d - dM + es * vd - ec * sd
-  if (!(Math.abs(res) < KEPLER_TOLERANCE && Math.abs(d) < TABLE_H)) return keplerCore(m, e, ALPHA0, ALPHA1 / (1 + e))
-  const s = SIN_C[j], c = COS_C[j]
-  const cd = 1 - vd
-  SINCOS.sin = s * cd + c * sd
-  SINCOS.cos = c * cd - s * sd
-  return (j + 0.5) * TABLE_H + d
+function solveTabled(M: Float64Array, n: number, e: number, outE: Float64Array | null, outSin: Float64Array | null, outCos: Float64Array | null): void {
+  for (let i = 0; i < n; i++) {
+    const Mi = M[i]
+    const mSigned = Mi - TWO_PI * Math.floor(Mi * INV_TWO_PI + 0.5) // in [−π, π] up to rounding
+    const sg = Math.sign(mSigned)
+    const m = Math.abs(mSigned)
+    let j = T_BIN[(m * BIN_SCALE) | 0]
+    while (T_MB[j + 1] <= m) j++
+    const es = T_ES[j], ec = T_EC[j]
+    const dM = m - T_MC[j]
+    const x = dM * T_INV[j]
+    let d = x * (1 - x * (T_P[j] - x * (T_R[j] + x * T_W[j])))
+    // sin d and 1 − cos d by Taylor series: |d| ≲ TABLE_H/2 = 0.0245, truncation below 1e-20
+    const d2 = d * d
+    let sd = d * (1 - d2 * (1 / 6 - d2 * (1 / 120 - d2 / 5040)))
+    let vd = d2 * (0.5 - d2 * (1 / 24 - d2 * (1 / 720 - d2 / 40320)))
+    const f0 = d - dM + es * vd - ec * sd
+    const f1 = 1 + es * sd - ec * (1 - vd)
+    const f2 = es * (1 - vd) + ec * sd
+    const step = f0 * f1 / (f1 * f1 - 0.5 * f0 * f2) // Halley: f0/(f1 − ½ f0 f2/f1), one division
+    d -= step
+    // sin and 1 − cos of d − step by the angle-sum rule, to second order in the small step
+    const cd0 = 1 - vd, h2 = 0.5 * step * step, sd0 = sd
+    sd = sd0 - step * cd0 - h2 * sd0
+    vd = vd - step * sd0 + h2 * cd0
+    const res = d - dM + es * vd - ec * sd
+    let E: number, sinE: number, cosE: number
+    if (Math.abs(res) < KEPLER_TOLERANCE && Math.abs(d) < TABLE_H && Math.abs(step) < STEP_MAX) {
+      const s = SIN_C[j], c = COS_C[j], cd = 1 - vd
+      E = (j + 0.5) * TABLE_H + d
+      sinE = s * cd + c * sd
+      cosE = c * cd - s * sd
+    } else {
+      E = keplerCore(m, e, ALPHA0, ALPHA1 / (1 + e))
+      sinE = SINCOS.sin; cosE = SINCOS.cos
+    }
+    if (outE !== null) outE[i] = Mi - mSigned + sg * E
+    if (outSin !== null) outSin[i] = sg * sinE
+    if (outCos !== null) outCos[i] = cosE
+  }
 }
 
 /**
- * Internal fast path for many M at one e (the RV model over all times of a planet): after
- * `keplerPrepare(e)`, `keplerPrepared(M, e)` returns E (any range of M, on its reduced revolution;
- * no checks) and leaves sin E, cos E in SINCOS. The table stays valid until `keplerPrepare` is
- * called with another e; 0 ≤ e < 1 is the caller's to ensure.
+ * Internal fast path for the RV model: sin E and cos E for M[0..n) at one e (0 ≤ e < 1, M finite
+ * or NaN; not checked), written into `sinE` and `cosE` (either may alias `M`). No allocation.
  */
-export function keplerPrepare(e: number): void {
+export function keplerSinCosArray(M: Float64Array, n: number, e: number, sinE: Float64Array, cosE: Float64Array): void {
+  if (n < TABLE_MIN_LENGTH) {
+    for (let i = 0; i < n; i++) { keplerReduced(wrapPi(M[i]), e); sinE[i] = SINCOS.sin; cosE[i] = SINCOS.cos }
+    return
+  }
   prepareTable(e)
-}
-
-/** See `keplerPrepare`. */
-export function keplerPrepared(M: number, e: number): number {
-  const m = M >= -Math.PI && M < Math.PI ? M : M - TWO_PI * Math.floor((M + Math.PI) / TWO_PI)
-  if (m >= 0) return keplerTabled(m, e)
-  const E = keplerTabled(-m, e)
-  SINCOS.sin = -SINCOS.sin
-  return -E
+  solveTabled(M, n, e, null, sinE, cosE)
 }
 
 /** Arrays shorter than this are solved point by point (the table costs about as much as a few solves). */
@@ -226,11 +245,7 @@ export function solveKeplerArray(M: Float64Array, e: number, out: Float64Array):
     return out
   }
   prepareTable(e)
-  for (let i = 0; i < M.length; i++) {
-    const Mi = M[i]
-    const m = Mi >= -Math.PI && Mi < Math.PI ? Mi : Mi - TWO_PI * Math.floor((Mi + Math.PI) / TWO_PI)
-    out[i] = m < 0 ? Mi - m - keplerTabled(-m, e) : Mi - m + keplerTabled(m, e)
-  }
+  solveTabled(M, M.length, e, out, null, null)
   return out
 }
 

@@ -7,15 +7,13 @@
  * of the STAR's orbit (the planet's is ω + π), positive velocities receding. Times in days, K in m/s,
  * angles in radians here (degrees only at the API/CLI edge).
  */
-import { keplerUnchecked, keplerPrepare, keplerPrepared, eccentricFromTrue, wrapPi, SINCOS } from './kepler.ts'
+import { keplerUnchecked, keplerSinCosArray, eccentricFromTrue, wrapPi } from './kepler.ts'
 
-// Local references: module-namespace bindings can cost a getter call per access under some loaders.
-const kepler = keplerUnchecked
-const prepare = keplerPrepare
-const keplerAt = keplerPrepared
-const sincos = SINCOS
-/** From this many times on, the solver's per-e table pays for itself (see kepler.ts). */
-const TABLE_MIN_LENGTH = 16
+// Local reference: module-namespace bindings can cost a getter call per access under some loaders.
+const sinCosE = keplerSinCosArray
+
+/** Scratch for mean anomalies and sin E, cos E of one Keplerian; grown (never shrunk) to the longest series. */
+let bufM = new Float64Array(256), bufS = new Float64Array(256), bufC = new Float64Array(256)
 
 const TWO_PI = 2 * Math.PI
 
@@ -56,19 +54,14 @@ export function addKeplerian(t: Float64Array, o: Keplerian, out: Float64Array): 
   // v = K [cos ν cos ω − sin ν sin ω + e cos ω] with cos ν = (cos E − e)/(1 − e cos E) and
   // sin ν = √(1−e²) sin E/(1 − e cos E): one division per time
   const Kecw = K * ecw, Kcw = K * cw, Ksqsw = K * sq * sw
-  if (t.length < TABLE_MIN_LENGTH) {
-    for (let i = 0; i < t.length; i++) {
-      kepler(n * (t[i] - tp), e)
-      const cE = sincos.cos, sE = sincos.sin
-      out[i] += ((cE - e) * Kcw - sE * Ksqsw) / (1 - e * cE) + Kecw
-    }
-    return out
-  }
-  prepare(e)
-  for (let i = 0; i < t.length; i++) {
-    keplerAt(n * (t[i] - tp), e)
-    const cE = sincos.cos, sE = sincos.sin
-    out[i] += ((cE - e) * Kcw - sE * Ksqsw) / (1 - e * cE) + Kecw
+  const len = t.length
+  if (bufM.length < len) { bufM = new Float64Array(len); bufS = new Float64Array(len); bufC = new Float64Array(len) }
+  const Ms = bufM, sinE = bufS, cosE = bufC
+  for (let i = 0; i < len; i++) Ms[i] = n * (t[i] - tp)
+  sinCosE(Ms, len, e, sinE, cosE)
+  for (let i = 0; i < len; i++) {
+    const cE = cosE[i]
+    out[i] += ((cE - e) * Kcw - sinE[i] * Ksqsw) / (1 - e * cE) + Kecw
   }
   return out
 }
