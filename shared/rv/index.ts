@@ -4,13 +4,13 @@ export {
   solveKepler, solveKeplerArray, trueAnomaly, trueAnomalyArray, eccentricFromTrue, wrapPi, KEPLER_TOLERANCE,
 } from './kepler.ts'
 export { type Keplerian, radialVelocity, radialVelocityAt, addKeplerian, tpToTc, tcToTp, nearestEpoch } from './model.ts'
-export { type RvData, type RvRowsInput, toRvData, checkRvData, baseline } from './fit-data.ts'
+export { type RvData, type RvRowsInput, toRvData, checkRvData, baseline } from './orbit-data.ts'
 export {
   type TrendKind, type PlanetParam, type PlanetStart, type Prior, type FitOptions, type PlanetFit,
   type InstrumentFit, type FitStats, type FitResult, fitKeplerians, fitBaseline, jitterMle, E_MAX,
-} from './fit.ts'
-export { type StartOptions, type ScoredStart, planetStarts } from './fit-start.ts'
-export { type SearchOptions, type SearchStep, type SearchResult, searchPlanets } from './search.ts'
+} from './orbit-fit.ts'
+export { type StartOptions, type ScoredStart, planetStarts } from './orbit-start.ts'
+export { type SearchOptions, type SearchStep, type SearchResult, searchPlanets } from './signal-search.ts'
 export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiMajorAxis, derivedPlanet } from './derived.ts'
 export * from './periodogram.ts'
 export {

@@ -7,8 +7,8 @@
  * summaries (median, 16th and 84th percentiles, mean, sd) of every fitted and derived quantity:
  * M sin i and a with the stellar mass drawn from its error for every draw.
  */
-import { fitKeplerians, type FitOptions, type FitResult } from './fit.ts'
-import type { RvData } from './fit-data.ts'
+import { fitKeplerians, type FitOptions, type FitResult } from './orbit-fit.ts'
+import type { RvData } from './orbit-data.ts'
 import { nearestEpoch, tcToTp } from './model.ts'
 import { minimumMass, semiMajorAxis } from './derived.ts'
 import { createLogPosterior, specFromFit, samplingScales, planetLabel, type SamplingPrior } from './posterior.ts'

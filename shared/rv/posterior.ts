@@ -30,8 +30,8 @@
  * (`addKeplerian`), per-row constants precomputed.
  */
 import { addKeplerian, tcToTp, tpToTc, nearestEpoch, type Keplerian } from './model.ts'
-import { checkRvData, type RvData } from './fit-data.ts'
-import { E_MAX, type TrendKind, type FitResult } from './fit.ts'
+import { checkRvData, type RvData } from './orbit-data.ts'
+import { E_MAX, type TrendKind, type FitResult } from './orbit-fit.ts'
 
 const TWO_PI = 2 * Math.PI
 const DEG = Math.PI / 180

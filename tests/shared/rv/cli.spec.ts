@@ -6,7 +6,7 @@ import { fileURLToPath } from 'node:url'
 import { spawnSync } from 'node:child_process'
 import { expectClose } from '../../helpers/expect-close.ts'
 import { main } from '../../../scripts/cli.ts'
-import { synth } from './fit-helpers.ts'
+import { synth } from './orbit-fit-helpers.ts'
 
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url))
 const published = (f: string): string => join(ROOT, 'fixtures', 'published', f)

@@ -2,11 +2,11 @@ import { describe, it, expect } from 'vitest'
 import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { samplePosterior, type SampleResult } from '../../../shared/rv/mcmc.ts'
-import { fitKeplerians } from '../../../shared/rv/fit.ts'
+import { fitKeplerians } from '../../../shared/rv/orbit-fit.ts'
 import { derivedPlanet } from '../../../shared/rv/derived.ts'
 import { stateToJson, stateFromJson, type SamplerState } from '../../../shared/rv/sampler.ts'
 import { expectClose } from '../../helpers/expect-close.ts'
-import { synth } from './fit-helpers.ts'
+import { synth } from './orbit-fit-helpers.ts'
 
 const get = (r: SampleResult, name: string) => {
   const p = r.parameters.find((q) => q.name === name)

@@ -2,11 +2,11 @@ import { describe, it, expect } from 'vitest'
 import { createLogPosterior, specFromFit, samplingScales } from '../../../shared/rv/posterior.ts'
 import { runEnsemble } from '../../../shared/rv/sampler.ts'
 import { integratedTime } from '../../../shared/rv/diagnostics.ts'
-import { fitKeplerians } from '../../../shared/rv/fit.ts'
+import { fitKeplerians } from '../../../shared/rv/orbit-fit.ts'
 import { radialVelocity, tcToTp } from '../../../shared/rv/model.ts'
 import { createRandom } from '../../../shared/math/random.ts'
 import { expectClose } from '../../helpers/expect-close.ts'
-import { synth } from './fit-helpers.ts'
+import { synth } from './orbit-fit-helpers.ts'
 
 const DEG = Math.PI / 180
 

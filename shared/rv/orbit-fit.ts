@@ -25,7 +25,7 @@
  */
 import { addKeplerian, tcToTp, tpToTc, nearestEpoch, type Keplerian } from './model.ts'
 import { cholesky, choleskySolve, invertSymmetric } from './linalg.ts'
-import { checkRvData, baseline, type RvData } from './fit-data.ts'
+import { checkRvData, baseline, type RvData } from './orbit-data.ts'
 
 const TWO_PI = 2 * Math.PI
 const DEG = Math.PI / 180

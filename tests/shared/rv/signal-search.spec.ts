@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest'
-import { searchPlanets } from '../../../shared/rv/search.ts'
-import { synth, withinSigma } from './fit-helpers.ts'
+import { searchPlanets } from '../../../shared/rv/signal-search.ts'
+import { synth, withinSigma } from './orbit-fit-helpers.ts'
 
 const DEG = Math.PI / 180
 

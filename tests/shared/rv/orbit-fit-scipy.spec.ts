@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest'
 import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { expectClose } from '../../helpers/expect-close.ts'
-import { fitKeplerians } from '../../../shared/rv/fit.ts'
+import { fitKeplerians } from '../../../shared/rv/orbit-fit.ts'
 
 // Reference: fixtures/fit/scipy-one-planet.json, written by scripts/reference/fit_reference.py with
 // scipy's least_squares (method 'lm'); errors from inv(JᵀJ) of the whitened residuals (no jitter).

@@ -7,10 +7,10 @@
  * scale of Kass & Raftery 1995; among trends the lowest BIC wins.
  */
 import { periodogram, findPeaks } from './periodogram.ts'
-import { fitKeplerians, type FitResult, type PlanetStart, type TrendKind } from './fit.ts'
-import { planetStarts, type ScoredStart } from './fit-start.ts'
+import { fitKeplerians, type FitResult, type PlanetStart, type TrendKind } from './orbit-fit.ts'
+import { planetStarts, type ScoredStart } from './orbit-start.ts'
 import { tcToTp, type Keplerian } from './model.ts'
-import { checkRvData, type RvData } from './fit-data.ts'
+import { checkRvData, type RvData } from './orbit-data.ts'
 
 export interface SearchOptions {
   /** 'auto' (default): stop by FAP and BIC; a number: exactly that many planets. */

@@ -14,8 +14,8 @@ import { keplerUnchecked, SINCOS } from './kepler.ts'
 const kepler = keplerUnchecked
 const sincos = SINCOS
 import { cholesky, choleskySolve } from './linalg.ts'
-import type { RvData } from './fit-data.ts'
-import type { PlanetStart, TrendKind } from './fit.ts'
+import type { RvData } from './orbit-data.ts'
+import type { PlanetStart, TrendKind } from './orbit-fit.ts'
 
 const TWO_PI = 2 * Math.PI
 

@@ -1,8 +1,8 @@
 import { describe, it, expect } from 'vitest'
 import { expectClose } from '../../helpers/expect-close.ts'
-import { fitKeplerians, jitterMle, E_MAX } from '../../../shared/rv/fit.ts'
+import { fitKeplerians, jitterMle, E_MAX } from '../../../shared/rv/orbit-fit.ts'
 import { tpToTc } from '../../../shared/rv/model.ts'
-import { synth, withinSigma } from './fit-helpers.ts'
+import { synth, withinSigma } from './orbit-fit-helpers.ts'
 
 const DEG = Math.PI / 180
 const truth = { period: 37.3, K: 12, e: 0.35, omega: 65 * DEG, tp: 2455010 }

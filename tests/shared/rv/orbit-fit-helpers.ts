@@ -1,7 +1,7 @@
 /** Seeded synthetic velocity series for the fit and search tests. */
 import { createRandom } from '../../../shared/math/random.ts'
 import { radialVelocity, type Keplerian } from '../../../shared/rv/model.ts'
-import type { RvData } from '../../../shared/rv/fit-data.ts'
+import type { RvData } from '../../../shared/rv/orbit-data.ts'
 
 export interface SynthInstrument { name: string; offset: number; jitter: number; err: [number, number] }
 
