@@ -1,5 +1,5 @@
 // Solar System planets for the period–mass chart: sidereal orbital periods in days and masses in
-// Earth masses, rounded. Values from NASA's planetary fact sheet, written from memory (common practice
+// Earth masses, rounded. Standard planetary fact-sheet values, written from memory (common practice
 // reference values; good to the few per cent the chart can show).
 export interface ReferencePlanet { name: string; periodDays: number; massEarth: number }
 
