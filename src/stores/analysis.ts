@@ -50,7 +50,7 @@ export const useAnalysisStore = defineStore('analysis', () => {
   }
 
   /** Opens a star: its models and comparison, and the newest saved periodograms. */
-  async function load(id: number, names: string[]) {
+  async function load(id: number, names: string[], canRun = false) {
     if (starId !== id) reset(id, names)
     else { instruments = [...names]; if (form.value.instruments.length === 0) form.value.instruments = [...names] }
     await Promise.all([
@@ -58,13 +58,26 @@ export const useAnalysisStore = defineStore('analysis', () => {
       track(compare, () => api.compareModels(id)),
       loadSavedPeriodograms(id),
     ])
+    // Opening a star with saved work shows its preferred (or newest fitted) model.
+    const pick = compare.data?.preferredModelId ?? models.data?.find((m) => m.status === 'fitted')?.id
+    if (!selected.data && pick !== undefined && starId === id) await selectModel(pick, canRun)
   }
 
   async function loadSavedPeriodograms(id: number) {
     try {
       const list = await api.listPeriodograms(id)
       const newestRv = list.find((p) => p.kind === 'rv')
-      if (newestRv && !rv.data) await track(rv, () => api.fetchPeriodogram(newestRv.id))
+      const jobs: Promise<unknown>[] = []
+      if (newestRv && !rv.data) jobs.push(track(rv, () => api.fetchPeriodogram(newestRv.id)))
+      const seen = new Set<string>()
+      for (const p of list) {
+        if (p.kind !== 'indicator' || !p.indicator || seen.has(p.indicator)) continue
+        seen.add(p.indicator)
+        const state = asyncState<PeriodogramRun>()
+        indicators[p.indicator] = state
+        jobs.push(track(state, () => api.fetchPeriodogram(p.id)))
+      }
+      await Promise.all(jobs)
     } catch {
       // An empty history is no error for the page; running a periodogram reports its own errors.
     }
@@ -86,6 +99,16 @@ export const useAnalysisStore = defineStore('analysis', () => {
     const version = fitted.value
     if (!version) return null
     return track(residuals, () => api.runPeriodogram(need(), { kind: 'residuals', modelVersionId: version.id, ...settings }))
+  }
+
+  /** The newest saved residual periodogram of the selected version; a new one only when none is saved and the user may run one. */
+  async function showResiduals(canRun: boolean) {
+    const version = fitted.value
+    if (!version) return null
+    const id = need()
+    const saved = await api.listPeriodograms(id).then((list) => list.find((p) => p.kind === 'residuals' && p.modelVersionId === version.id), () => undefined)
+    if (saved) return track(residuals, () => api.fetchPeriodogram(saved.id))
+    return canRun ? runResiduals() : null
   }
 
   /**
@@ -119,12 +142,14 @@ export const useAnalysisStore = defineStore('analysis', () => {
     formModelId.value = detail.id
   }
 
-  async function selectModel(modelId: number) {
+  /** Selects a saved model: its current version fills the form, the plots and the residual periodogram. */
+  async function selectModel(modelId: number, canRun = true) {
     const detail = await track(selected, () => api.fetchModel(modelId))
     if (detail) {
       editFrom(detail)
       residuals.data = null
-      if (detail.current.status === 'fitted') await runResiduals()
+      residuals.error = null
+      if (detail.current.status === 'fitted') await showResiduals(canRun)
     }
   }
 

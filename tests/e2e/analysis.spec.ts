@@ -99,7 +99,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
     expect(await page.locator('[data-test="value-0-e"] input').inputValue()).toBe('0')
     await page.locator('[data-test="fit"]').click()
     const oneFit = page.locator('[data-test="fit-results"][data-status="fitted"][data-planets="1"]')
-    await oneFit.waitFor({ timeout: 45000 })
+    await oneFit.waitFor({ timeout: 90000 })
     expect(nearPlanet(Number(await oneFit.locator('[data-test="planet-result-b"]').getAttribute('data-period')))).toBe(first)
 
     // The residual periodogram shows the other planet.
@@ -119,7 +119,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
     expect(await page.locator('[data-test="model-state"]').innerText()).toContain('New model')
     await page.locator('[data-test="fit"]').click()
     const twoFit = page.locator('[data-test="fit-results"][data-status="fitted"][data-planets="2"]')
-    await twoFit.waitFor({ timeout: 45000 })
+    await twoFit.waitFor({ timeout: 90000 })
     const fitted = await Promise.all(['b', 'c'].map(async (l) => nearPlanet(Number(await twoFit.locator(`[data-test="planet-result-${l}"]`).getAttribute('data-period')))))
     expect(fitted.sort((a, b) => a! - b!)).toEqual(PERIODS)
 
@@ -140,6 +140,12 @@ describe('from velocities to a two-planet solution in the browser', () => {
     await page.locator('[data-test="derived-panel"]').screenshot({ path: join(shots, 'analysis-derived.png') })
     await page.locator('[data-test="compare-table"]').screenshot({ path: join(shots, 'analysis-compare.png') })
     await page.locator('[data-test="model-editor"]').screenshot({ path: join(shots, 'analysis-model-form.png') })
+
+    // Saved work comes back: a fresh visit shows the preferred model, its plots and its residual periodogram.
+    await page.reload()
+    await page.locator('[data-test="fit-results"][data-status="fitted"][data-planets="2"]').waitFor()
+    await page.locator('[data-test="residual-periodogram"][data-ready="true"]').waitFor()
+    await page.locator('[data-test="rv-periodogram"][data-ready="true"]').waitFor()
     expect(pageErrors).toEqual([])
-  }), 120000)
+  }), 240000)
 })
