@@ -110,6 +110,14 @@ export function buildCornerOption(sample: Sample, names: string[], size = 640): 
   const grids: Axis[] = [], xAxis: Axis[] = [], yAxis: Axis[] = []
   const series: Series = []
   const cols = names.map((name) => column(sample, name))
+  // One range per parameter, shared by its column, its row and its histogram, so the grids line up.
+  const ranges = cols.map((c) => {
+    const v = finite(c)
+    const lo = Math.min(...v), hi = Math.max(...v)
+    const pad = (hi - lo) * 0.04 || Math.abs(lo) * 0.01 || 1
+    return v.length ? { min: lo - pad, max: hi + pad } : {}
+  })
+  const ends = { showMinLabel: false, showMaxLabel: false }
   for (let i = 0; i < n; i++) {
     for (let j = 0; j <= i; j++) {
       const g = grids.length
@@ -117,8 +125,8 @@ export function buildCornerOption(sample: Sample, names: string[], size = 640): 
       const xName = names[j]!
       const bottomRow = i === n - 1
       xAxis.push({
-        type: 'value', gridIndex: g, scale: true, splitLine: { show: false }, axisLine: edge, splitNumber: 2,
-        axisLabel: { show: bottomRow, formatter: shortLabel, fontSize: 10, hideOverlap: true, rotate: n > 3 ? 30 : 0 },
+        type: 'value', gridIndex: g, ...ranges[j], splitLine: { show: false }, axisLine: edge, splitNumber: 3,
+        axisLabel: { show: bottomRow, formatter: shortLabel, fontSize: 10, hideOverlap: true, rotate: n > 3 ? 30 : 0, ...ends },
         ...(bottomRow ? { name: axisName(xName, unitOf(sample, xName)), nameLocation: 'middle', nameGap: n > 3 ? 40 : 28, nameTextStyle: { fontSize: 11 } } : {}),
       })
       if (i === j) {
@@ -128,8 +136,8 @@ export function buildCornerOption(sample: Sample, names: string[], size = 640): 
         const yName = names[i]!
         const leftCol = j === 0
         yAxis.push({
-          type: 'value', gridIndex: g, scale: true, splitLine: { show: false }, axisLine: edge, splitNumber: 2,
-          axisLabel: { show: leftCol, formatter: shortLabel, fontSize: 10, hideOverlap: true },
+          type: 'value', gridIndex: g, ...ranges[i], splitLine: { show: false }, axisLine: edge, splitNumber: 3,
+          axisLabel: { show: leftCol, formatter: shortLabel, fontSize: 10, hideOverlap: true, ...ends },
           ...(leftCol ? { name: axisName(yName, unitOf(sample, yName)), nameLocation: 'middle', nameGap: 56, nameTextStyle: { fontSize: 11 } } : {}),
         })
         const xs = cols[j]!, ys = cols[i]!
