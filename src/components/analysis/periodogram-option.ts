@@ -106,7 +106,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
   const top = Math.max(...run.result.curve.power, ...run.result.fapLevels.map((l) => l.power), 0.05)
   const mainHeight = showWindow ? '58%' : undefined
   const grids: NonNullable<EChartsOption['grid']> = showWindow
-    ? [{ left: 72, right: 24, top: compact ? 36 : 48, height: mainHeight }, { left: 72, right: 24, bottom: 56, height: '18%' }]
+    ? [{ left: 72, right: 24, top: compact ? 36 : 48, height: mainHeight }, { left: 72, right: 24, bottom: 64, height: '17%' }]
     : [{ left: 72, right: 24, top: compact ? 36 : 48, bottom: compact ? 48 : 88 }]
   const xAxis = (gridIndex: number, named: boolean) => ({
     type: 'log' as const, gridIndex, min, max, logBase: 10,
