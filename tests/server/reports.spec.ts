@@ -1,9 +1,9 @@
 // Reports: freezing (immutability, versions with a diff), exports (PDF parsed back, LaTeX, CSV,
 // JSON reproducing the model), sharing rules and e-mails through the local SMTP server.
 import { execFileSync } from 'node:child_process'
-import { existsSync, mkdtempSync, writeFileSync, rmSync } from 'node:fs'
+import { existsSync, mkdirSync, mkdtempSync, writeFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join } from 'node:path'
+import { join, resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startTestApp, type TestApp } from '../helpers/app.ts'
 import { signIn, anonymous, type Client } from './client.ts'
@@ -11,6 +11,7 @@ import { expectClose } from '../helpers/expect-close.ts'
 import { modelVelocity } from '../../shared/report/curve.ts'
 import type { ReportDetail, ReportVersion, ReportSnapshot } from '../../shared/api/reports.ts'
 
+const root = resolve(import.meta.dirname, '../..')
 const EMAIL = {
   owner: 'nadia.owner@lanternfield.test', analyst: 'tomas.analyst@lanternfield.test',
   reviewer: 'ines.reviewer@lanternfield.test', outsider: 'piet@quillmere.test',
@@ -182,6 +183,8 @@ describe('exports', () => {
     expect(res.headers['content-type']).toBe('application/pdf')
     const pdf = res.body as Buffer
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-')
+    mkdirSync(join(root, 'out/reports'), { recursive: true })
+    writeFileSync(join(root, 'out/reports/report-v1.pdf'), pdf) // for a look by eye; not read back
     const pages = (pdf.toString('latin1').match(/\/Type \/Page\b/g) ?? []).length
     expect(pages).toBe(5) // summary, data + residuals, phase-folded (2 planets), periodogram, methods
     if (!existsSync('/usr/bin/pdftotext')) {
@@ -280,5 +283,59 @@ describe('sharing and review', () => {
     expect(list.find((r: { id: number }) => r.id === reportId).approvedVersions).toEqual([3])
     const audit = (await reviewer.get(`/api/teams/${t.seed!.teamId}/audit`).expect(200)).body as Array<{ action: string }>
     for (const a of ['report.share', 'report.comment', 'report.approve', 'report.request_changes']) expect(audit.map((x) => x.action)).toContain(a)
+  })
+})
+
+describe('a sampled solution', () => {
+  // A succeeded sampling run of the current version, written straight into sampling_runs (this
+  // test's own numbers; the sampler itself is tested in tests/shared/rv and tests/server/jobs).
+  async function fakeRun(modelVersionId: number, state = 'succeeded'): Promise<number> {
+    const names = ['P b', 'K b', 'e b', 'P c', 'K c', 'e c', 'offset Kestrel', 'jitter Kestrel']
+    const centre = [12.4, 9.4, 0.14, 187, 14.3, 0.25, -12.4, 1.9]
+    const n = 400
+    const columns = centre.map((c, j) => Array.from({ length: n }, (_, i) => c * (1 + 0.01 * Math.sin(i * (j + 1) * 0.37))))
+    const result = {
+      parameters: names.map((name, j) => ({ name, unit: '', median: centre[j]!, lo: centre[j]! * 0.99, hi: centre[j]! * 1.02, mean: centre[j]!, sd: centre[j]! * 0.015 })),
+      sample: { names, units: names.map(() => ''), step: columns[0]!.map((_, i) => i), walker: columns[0]!.map(() => 0), columns },
+      diagnostics: { names, tau: [], nOverTau: [], rhat: [], acceptance: 0.31, acceptanceMin: 0.2, acceptanceMax: 0.4, converged: true, warnings: [] },
+      settings: { seed: 11, walkers: 32, steps: 2000, burn: 500, thin: 2, stepsDone: 2000, stopped: false },
+      start: { lnPosterior: -500, fitStatus: 'converged' },
+    }
+    const [rows] = await t.db.sequelize.query(
+      `INSERT INTO sampling_runs (star_id, model_id, model_version_id, model_version, settings, input, state, result, finished_at, created_at, updated_at)
+       VALUES (:starId, :modelId, :mv, 1, :settings::jsonb, '{}'::jsonb, :state, :result::jsonb, now(), now(), now()) RETURNING id`,
+      { replacements: { starId, modelId, mv: modelVersionId, state, settings: JSON.stringify({ walkers: 32, steps: 2000, burn: 500, thin: 2, seed: 11 }), result: JSON.stringify(result) } },
+    )
+    return (rows as Array<{ id: number }>)[0]!.id
+  }
+
+  it('freezes with the run: intervals in the tables, the sampler in the methods, a posterior page in the PDF', async () => {
+    const current = (await analyst.get(`/api/models/${modelId}`).expect(200)).body.current
+    const failed = await fakeRun(current.id, 'failed')
+    expect((await analyst.post(`/api/models/${modelId}/report`, { samplingRunId: failed }).expect(400)).body.error.field).toBe('samplingRunId')
+    const runId = await fakeRun(current.id)
+    const res = await analyst.post(`/api/models/${modelId}/report`, { samplingRunId: runId }).expect(201)
+    const v = (await reviewer.get(`/api/reports/${reportId}/versions/${res.body.currentVersion}`).expect(200)).body as ReportVersion
+    expect(v.changes.map((c) => c.field)).toContain('sampling.runId')
+    expect(v.snapshot.methods.references.map((r) => r.key)).toContain('GW10')
+    expect(v.snapshot.methods.text).toMatch(/32 walkers for 2000 steps .*seed 11/)
+    const tex = (await reviewer.get(`/api/reports/${reportId}/versions/${v.version}/latex`).expect(200)).text
+    // P b: median 12.4, +0.248 −0.124 → the smaller side 0.124 has digits 124 ≤ 354: two significant
+    // digits, 0.12, so both sides and the value at 0.01 (PDG rule, worked by hand)
+    expect(tex).toContain('$12.40^{+0.25}_{-0.12}$')
+    const pdf = (await reviewer.get(`/api/reports/${reportId}/versions/${v.version}/pdf`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = []
+      r.on('data', (c: Buffer) => chunks.push(c)); r.on('end', () => cb(null, Buffer.concat(chunks)))
+    }).expect(200)).body as Buffer
+    expect((pdf.toString('latin1').match(/\/Type \/Page\b/g) ?? []).length).toBe(6)
+    if (existsSync('/usr/bin/pdftotext')) {
+      const dir = mkdtempSync(join(tmpdir(), 'starsway-pdf-'))
+      try {
+        writeFileSync(join(dir, 'r.pdf'), pdf)
+        const text = execFileSync('/usr/bin/pdftotext', [join(dir, 'r.pdf'), '-'], { timeout: 30_000 }).toString()
+        expect(text).toMatch(/Posterior median/)
+        expect(text).toMatch(/Goodman/)
+      } finally { rmSync(dir, { recursive: true, force: true }) }
+    } else console.log('pdftotext is missing: checked the sampled PDF\'s page count only.')
   })
 })
