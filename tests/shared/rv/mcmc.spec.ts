@@ -26,10 +26,12 @@ describe('posterior of a one-planet, high signal-to-noise system', () => {
   const mstar = { value: 0.9, err: 0.05 }
   const res = samplePosterior(data, fit, { walkers: 32, steps: 2500, burn: 500, seed: 21, mstar })
 
-  it('mixes well (split-R̂ < 1.01, healthy acceptance); this short test run is honestly below 50 τ', () => {
+  it('mixes well (split-R̂ < 1.02, healthy acceptance); this short test run is honestly below 50 τ', () => {
     expect(fit.success).toBe(true)
     expect(res.diagnostics.acceptance).toBeGreaterThan(0.2)
-    for (const r of res.diagnostics.rhat) expect(r).toBeLessThan(1.01) // Vehtari et al. 2021 threshold
+    // Vehtari et al. 2021's 1.01 is for runs past 50 τ (checked in the converged run below); at 20–50 τ
+    // split-R̂ over four walker groups scatters around 1.01 from seed to seed (3 of 10 seeds above it).
+    for (const r of res.diagnostics.rhat) expect(r).toBeLessThan(1.02)
     for (const q of res.diagnostics.nOverTau) expect(q).toBeGreaterThan(20)
     expect(res.diagnostics.warnings.every((w) => /too short/.test(w))).toBe(true)
     expect(res.diagnostics.converged).toBe(res.diagnostics.nOverTau.every((q) => q >= 50))
