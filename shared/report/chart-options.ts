@@ -2,6 +2,7 @@
 // SVG for the PDF on the server (server/reports/charts.ts).
 import type { ReportSnapshot, SnapshotPeriodogram } from '../api/reports.ts'
 import { keplerianVelocity, trendVelocity } from './curve.ts'
+import { formatPlain } from './round.ts'
 
 export type Option = Record<string, unknown>
 const COLORS = ['#1565c0', '#c62828', '#2e7d32', '#ef6c00', '#6a1b9a', '#00838f', '#5d4037', '#ad1457']
@@ -28,7 +29,7 @@ export function timeSeriesOption(s: ReportSnapshot): Option {
   const used = s.data.points.filter((p) => p.included)
   const lo = Math.min(...used.map((p) => p.time)), hi = Math.max(...used.map((p) => p.time))
   const pad = 0.02 * (hi - lo || 1)
-  const g = grid(1500, lo - pad, hi + pad)
+  const g = grid(3000, lo - pad, hi + pad)
   const kep = keplerianVelocity(s.result, g), tr = trendVelocity(s.result, g)
   const series: Option[] = s.data.instruments.map((name) => ({
     type: 'scatter', name, symbolSize: 5,
@@ -39,8 +40,8 @@ export function timeSeriesOption(s: ReportSnapshot): Option {
   series.push({ type: 'line', name: 'model', showSymbol: false, lineStyle: { width: 1.2, color: '#212121' }, data: g.map((x, i) => [x - t0, kep[i]! + tr[i]!]) })
   return {
     ...base, title: title('Radial velocities and the model'), legend: { bottom: 0, textStyle: { fontSize: 10 } },
-    grid: { left: 60, right: 20, top: 30, bottom: 55 },
-    xAxis: { type: 'value', name: `JD − ${t0}`, nameLocation: 'middle', nameGap: 22, scale: true },
+    grid: { left: 60, right: 20, top: 30, bottom: 68 },
+    xAxis: { type: 'value', name: `JD − ${t0}`, nameLocation: 'middle', nameGap: 22, min: Math.floor(lo - pad - t0), max: Math.ceil(hi + pad - t0) },
     yAxis: { type: 'value', name: 'RV (m/s)', nameLocation: 'middle', nameGap: 42, scale: true },
     series,
   }
@@ -51,7 +52,7 @@ export function residualsOption(s: ReportSnapshot): Option {
   const used = s.data.points.filter((p) => p.included && p.residual !== null)
   return {
     ...base, title: title(`Residuals (rms ${s.result.stats.rms?.toFixed(2) ?? '—'} m/s)`), legend: { bottom: 0, textStyle: { fontSize: 10 } },
-    grid: { left: 60, right: 20, top: 30, bottom: 55 },
+    grid: { left: 60, right: 20, top: 30, bottom: 68 },
     xAxis: { type: 'value', name: `JD − ${t0}`, nameLocation: 'middle', nameGap: 22, scale: true },
     yAxis: { type: 'value', name: 'O − C (m/s)', nameLocation: 'middle', nameGap: 42, scale: true },
     series: s.data.instruments.map((name) => ({
@@ -74,7 +75,7 @@ export function phaseOption(s: ReportSnapshot, k: number): Option {
   const curve = keplerianVelocity(s.result, g.map((f) => p.tc + f * p.period), k)
   return {
     ...base, title: title(`Planet ${p.label}: P = ${p.period.toPrecision(6)} d, phase-folded`), legend: { bottom: 0, textStyle: { fontSize: 10 } },
-    grid: { left: 60, right: 20, top: 30, bottom: 55 },
+    grid: { left: 60, right: 20, top: 30, bottom: 68 },
     xAxis: { type: 'value', name: 'Phase from Tc', nameLocation: 'middle', nameGap: 22, min: 0, max: 1 },
     yAxis: { type: 'value', name: 'RV (m/s)', nameLocation: 'middle', nameGap: 42, scale: true },
     series: [
@@ -92,7 +93,10 @@ export function periodogramOption(pg: SnapshotPeriodogram, label: string): Optio
   return {
     ...base, title: title(label), legend: { show: false },
     grid: { left: 60, right: 20, top: 30, bottom: 40 },
-    xAxis: { type: 'log', name: 'Period (d)', nameLocation: 'middle', nameGap: 22, min: pg.curve.period[0], max: pg.curve.period[pg.curve.period.length - 1] },
+    xAxis: {
+      type: 'log', name: 'Period (d)', nameLocation: 'middle', nameGap: 22, min: pg.curve.period[0], max: pg.curve.period[pg.curve.period.length - 1],
+      axisLabel: { formatter: (v: number) => formatPlain(v, 3) },
+    },
     yAxis: { type: 'value', name: 'Power', nameLocation: 'middle', nameGap: 42, min: 0 },
     series: [{
       type: 'line', showSymbol: false, lineStyle: { width: 0.8, color: COLORS[0] },
