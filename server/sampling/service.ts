@@ -212,11 +212,21 @@ export async function reapStaleRuns(s: Services, boss: PgBoss, staleSeconds: num
     const job = r.job_id ? await boss.getJobById(SAMPLING_QUEUE, r.job_id) : null
     if (job && (job.state === 'created' || job.state === 'retry')) continue // already waiting for a worker
     if (job && job.state === 'active') {
+      // another reaper (another process) may have been quicker: only fail a job whose run is still silent
+      const still = await SamplingRun.count({ where: { id: r.id, state: 'running', jobId: r.job_id, heartbeatAt: { [Op.lt]: new Date(Date.now() - staleSeconds * 1000) } } })
+      if (!still) continue
       await boss.fail(SAMPLING_QUEUE, r.job_id!, { message: `worker lost (no heartbeat for ${staleSeconds} s)` })
       const after = await boss.getJobById(SAMPLING_QUEUE, r.job_id!)
       if (after && after.state !== 'failed') continue
+    } else if (!job || job.state === 'completed' || job.state === 'cancelled') {
+      // the job ended although the run did not (a race between workers): queue a fresh one, within the retry limit
+      if (r.attempts <= s.config.jobs.retryLimit) {
+        const jobId = await boss.send(SAMPLING_QUEUE, { runId: r.id }, samplingJobOptions(s))
+        await SamplingRun.update({ jobId }, { where: { id: r.id, state: 'running' } })
+        continue
+      }
     }
-    // no job left to retry (out of retries, or it vanished): the run ends here
+    // out of retries: the run ends here
     const [n] = await SamplingRun.update(
       { state: 'failed', finishedAt: new Date(), error: `The worker running this job was lost ${r.attempts} time(s) and the job is out of retries; start a new run.` },
       { where: { id: r.id, state: 'running' } },
