@@ -116,7 +116,7 @@ export function latexTables(s: ReportSnapshot): string {
   })
   const trendRows = rows.filter((r) => r.planet === null)
   const parts = [
-    `% ${s.star.name}: ${s.model.name}, model version ${s.model.version}; frozen ${s.frozenAt} (data ${s.data.hash.slice(0, 12)}).`,
+    `% ${`${s.star.name}: ${s.model.name}`.replace(/[\r\n]+/g, ' ')}, model version ${s.model.version}; frozen ${s.frozenAt} (data ${s.data.hash.slice(0, 12)}).`,
     `% Values ${sampled ? 'are posterior medians with 16th--84th percentile intervals' : 'are maximum-likelihood fits with 1-sigma errors'}, rounded by their uncertainty.`,
     tabular({ align: 'l' + 'c'.repeat(quantities.length), header, rows: body }),
     '',
