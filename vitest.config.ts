@@ -10,7 +10,7 @@ export default mergeConfig(viteConfig, defineConfig({
     include: ['tests/**/*.spec.ts'],
     globalSetup: ['tests/helpers/global-setup.ts'],
     server: { deps: { inline: ['vuetify'] } },
-    testTimeout: 30000,
+    testTimeout: 60000,
     hookTimeout: 60000,
     pool: 'forks',
     maxWorkers: 2,

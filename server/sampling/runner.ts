@@ -179,7 +179,7 @@ export async function notify(s: Services, run: SamplingRun): Promise<void> {
   const user = await s.models.User.findByPk(run.requestedBy)
   const star = await s.models.Star.findByPk(run.starId)
   if (!user || !star) return
-  const link = `${s.config.appUrl}/stars/${run.starId}?sampling=${run.id}`
+  const link = `${s.config.appUrl}/stars/${run.starId}/analysis?sampling=${run.id}`
   const ok = run.state === 'succeeded'
   const conv = ok && run.result ? (run.result.diagnostics.converged ? 'The chains converged.' : 'The chains did NOT converge: read the warnings before using the intervals.') : ''
   const text = ok

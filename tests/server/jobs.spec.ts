@@ -41,7 +41,7 @@ describe('sampling jobs', { timeout: 60_000 }, () => {
     expect(shown.body.requestedBy.name).toBeTruthy()
     const mail = await w.t.mail.waitFor((m) => m.subject.includes(`run ${run.id}`), 10_000)
     expect(mail.to).toContain('tomas.analyst@lanternfield.test')
-    expect(mail.text).toContain(`${w.t.config.appUrl}/stars/${w.starId}?sampling=${run.id}`)
+    expect(mail.text).toContain(`${w.t.config.appUrl}/stars/${w.starId}/analysis?sampling=${run.id}`)
     expect(mail.subject).toMatch(/finished/)
     const audit = await w.owner.get(`/api/teams/${w.teamId}/audit`).expect(200)
     expect(audit.body.some((a: { action: string; entityId: number }) => a.action === 'sampling.start' && a.entityId === run.id)).toBe(true)
