@@ -1,11 +1,5 @@
 // Web Worker: the band of posterior model curves, off the main thread.
-import { computeBand, type BandInput } from './posterior-band.ts'
+import { computeBand } from './posterior-band.ts'
+import { serveWorker } from './rpc.ts'
 
-self.onmessage = (event: MessageEvent<{ id: number; input: BandInput }>) => {
-  const { id, input } = event.data
-  try {
-    self.postMessage({ id, output: computeBand(input) })
-  } catch (error) {
-    self.postMessage({ id, error: (error as Error).message })
-  }
-}
+serveWorker(computeBand)
