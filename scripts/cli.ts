@@ -14,6 +14,7 @@
  */
 import { readFileSync } from 'node:fs'
 import { pathToFileURL } from 'node:url'
+import { roundByUncertainty } from '../shared/report/round.ts'
 import {
   decodeTableBytes, detectTable, parseTable, formatProblems, IngestError,
   type DetectHints, type TimeFormat, type VelocityUnit,
@@ -238,10 +239,16 @@ function runFit(p: Parsed, io: CliIo): void {
   }
   if (p.json) { io.out(JSON.stringify(doc)); return }
   io.out(`${p.file}: ${input.rows} rows, instruments ${input.instruments.join(', ')}, unit ${input.unit}, time ${input.timeFormat}, baseline ${fmt(input.baselineDays)} d`)
-  io.out(`model: ${planetsOut.length} Keplerian(s), trend ${fit.trend ? fit.trend.kind : 'none'}; ${fit.converged ? 'converged' : `NOT converged (${fit.message})`}`)
+  io.out(`model: ${planetsOut.length} Keplerian${planetsOut.length === 1 ? '' : 's'}, trend ${fit.trend ? fit.trend.kind : 'none'}; ${fit.converged ? 'converged' : `NOT converged (${fit.message})`}`)
   io.out('')
   if (planetsOut.length) {
-    const pm = (v: number | null, e: number | null): string => (v === null ? '—' : e === null ? fmt(v) : `${fmt(v)} ± ${fmt(e)}`)
+    // values rounded by their uncertainty for reading (the JSON keeps full precision)
+    const pm = (v: number | null, e: number | null): string => {
+      if (v === null) return '—'
+      if (e === null || !(e > 0) || !Number.isFinite(e)) return fmt(v)
+      const r = roundByUncertainty(v, e)
+      return `${r.value} ± ${r.error}`
+    }
     io.out(table(planetsOut.map((q, i) => [
       i + 1, pm(q.period, q.uncertainty.period), pm(q.K, q.uncertainty.K), pm(q.e, q.uncertainty.e),
       pm(q.omegaDeg, q.uncertainty.omegaDeg), pm(q.tp, q.uncertainty.tp), fmt(q.tc),
