@@ -3,56 +3,29 @@
 // P = 12.4 d and 187 d), run the periodogram, add its top peak as a planet, fit, find the other
 // planet in the residual periodogram, add it, fit again, and see the comparison prefer two planets.
 // Debian's Chromium via playwright-core; the app runs in-process on its own database.
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { mkdirSync } from 'node:fs'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { chromium, type BrowserContext, type Page } from 'playwright-core'
-import { startTestApp, type TestApp } from '../helpers/app.ts'
+import type { Page } from 'playwright-core'
+import type { TestApp } from '../helpers/app.ts'
+import { openBrowser, shots, type BrowserHarness } from '../helpers/browser.ts'
 
-const root = resolve(import.meta.dirname, '../..')
-const dist = join(root, 'dist')
-const shots = join(root, 'out/e2e')
 /** The demo star's planets (fixtures/demo/README.md, invented and simulated). */
 const PERIODS = [12.4, 187]
 
+let browser: BrowserHarness
 let app: TestApp
-let context: BrowserContext
 let page: Page
-let profile: string
-const pageErrors: string[] = []
-const consoleErrors: string[] = []
+let pageErrors: string[]
 
 beforeAll(async () => {
-  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/ is missing: run `npx vite build` first (the test command does)')
-  app = await startTestApp({ seed: true, listen: true, distDir: dist })
-  profile = mkdtempSync(join(tmpdir(), 'starsway-pw-'))
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync'],
-  })
-  page = context.pages()[0] ?? await context.newPage()
-  page.setDefaultTimeout(30000)
-  page.on('pageerror', (e) => pageErrors.push(e.message))
-  page.on('console', (m) => { if (m.type() === 'error') consoleErrors.push(m.text()) })
+  browser = await openBrowser()
+  ;({ app, page, pageErrors } = browser)
 }, 60000)
 
-afterAll(async () => {
-  await context?.close()
-  if (profile) rmSync(profile, { recursive: true, force: true })
-  await app?.close()
-})
+afterAll(async () => { await browser?.close() })
 
-async function scenario(name: string, body: () => Promise<void>) {
-  try {
-    await body()
-  } catch (error) {
-    mkdirSync(shots, { recursive: true })
-    await page.screenshot({ path: join(shots, `${name}-failure.png`), fullPage: true }).catch(() => {})
-    throw new Error(`${(error as Error).message}\nat ${page.url()}; page errors: ${JSON.stringify(pageErrors)}; console errors: ${JSON.stringify(consoleErrors)}`, { cause: error })
-  }
-}
+const scenario = (name: string, body: () => Promise<void>) => browser.scenario(name, body)
 
 /** True when `period` lies within 3 % of one of the demo planets' periods. */
 function nearPlanet(period: number): number | undefined {
@@ -63,9 +36,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
   it('periodogram → top peak → fit → residual peak → second planet → fit → comparison prefers two planets', () => scenario('analysis', async () => {
     mkdirSync(shots, { recursive: true })
     await page.goto(`${app.baseUrl}/stars`, { waitUntil: 'domcontentloaded' })
-    await page.locator('input[name="email"]').fill('tomas.analyst@lanternfield.test')
-    await page.locator('input[name="password"]').fill('starsway-demo')
-    await page.locator('[data-test="sign-in-submit"]').click()
+    await browser.signIn('tomas.analyst@lanternfield.test')
     await page.locator('[data-test="star-table"] tbody a', { hasText: 'Vela Sorrel' }).click()
     await page.locator('[data-test="star-name"]', { hasText: 'Vela Sorrel' }).waitFor()
     await page.locator('[data-test="open-analysis"]').click()

@@ -3,66 +3,38 @@
 // fixtures/demo/README.md's P = 12.4 d and 187 d) and shares it with the demo reviewer; the reviewer
 // opens the e-mailed link, signs in, comments and approves; the analyst sees the approval.
 // Debian's Chromium via playwright-core; the app runs in-process on its own database.
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { mkdirSync } from 'node:fs'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { chromium, type BrowserContext, type Page } from 'playwright-core'
-import { startTestApp, type TestApp } from '../helpers/app.ts'
+import type { BrowserContext, Page } from 'playwright-core'
+import type { TestApp } from '../helpers/app.ts'
+import { openBrowser, shots, type BrowserHarness } from '../helpers/browser.ts'
 import { signIn } from '../server/client.ts'
 
-const root = resolve(import.meta.dirname, '../..')
-const dist = process.env.STARSWAY_DIST ?? join(root, 'dist')
-const shots = join(root, 'out/e2e')
 const ANALYST = 'tomas.analyst@lanternfield.test'
 const REVIEWER = 'ines.reviewer@lanternfield.test'
 const SPEC = { planets: [{ period: 12.4, K: 9, e: 0.1, omegaDeg: 40 }, { period: 187, K: 14, e: 0.25, omegaDeg: 210 }], trend: 'none' }
 
+let browser: BrowserHarness
 let app: TestApp
 let context: BrowserContext
 let page: Page
-let profile: string
-const pageErrors: string[] = []
+let pageErrors: string[]
 
 beforeAll(async () => {
-  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/ is missing: run `npx vite build` first (the test command does)')
-  app = await startTestApp({ seed: true, listen: true, distDir: dist })
+  browser = await openBrowser({ distDir: process.env.STARSWAY_DIST })
+  ;({ app, context, page, pageErrors } = browser)
   // the demo solution: the two-planet model fitted through the API
   const analyst = await signIn(app.app, ANALYST)
   const starId = app.seed!.starIds!['Vela Sorrel']!
   const model = (await analyst.post(`/api/stars/${starId}/models`, { name: 'Demo solution', spec: SPEC }).expect(201)).body.id
   await analyst.post(`/api/models/${model}/fit`, {}).expect(200)
-  profile = mkdtempSync(join(tmpdir(), 'starsway-pw-'))
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  })
-  page = context.pages()[0] ?? await context.newPage()
-  page.setDefaultTimeout(30000)
-  page.on('pageerror', (e) => pageErrors.push(e.message))
 }, 120000)
 
-afterAll(async () => {
-  await context?.close()
-  if (profile) rmSync(profile, { recursive: true, force: true })
-  await app?.close()
-})
+afterAll(async () => { await browser?.close() })
 
-async function scenario(name: string, body: () => Promise<void>) {
-  try {
-    await body()
-  } catch (error) {
-    mkdirSync(shots, { recursive: true })
-    await page.screenshot({ path: join(shots, `${name}-failure.png`), fullPage: true }).catch(() => {})
-    throw new Error(`${(error as Error).message}\nat ${page.url()}; page errors: ${JSON.stringify(pageErrors)}`, { cause: error })
-  }
-}
-
-async function signInAs(email: string) {
-  await page.locator('input[name="email"]').fill(email)
-  await page.locator('input[name="password"]').fill('starsway-demo')
-  await page.locator('[data-test="sign-in-submit"]').click()
-}
+const scenario = (name: string, body: () => Promise<void>) => browser.scenario(name, body)
+const signInAs = (email: string) => browser.signIn(email)
 
 describe('a report reviewed in the browser', () => {
   it('analyst freezes and shares; reviewer opens the e-mailed link, comments and approves; analyst sees the approval', () => scenario('report', async () => {

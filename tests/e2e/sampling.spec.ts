@@ -3,69 +3,42 @@
 // "Vela Sorrel" (fixtures/demo/README.md), starts a short run, watches it finish and reads the
 // credible intervals and the corner plot; the demo reviewer sees the run but no start or cancel.
 // Debian's Chromium via playwright-core.
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { mkdirSync } from 'node:fs'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { chromium, type BrowserContext, type Page } from 'playwright-core'
-import { startTestApp, type TestApp } from '../helpers/app.ts'
+import type { BrowserContext, Page } from 'playwright-core'
+import type { TestApp } from '../helpers/app.ts'
+import { openBrowser, shots, type BrowserHarness } from '../helpers/browser.ts'
 import { startJobWorkers, type JobWorkers } from '../../server/jobs/index.ts'
 import { createMailer } from '../../server/mail/mailer.ts'
 import type { Services } from '../../server/services.ts'
 
-const root = resolve(import.meta.dirname, '../..')
-const dist = join(root, 'dist')
-const shots = join(root, 'out/e2e')
-
+let browser: BrowserHarness
 let app: TestApp
 let services: Services
 let workers: JobWorkers
 let context: BrowserContext
 let page: Page
-let profile: string
-const pageErrors: string[] = []
-const consoleErrors: string[] = []
+let pageErrors: string[]
 
 beforeAll(async () => {
-  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/ is missing: run `npx vite build` first (the test command does)')
-  app = await startTestApp({ seed: true, listen: true, distDir: dist })
+  browser = await openBrowser()
+  ;({ app, context, page, pageErrors } = browser)
   services = { config: app.config, sequelize: app.db.sequelize, models: app.models, mailer: createMailer(app.config.smtp) }
   workers = await startJobWorkers(services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 10 })
-  profile = mkdtempSync(join(tmpdir(), 'starsway-pw-'))
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync'],
-  })
-  page = context.pages()[0] ?? await context.newPage()
-  page.setDefaultTimeout(30000)
-  page.on('pageerror', (e) => pageErrors.push(e.message))
-  page.on('console', (m) => { if (m.type() === 'error') consoleErrors.push(m.text()) })
 }, 90000)
 
 afterAll(async () => {
-  await context?.close()
-  if (profile) rmSync(profile, { recursive: true, force: true })
   await workers?.stop()
   services?.mailer.close()
-  await app?.close()
+  await browser?.close()
 })
 
-async function scenario(name: string, body: () => Promise<void>) {
-  try {
-    await body()
-  } catch (error) {
-    mkdirSync(shots, { recursive: true })
-    await page.screenshot({ path: join(shots, `${name}-failure.png`), fullPage: true }).catch(() => {})
-    throw new Error(`${(error as Error).message}\nat ${page.url()}; page errors: ${JSON.stringify(pageErrors)}; console errors: ${JSON.stringify(consoleErrors)}`, { cause: error })
-  }
-}
+const scenario = (name: string, body: () => Promise<void>) => browser.scenario(name, body)
 
 async function signInAndOpen(email: string) {
   await page.goto(`${app.baseUrl}/stars`, { waitUntil: 'domcontentloaded' })
-  await page.locator('input[name="email"]').fill(email)
-  await page.locator('input[name="password"]').fill('starsway-demo')
-  await page.locator('[data-test="sign-in-submit"]').click()
+  await browser.signIn(email)
   await page.locator('[data-test="star-table"] tbody a', { hasText: 'Vela Sorrel' }).click()
   await page.locator('[data-test="star-name"]', { hasText: 'Vela Sorrel' }).waitFor()
   await page.locator('[data-test="open-analysis"]').click()

@@ -2,67 +2,37 @@
 // the demo analyst, create a star, add a published table through the wizard, see every point in the
 // chart and the table, exclude one point and see the chart count it. Debian's Chromium via
 // playwright-core; the app runs in-process on its own database and mail server.
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
+import { mkdirSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { chromium, type BrowserContext, type Page } from 'playwright-core'
-import { startTestApp, type TestApp } from '../helpers/app.ts'
+import type { Page } from 'playwright-core'
+import type { TestApp } from '../helpers/app.ts'
+import { openBrowser, shots, type BrowserHarness } from '../helpers/browser.ts'
 
 const root = resolve(import.meta.dirname, '../..')
-const dist = join(root, 'dist')
 /** HD 20868, HARPS, 48 rows in km/s (fixtures/published/README.md gives the source). */
 const table = join(root, 'fixtures/published/hd20868-harps.txt')
-const shots = join(root, 'out/e2e')
 
+let browser: BrowserHarness
 let app: TestApp
-let context: BrowserContext
 let page: Page
-let profile: string
-const pageErrors: string[] = []
-/** Console errors (a signed-out `me` logs a 401, so these are reported on failure, not asserted). */
-const consoleErrors: string[] = []
+let pageErrors: string[]
 
 beforeAll(async () => {
-  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/ is missing: run `npx vite build` first (the test command does)')
-  app = await startTestApp({ seed: true, listen: true, distDir: dist })
-  profile = mkdtempSync(join(tmpdir(), 'starsway-pw-'))
-  context = await chromium.launchPersistentContext(profile, {
-    executablePath: '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 },
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync'],
-  })
-  page = context.pages()[0] ?? await context.newPage()
-  page.setDefaultTimeout(20000)
-  page.on('pageerror', (e) => pageErrors.push(e.message))
-  page.on('console', (m) => { if (m.type() === 'error') consoleErrors.push(m.text()) })
+  browser = await openBrowser({ timeout: 20000 })
+  ;({ app, page, pageErrors } = browser)
 })
 
-afterAll(async () => {
-  await context?.close()
-  if (profile) rmSync(profile, { recursive: true, force: true })
-  await app?.close()
-})
+afterAll(async () => { await browser?.close() })
 
-/** Runs a browser scenario; on failure leaves a screenshot and the page's errors beside the others. */
-async function scenario(name: string, body: () => Promise<void>) {
-  try {
-    await body()
-  } catch (error) {
-    mkdirSync(shots, { recursive: true })
-    await page.screenshot({ path: join(shots, `${name}-failure.png`), fullPage: true }).catch(() => {})
-    throw new Error(`${(error as Error).message}\nat ${page.url()}; page errors: ${JSON.stringify(pageErrors)}; console errors: ${JSON.stringify(consoleErrors)}`, { cause: error })
-  }
-}
+const scenario = (name: string, body: () => Promise<void>) => browser.scenario(name, body)
 
 describe('adding a velocity table in the browser', () => {
   it('signs in, uploads 48 km/s rows through the wizard, shows them all, and counts an excluded point', () => scenario('upload', async () => {
     await page.goto(`${app.baseUrl}/stars`, { waitUntil: 'domcontentloaded' })
     await page.locator('input[name="email"]').waitFor()
     expect(new URL(page.url()).pathname).toBe('/sign-in')
-    await page.locator('input[name="email"]').fill('tomas.analyst@lanternfield.test')
-    await page.locator('input[name="password"]').fill('starsway-demo')
-    await page.locator('[data-test="sign-in-submit"]').click()
+    await browser.signIn('tomas.analyst@lanternfield.test')
     await page.locator('[data-test="star-table"] tbody a').first().waitFor()
     mkdirSync(shots, { recursive: true })
 
