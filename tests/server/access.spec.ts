@@ -6,20 +6,9 @@ import * as analysisHandlers from '../../server/analyses/routes.ts'
 import * as samplingHandlers from '../../server/sampling/routes.ts'
 import * as reportHandlers from '../../server/reports/routes.ts'
 import { hashToken, newToken } from '../../server/auth/tokens.ts'
-import { anonymous, signIn, type Client } from './client.ts'
+import { signIn, type Client } from './client.ts'
+import { analyst, anyone, EMAIL, member, owner, personaClient as freshClient, PERSONAS, signedIn, type Expect, type Persona } from './roles.ts'
 
-type Persona = 'anonymous' | 'outsider' | 'reviewer' | 'analyst' | 'owner'
-const PERSONAS: Persona[] = ['anonymous', 'outsider', 'reviewer', 'analyst', 'owner']
-const EMAIL: Record<Exclude<Persona, 'anonymous'>, string> = {
-  outsider: 'piet@quillmere.test', reviewer: 'ines.reviewer@lanternfield.test',
-  analyst: 'tomas.analyst@lanternfield.test', owner: 'nadia.owner@lanternfield.test',
-}
-type Expect = Record<Persona, number>
-const anyone = (ok: number): Expect => ({ anonymous: ok, outsider: ok, reviewer: ok, analyst: ok, owner: ok })
-const signedIn = (ok: number): Expect => ({ anonymous: 401, outsider: ok, reviewer: ok, analyst: ok, owner: ok })
-const member = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: ok, analyst: ok, owner: ok })
-const analyst = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: 403, analyst: ok, owner: ok })
-const owner = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: 403, analyst: 403, owner: ok })
 
 const TABLE = '# bjd rv err\n2459000.5 10.0 1.0\n2459001.5 12.0 1.1\n2459002.5 9.0 1.0\n'
 
@@ -132,7 +121,7 @@ function fill(path: string): string {
 const cached = new Map<Persona, Client>()
 /** Signed-in clients are reused, except for the routes that change the session itself. */
 async function personaClient(p: Persona, route: string): Promise<Client> {
-  const fresh = () => (p === 'anonymous' ? anonymous(t.app) : signIn(t.app, EMAIL[p]))
+  const fresh = async () => freshClient(t.app, p)
   if (/^\/api\/auth\/(register|login|logout)$/.test(route)) return fresh()
   if (!cached.has(p)) cached.set(p, await fresh())
   return cached.get(p)!

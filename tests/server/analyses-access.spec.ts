@@ -4,17 +4,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startTestApp, type TestApp } from '../helpers/app.ts'
 import { routes } from '../../server/routes.ts'
 import * as analysisHandlers from '../../server/analyses/routes.ts'
-import { anonymous, signIn, type Client } from './client.ts'
+import { signIn, type Client } from './client.ts'
+import { analyst, cachedPersonas, EMAIL, member, PERSONAS, type Expect } from './roles.ts'
 
-type Persona = 'anonymous' | 'outsider' | 'reviewer' | 'analyst' | 'owner'
-const PERSONAS: Persona[] = ['anonymous', 'outsider', 'reviewer', 'analyst', 'owner']
-const EMAIL: Record<Exclude<Persona, 'anonymous'>, string> = {
-  outsider: 'piet@quillmere.test', reviewer: 'ines.reviewer@lanternfield.test',
-  analyst: 'tomas.analyst@lanternfield.test', owner: 'nadia.owner@lanternfield.test',
-}
-type Expect = Record<Persona, number>
-const member = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: ok, analyst: ok, owner: ok })
-const analyst = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: 403, analyst: ok, owner: ok })
 
 // 24 nights of a 9.7-day sinusoid (this test's own numbers), one instrument
 const TABLE = '# bjd rv err\n' + Array.from({ length: 24 }, (_, i) => {
@@ -68,11 +60,7 @@ const cases: Case[] = [
 ]
 
 const fill = (p: string) => p.replace('STAR', String(starId)).replace('MODEL', String(modelId)).replace('PERIODOGRAM', String(periodogramId))
-const clients = new Map<Persona, Client>()
-async function client(p: Persona): Promise<Client> {
-  if (!clients.has(p)) clients.set(p, p === 'anonymous' ? anonymous(t.app) : await signIn(t.app, EMAIL[p]))
-  return clients.get(p)!
-}
+const client = cachedPersonas(() => t.app)
 
 describe('access to every analysis route', () => {
   it('covers every analysis route of the routes table', () => {

@@ -4,13 +4,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { routes } from '../../server/routes.ts'
 import * as samplingHandlers from '../../server/sampling/routes.ts'
 import { anonymous, type Client } from './client.ts'
+import { analyst, member, PERSONAS, type Expect, type Persona } from './roles.ts'
 import { startSamplingWorld, type SamplingWorld } from './sampling-setup.ts'
 
-type Persona = 'anonymous' | 'outsider' | 'reviewer' | 'analyst' | 'owner'
-const PERSONAS: Persona[] = ['anonymous', 'outsider', 'reviewer', 'analyst', 'owner']
-type Expect = Record<Persona, number>
-const member = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: ok, analyst: ok, owner: ok })
-const analyst = (ok: number): Expect => ({ anonymous: 401, outsider: 404, reviewer: 403, analyst: ok, owner: ok })
 const SMALL = { walkers: 16, steps: 100 }
 
 let w: SamplingWorld
