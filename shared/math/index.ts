@@ -1,1 +1,1 @@
-export { createRandom, type Random } from './random.ts'
+export { createRandom, type Random, type StatefulRandom } from './random.ts'

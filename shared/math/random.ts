@@ -11,9 +11,18 @@ export interface Random {
   int(n: number): number
 }
 
-export function createRandom(seed: number): Random {
+/** A `Random` whose state can be saved and restored (resumable sampling runs). */
+export interface StatefulRandom extends Random {
+  getState(): number[]
+  setState(state: readonly number[]): void
+}
+
+/** Normals by the Marsaglia polar method; the cached spare normal is part of the state. */
+export function createRandom(seed: number): StatefulRandom {
+  if (!Number.isFinite(seed)) throw new RangeError(`seed must be a finite number, got ${seed}`)
   let state = seed >>> 0
-  let spare: number | null = null
+  let hasSpare = 0
+  let spare = 0
   const next = (): number => {
     state = (state + 0x6d2b79f5) >>> 0
     let t = state
@@ -22,13 +31,22 @@ export function createRandom(seed: number): Random {
     return ((t ^ (t >>> 14)) >>> 0) / 4294967296
   }
   const normal = (): number => {
-    if (spare !== null) { const s = spare; spare = null; return s }
-    // Marsaglia polar method
+    if (hasSpare) { hasSpare = 0; return spare }
     let u: number, v: number, s: number
     do { u = 2 * next() - 1; v = 2 * next() - 1; s = u * u + v * v } while (s >= 1 || s === 0)
     const f = Math.sqrt(-2 * Math.log(s) / s)
     spare = v * f
+    hasSpare = 1
     return u * f
   }
-  return { next, normal, int: (n: number) => Math.floor(next() * n) }
+  return {
+    next,
+    normal,
+    int: (n: number) => Math.floor(next() * n),
+    getState: () => [state, hasSpare, spare],
+    setState: (s) => {
+      if (!Array.isArray(s) || s.length !== 3) throw new RangeError('random state must be [state, hasSpare, spare]')
+      state = s[0] >>> 0; hasSpare = s[1] ? 1 : 0; spare = Number(s[2])
+    },
+  }
 }

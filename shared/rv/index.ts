@@ -15,7 +15,7 @@ export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiM
 export * from './periodogram.ts'
 export {
   type StatefulRandom, type SamplerState, type ChainSoFar, type ProgressCallback, type EnsembleOptions, type EnsembleResult,
-  createSamplerRandom, runEnsemble, stateToJson, stateFromJson,
+  runEnsemble, stateToJson, stateFromJson,
 } from './sampler.ts'
 export {
   type ChainShape, type RhatOptions,

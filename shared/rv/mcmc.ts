@@ -12,7 +12,8 @@ import type { RvData } from './orbit-data.ts'
 import { nearestEpoch, tcToTp } from './model.ts'
 import { minimumMass, semiMajorAxis } from './derived.ts'
 import { createLogPosterior, specFromFit, samplingScales, planetLabel, type SamplingPrior } from './posterior.ts'
-import { runEnsemble, createSamplerRandom, type ProgressCallback, type SamplerState } from './sampler.ts'
+import { createRandom } from '../math/random.ts'
+import { runEnsemble, type ProgressCallback, type SamplerState } from './sampler.ts'
 import { integratedTime, splitRhat, acceptanceFraction } from './diagnostics.ts'
 
 const DEG = Math.PI / 180
@@ -156,7 +157,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   if (!(Number.isInteger(groups) && groups >= 1 && walkers % groups === 0)) throw new RangeError(`rhatGroups must divide walkers (${walkers}), got ${groups}`)
 
   // ---- starting ball
-  const rng = createSamplerRandom(seed)
+  const rng = createRandom(seed)
   const scales = samplingScales(fit, post)
   const start = new Float64Array(walkers * nDim)
   const x = new Float64Array(nDim)
@@ -255,7 +256,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   const cols: Array<{ name: string; unit: string; v: Float64Array }> = []
   const col = (name: string, unit: string): Float64Array => { const v = new Float64Array(nDraw); cols.push({ name, unit, v }); return v }
   const mst = options.mstar
-  const mRng = createSamplerRandom((seed ^ 0x5bd1e995) >>> 0)
+  const mRng = createRandom((seed ^ 0x5bd1e995) >>> 0)
   const mDraw = new Float64Array(nDraw)
   if (mst) {
     for (let i = 0; i < nDraw; i++) {

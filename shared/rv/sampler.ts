@@ -14,52 +14,11 @@
  * (positions, log-probabilities, generator state, acceptance counts), and the concatenation of the
  * two runs is identical to one uninterrupted run.
  */
-import type { Random } from '../math/random.ts'
+import { createRandom, type Random, type StatefulRandom } from '../math/random.ts'
+
+export type { StatefulRandom }
 
 /** A `Random` whose state can be saved and restored (needed to resume a run exactly). */
-export interface StatefulRandom extends Random {
-  getState(): number[]
-  setState(state: readonly number[]): void
-}
-
-/**
- * Seeded generator for the sampler: the same 32-bit mulberry32 state update as
- * `shared/math/random.ts` (so the same seed gives the same uniform stream), plus state export.
- * Normals by the Marsaglia polar method; the cached spare normal is part of the state.
- */
-export function createSamplerRandom(seed: number): StatefulRandom {
-  if (!Number.isFinite(seed)) throw new RangeError(`seed must be a finite number, got ${seed}`)
-  let state = seed >>> 0
-  let hasSpare = 0
-  let spare = 0
-  const next = (): number => {
-    state = (state + 0x6d2b79f5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-  const normal = (): number => {
-    if (hasSpare) { hasSpare = 0; return spare }
-    let u: number, v: number, s: number
-    do { u = 2 * next() - 1; v = 2 * next() - 1; s = u * u + v * v } while (s >= 1 || s === 0)
-    const f = Math.sqrt(-2 * Math.log(s) / s)
-    spare = v * f
-    hasSpare = 1
-    return u * f
-  }
-  return {
-    next,
-    normal,
-    int: (n: number) => Math.floor(next() * n),
-    getState: () => [state, hasSpare, spare],
-    setState: (s) => {
-      if (!Array.isArray(s) || s.length !== 3) throw new RangeError('random state must be [state, hasSpare, spare]')
-      state = s[0] >>> 0; hasSpare = s[1] ? 1 : 0; spare = Number(s[2])
-    },
-  }
-}
-
 /** Everything needed to continue a run exactly where it stopped (plain data, JSON-safe via Array.from). */
 export interface SamplerState {
   nWalkers: number
@@ -160,7 +119,7 @@ export function runEnsemble(opts: EnsembleOptions): EnsembleResult {
   const every = opts.progressEvery ?? Math.max(1, Math.floor(steps / 100))
   if (!(Number.isInteger(every) && every >= 1)) throw new RangeError(`progressEvery must be a positive integer, got ${every}`)
 
-  const rng: Random = typeof opts.random === 'number' ? createSamplerRandom(opts.random) : opts.random
+  const rng: Random = typeof opts.random === 'number' ? createRandom(opts.random) : opts.random
   if (!rng || typeof rng.next !== 'function') throw new RangeError('random must be a seed or a Random')
 
   const pos = new Float64Array(nWalkers * nDim)
