@@ -1,6 +1,7 @@
 // The personas of the route-access tables (demo seed users, scripts/seed.ts) and the status each
 // expects: anonymous, a member of another team, and the demo team's reviewer, analyst and owner.
 import type { Express } from 'express'
+import { expect, it } from 'vitest'
 import { anonymous, signIn, type Client } from './client.ts'
 
 export type Persona = 'anonymous' | 'outsider' | 'reviewer' | 'analyst' | 'owner'
@@ -33,5 +34,54 @@ export function cachedPersonas(app: () => Express): (p: Persona) => Promise<Clie
   return async (p) => {
     if (!clients.has(p)) clients.set(p, await personaClient(app(), p))
     return clients.get(p)!
+  }
+}
+
+/** One row of a route-access table: the route as the routes table spells it and what each persona gets. */
+export interface RoleCase { method: string; route: string; expect: Expect }
+
+export interface RoleTableOptions<C extends RoleCase> {
+  /** The feature's handlers module: the table must have a case for each of its routes. */
+  handlers: object
+  /** The routes table (server/routes.ts). */
+  routes: Array<{ method: string; path: string; handler: unknown }>
+  cases: C[]
+  client: (p: Persona) => Promise<Client> | Client
+  /** The concrete path and body of a case for one call (may create what the call consumes). */
+  request: (c: C) => Promise<{ path: string; body?: object }> | { path: string; body?: object }
+  /** Text that must not leak in a 404 answer (the probe's own data). */
+  hidden: RegExp
+  timeout?: number
+}
+
+/**
+ * Defines the tests of a route-access table: one checks that every route of `handlers` in the routes
+ * table has a case, and one test per case calls it as each persona and compares the statuses; an
+ * expected 404 must say not_found and reveal nothing, an expected 403 must name the role.
+ */
+export function roleTable<C extends RoleCase>(o: RoleTableOptions<C>): void {
+  it('has a case for every route of the feature in the routes table', () => {
+    const handlers = new Set<unknown>(Object.values(o.handlers))
+    const inTable = o.routes.filter((r) => handlers.has(r.handler)).map((r) => `${r.method.toUpperCase()} ${r.path}`).sort()
+    expect(o.cases.map((c) => `${c.method.toUpperCase()} ${c.route}`).sort()).toEqual(inTable)
+  })
+
+  for (const c of o.cases) {
+    it(`${c.method.toUpperCase()} ${c.route}: ${PERSONAS.map((p) => `${p} ${c.expect[p]}`).join(', ')}`, async () => {
+      const got: Partial<Expect> = {}
+      const bodies: Record<string, unknown> = {}
+      for (const p of PERSONAS) {
+        const { path, body } = await o.request(c)
+        const res = await (await o.client(p)).call(c.method, path, body)
+        got[p] = res.status
+        bodies[p] = res.body
+        if (res.status === 404 && c.expect[p] === 404) {
+          expect(res.body.error.code).toBe('not_found')
+          expect(JSON.stringify(res.body)).not.toMatch(o.hidden)
+        }
+        if (res.status === 403 && c.expect[p] === 403) expect(res.body.error.message).toMatch(/role/)
+      }
+      expect(got, JSON.stringify(bodies).slice(0, 2000)).toEqual(c.expect)
+    }, o.timeout)
   }
 }

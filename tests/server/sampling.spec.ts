@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { routes } from '../../server/routes.ts'
 import * as samplingHandlers from '../../server/sampling/routes.ts'
 import { anonymous, type Client } from './client.ts'
-import { analyst, member, PERSONAS, type Expect, type Persona } from './roles.ts'
+import { analyst, member, roleTable, type Expect, type Persona } from './roles.ts'
 import { startSamplingWorld, type SamplingWorld } from './sampling-setup.ts'
 
 const SMALL = { walkers: 16, steps: 100 }
@@ -41,27 +41,13 @@ function client(p: Persona): Client {
 }
 
 describe('sampling routes', () => {
-  it('has a case for every sampling route of the routes table', () => {
-    const mine = new Set<unknown>(Object.values(samplingHandlers))
-    const inTable = routes.filter((r) => mine.has(r.handler)).map((r) => `${r.method.toUpperCase()} ${r.path}`).sort()
-    expect(cases.map((c) => `${c.method.toUpperCase()} ${c.route}`).sort()).toEqual(inTable)
+  roleTable({
+    handlers: samplingHandlers, routes, cases, client, hidden: /walkers|settings/,
+    request: async (c) => ({
+      path: c.prepare ? await c.prepare() : c.path!.replace('MODEL', String(w.modelId)).replace('STAR', String(w.starId)).replace('RUN', String(doneRunId)),
+      body: c.body,
+    }),
   })
-
-  for (const c of cases) {
-    it(`${c.method.toUpperCase()} ${c.route}: ${PERSONAS.map((p) => `${p} ${c.expect[p]}`).join(', ')}`, async () => {
-      const got: Partial<Expect> = {}
-      const bodies: Record<string, unknown> = {}
-      for (const p of PERSONAS) {
-        const path = c.prepare ? await c.prepare() : c.path!.replace('MODEL', String(w.modelId)).replace('STAR', String(w.starId)).replace('RUN', String(doneRunId))
-        const res = await client(p).call(c.method, path, c.body)
-        got[p] = res.status
-        bodies[p] = res.body
-        if (res.status === 404) expect(JSON.stringify(res.body)).not.toMatch(/walkers|settings/)
-        if (res.status === 403) expect(res.body.error.message).toMatch(/role/)
-      }
-      expect(got, JSON.stringify(bodies).slice(0, 1500)).toEqual(c.expect)
-    })
-  }
 
   it('starts with sensible defaults, an estimate, and an audit entry', async () => {
     const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, {}).expect(201)
