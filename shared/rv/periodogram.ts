@@ -6,7 +6,7 @@
 export {
   type PeriodogramOptions, type FrequencyGrid, type PeriodogramResult, type FastSettings,
   frequencyGrid, periodogram, periodogramDirect, periodogramFast, gls, chooseMethod, estimateCostNs,
-  releasePeriodogramBuffers, MAX_FREQUENCIES, FAST_DEFAULTS,
+  releasePeriodogramBuffers, MAX_FREQUENCIES, FAST_DEFAULTS, GRID_DEFAULTS, defaultMinPeriod, defaultMaxPeriod,
 } from './periodogram-core.ts'
 export { type Peak, type Alias, type FindPeaksOptions, findPeaks, ALIAS_SOURCES } from './periodogram-peaks.ts'
 export { type FapOptions, type BootstrapOptions, baluevFap, falseAlarmLevel, bootstrapFap, lnGamma } from './fap.ts'

@@ -37,3 +37,13 @@ export function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
   for (let i = 0; i < a.length; i++) m = Math.max(m, Math.abs(a[i] - b[i]))
   return m
 }
+
+/**
+ * The grid the reference fixtures were made on (scripts/reference/periodogram_reference.py):
+ * 1.1 d to the baseline, 10× oversampled — the product's default before the 0.5 d – 5× baseline one.
+ */
+export function fixtureGrid(t: Float64Array): { minPeriod: number; maxPeriod: number } {
+  let lo = Infinity, hi = -Infinity
+  for (const v of t) { lo = Math.min(lo, v); hi = Math.max(hi, v) }
+  return { minPeriod: 1.1, maxPeriod: hi - lo }
+}
