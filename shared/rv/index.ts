@@ -26,3 +26,4 @@ export {
   createLogPosterior, specFromFit, samplingScales, planetLabel,
 } from './posterior.ts'
 export { type SampleOptions, type ParameterSummary, type SampleDiagnostics, type SampleResult, samplePosterior } from './mcmc.ts'
+export * from './gp/index.ts'
