@@ -1,6 +1,6 @@
 import type { Request, Response } from 'express'
 import type { Services } from './services.ts'
-import { dataset, files, loginLimit, measurement, resetLimit, signedIn, star, team, type Guard } from './guards.ts'
+import { dataset, devOnly, files, loginAddressLimit, loginLimit, measurement, resetLimit, shareLimit, signedIn, star, team, type Guard } from './guards.ts'
 import * as auth from './auth/routes.ts'
 import * as teams from './teams/routes.ts'
 import * as stars from './stars/routes.ts'
@@ -23,9 +23,10 @@ export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: stri
  */
 export const routes: Route[] = [
   { method: 'get', path: '/api/health', guards: [], handler: dev.health },
+  { method: 'get', path: '/api/health/ready', guards: [], handler: dev.ready },
 
   { method: 'post', path: '/api/auth/register', guards: [], handler: auth.register },
-  { method: 'post', path: '/api/auth/login', guards: [loginLimit], handler: auth.login },
+  { method: 'post', path: '/api/auth/login', guards: [loginAddressLimit, loginLimit], handler: auth.login },
   { method: 'post', path: '/api/auth/logout', guards: [], handler: auth.logout },
   { method: 'get', path: '/api/auth/me', guards: [signedIn], handler: auth.me },
   { method: 'post', path: '/api/auth/password', guards: [signedIn], handler: auth.changePassword },
@@ -39,6 +40,7 @@ export const routes: Route[] = [
   { method: 'delete', path: '/api/teams/:teamId/members/:userId', guards: [team('owner')], handler: teams.removeMember },
   { method: 'get', path: '/api/teams/:teamId/invitations', guards: [team('owner')], handler: teams.listInvitations },
   { method: 'post', path: '/api/teams/:teamId/invitations', guards: [team('owner')], handler: teams.invite },
+  { method: 'post', path: '/api/teams/:teamId/invitations/:invitationId/approve', guards: [team('owner')], handler: teams.approveInvitation },
   { method: 'delete', path: '/api/teams/:teamId/invitations/:invitationId', guards: [team('owner')], handler: teams.revokeInvitation },
   { method: 'get', path: '/api/invitations/:token', guards: [], handler: teams.showInvitation },
   { method: 'post', path: '/api/invitations/:token/accept', guards: [signedIn], handler: teams.acceptInvitation },
@@ -86,10 +88,11 @@ export const routes: Route[] = [
   { method: 'get', path: '/api/reports/:reportId/versions/:version/pdf', guards: [report('reviewer')], handler: reports.pdf },
   { method: 'get', path: '/api/reports/:reportId/versions/:version/latex', guards: [report('reviewer')], handler: reports.latex },
   { method: 'get', path: '/api/reports/:reportId/versions/:version/csv', guards: [report('reviewer')], handler: reports.csv },
+  { method: 'get', path: '/api/reports/:reportId/versions/:version/ecsv', guards: [report('reviewer')], handler: reports.ecsv },
   { method: 'get', path: '/api/reports/:reportId/versions/:version/json', guards: [report('reviewer')], handler: reports.json },
-  { method: 'post', path: '/api/reports/:reportId/shares', guards: [report('analyst')], handler: reports.share },
+  { method: 'post', path: '/api/reports/:reportId/shares', guards: [report('analyst'), shareLimit], handler: reports.share },
   { method: 'post', path: '/api/reports/:reportId/reviews', guards: [report('reviewer')], handler: reports.reviewReport },
 
-  { method: 'get', path: '/api/dev/mail', guards: [], handler: dev.mailJson },
-  { method: 'get', path: '/dev/mail', guards: [], handler: dev.mailPage },
+  { method: 'get', path: '/api/dev/mail', guards: [devOnly, signedIn], handler: dev.mailJson },
+  { method: 'get', path: '/dev/mail', guards: [devOnly, signedIn], handler: dev.mailPage },
 ]

@@ -4,10 +4,11 @@ import { scope, signedInUser } from '../guards.ts'
 import { NotFoundError } from '../errors.ts'
 import { analysisScope } from '../analyses/guards.ts'
 import { freezeRequestSchema, reviewRequestSchema, shareRequestSchema } from '../../shared/api/reports.ts'
-import { latexTables } from '../../shared/report/table.ts'
+import { latexTables } from '../../shared/report/latex-solution.ts'
 import { reportScope } from './guards.ts'
 import * as reports from './service.ts'
-import { reportCsv, reportJson } from './csv.ts'
+import { reportCsv, reportEcsv } from './csv.ts'
+import { reportJson } from './json.ts'
 import { reportPdf } from './pdf.ts'
 
 export async function freeze(req: Request, res: Response, s: Services): Promise<void> {
@@ -56,6 +57,12 @@ export async function csv(req: Request, res: Response, s: Services): Promise<voi
   const report = reportScope(res)
   const v = await reports.loadVersion(s, report, versionOf(req))
   res.type('text/csv; charset=utf-8').set('Content-Disposition', `attachment; filename="${fileName(report.title, v.version, 'csv')}"`).send(reportCsv(v.snapshot))
+}
+
+export async function ecsv(req: Request, res: Response, s: Services): Promise<void> {
+  const report = reportScope(res)
+  const v = await reports.loadVersion(s, report, versionOf(req))
+  res.type('text/plain; charset=utf-8').set('Content-Disposition', `attachment; filename="${fileName(report.title, v.version, 'ecsv')}"`).send(reportEcsv(v.snapshot))
 }
 
 export async function json(req: Request, res: Response, s: Services): Promise<void> {

@@ -78,6 +78,8 @@ export interface ReportSnapshot {
     nIncluded: number; nExcluded: number; instruments: string[]
     /** The data used by the fit no longer match the star's current data (points excluded or restored since the fit). */
     changedSinceFit: boolean
+    /** Time scale of the stored times ('tdb' barycentric, 'utc', 'tt', 'hjd'); absent in versions frozen before it was recorded. */
+    timeScale?: string | null
     points: SnapshotPoint[]
     exclusions: SnapshotExclusion[]
   }

@@ -48,9 +48,10 @@ export function texValue(value: number | null | undefined, err: number | null | 
   return `$${r.value} \\pm ${r.error}$`
 }
 
-/** `$v^{+a}_{-b}$` for a credible interval, rounded at the smaller side's place. */
+/** `$v^{+a}_{-b}$` for a credible interval, rounded at the smaller side's place; `$v \pm a$` when both sides print alike. */
 export function texInterval(value: number, plus: number, minus: number): string {
   if (!(plus > 0) || !(minus > 0)) return `$${formatPlain(value)}$`
   const r = roundAsymmetric(value, plus, minus)
+  if (r.plus === r.minus) return `$${r.value} \\pm ${r.plus}$`
   return `$${r.value}^{+${r.plus}}_{-${r.minus}}$`
 }

@@ -5,7 +5,6 @@
  */
 import type { ReportSnapshot } from '../api/reports.ts'
 import { formatPlain, roundAsymmetric, roundByUncertainty } from './round.ts'
-import { tabular, texInterval, texValue, type Cell } from './latex.ts'
 
 export interface ParameterRow {
   /** Stable name for comments: "b.K", "HARPS.jitter", "trend.slope". */
@@ -88,42 +87,4 @@ export function plainInterval(median: number | null, plus: number | null, minus:
   if (median === null || plus === null || minus === null || !(plus > 0) || !(minus > 0)) return '—'
   const r = roundAsymmetric(median, plus, minus)
   return `${r.value} +${r.plus} −${r.minus}`
-}
-
-/**
- * The LaTeX export: a parameter table (one row per planet, one column per quantity, units in the
- * header; credible intervals as $^{+a}_{-b}$ when sampled, else value $\pm$ 1σ) and an instrument
- * table, each a plain `tabular` ready to paste.
- */
-export function latexTables(s: ReportSnapshot): string {
-  const rows = parameterRows(s)
-  const sampled = !!s.sampling
-  const quantities = PLANET_QUANTITIES.filter((q) => q.q !== 'msiniMearth' && q.q !== 'tp')
-  const header: Cell[] = [{ tex: 'Planet' }, ...quantities.map((q) => ({ tex: q.texUnit ? `${q.tex} (${q.texUnit})` : q.tex }))]
-  const body: Cell[][] = s.result.planets.map((p) => [p.label, ...quantities.map((q) => {
-    const r = rows.find((x) => x.key === `${p.label}.${q.q}`)!
-    const tex = sampled && r.median !== null && r.plus !== null && r.minus !== null ? texInterval(r.median, r.plus, r.minus) : texValue(r.value, r.error)
-    return { tex }
-  })])
-  const inst = instrumentRows(s)
-  const instTable = tabular({
-    align: 'lrrrr',
-    header: [{ tex: 'Instrument' }, { tex: '$N$' }, { tex: 'Offset (m\\,s$^{-1}$)' }, { tex: 'Jitter (m\\,s$^{-1}$)' }, { tex: 'rms (m\\,s$^{-1}$)' }],
-    rows: inst.map((i) => [i.name, { tex: String(i.n) },
-      { tex: sampled && i.offsetPost ? texInterval(i.offsetPost.median, i.offsetPost.plus, i.offsetPost.minus) : texValue(i.offset, i.offsetErr) },
-      { tex: sampled && i.jitterPost ? texInterval(i.jitterPost.median, i.jitterPost.plus, i.jitterPost.minus) : texValue(i.jitter, i.jitterErr) },
-      { tex: i.rms === null ? '---' : `$${formatPlain(i.rms, 3)}$` }]),
-  })
-  const trendRows = rows.filter((r) => r.planet === null)
-  const parts = [
-    `% ${`${s.star.name}: ${s.model.name}`.replace(/[\r\n]+/g, ' ')}, model version ${s.model.version}; frozen ${s.frozenAt} (data ${s.data.hash.slice(0, 12)}).`,
-    `% Values ${sampled ? 'are posterior medians with 16th--84th percentile intervals' : 'are maximum-likelihood fits with 1-sigma errors'}, rounded by their uncertainty.`,
-    tabular({ align: 'l' + 'c'.repeat(quantities.length), header, rows: body }),
-    '',
-    instTable,
-  ]
-  if (trendRows.length) {
-    parts.push('', tabular({ align: 'lc', header: [{ tex: 'Trend' }, { tex: 'Value' }], rows: trendRows.map((r) => [{ tex: `${r.texSymbol} (${r.texUnit})` }, { tex: texValue(r.value, r.error) }]) }))
-  }
-  return parts.join('\n') + '\n'
 }

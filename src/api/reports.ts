@@ -11,7 +11,7 @@ export const fetchReportVersion = (reportId: number, version: number) => request
 export const shareReport = (reportId: number, body: ShareRequest) => request<Share>(`/reports/${reportId}/shares`, { method: 'POST', body })
 export const reviewReport = (reportId: number, body: ReviewRequest) => request<Review>(`/reports/${reportId}/reviews`, { method: 'POST', body })
 
-export type ExportFormat = 'pdf' | 'latex' | 'csv' | 'json'
+export type ExportFormat = 'pdf' | 'latex' | 'csv' | 'ecsv' | 'json'
 /** Link of one export of a version (opened or downloaded by the browser with the session cookie). */
 export const reportExportUrl = (reportId: number, version: number, format: ExportFormat) =>
   `/api/reports/${reportId}/versions/${version}/${format}`

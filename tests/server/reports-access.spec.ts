@@ -49,6 +49,7 @@ const cases: Case[] = [
   { method: 'get', route: '/api/reports/:reportId/versions/:version/pdf', path: '/api/reports/REPORT/versions/1/pdf', expect: member(200) },
   { method: 'get', route: '/api/reports/:reportId/versions/:version/latex', path: '/api/reports/REPORT/versions/1/latex', expect: member(200) },
   { method: 'get', route: '/api/reports/:reportId/versions/:version/csv', path: '/api/reports/REPORT/versions/1/csv', expect: member(200) },
+  { method: 'get', route: '/api/reports/:reportId/versions/:version/ecsv', path: '/api/reports/REPORT/versions/1/ecsv', expect: member(200) },
   { method: 'get', route: '/api/reports/:reportId/versions/:version/json', path: '/api/reports/REPORT/versions/1/json', expect: member(200) },
   { method: 'post', route: '/api/reports/:reportId/shares', path: '/api/reports/REPORT/shares', expect: analyst(201),
     prepare: async () => ({ body: { email: `coauthor-${++n}@example.test` } }) },

@@ -139,23 +139,38 @@ describe('exports', () => {
     const res = await reviewer.get(`/api/reports/${reportId}/versions/2/csv`).expect(200)
     expect(res.headers['content-type']).toMatch(/text\/csv/)
     const lines = res.text.trim().split('\n')
-    expect(lines[1]).toBe('measurement_id,instrument,time,rv,error,model,residual,excluded,exclusion_reason')
-    expect(lines).toHaveLength(2 + 220)
-    const excluded = lines.filter((l) => l.endsWith(',true,cosmic ray on the order'))
+    // one header row (no comment line), units and the time system in the names
+    expect(lines[0]).toMatch(/^measurement_id,instrument,(bjd_tdb|jd_utc|jd_tt|hjd|jd)_d,rv_m_s,error_m_s,model_m_s,residual_m_s,excluded,exclusion_reason$/)
+    expect(lines).toHaveLength(1 + 220)
+    const excluded = lines.filter((l) => l.endsWith(',True,cosmic ray on the order'))
     expect(excluded).toHaveLength(0) // version 2's fit still used that point: it is flagged excluded only from version 3 on
     const v3 = (await reviewer.get(`/api/reports/${reportId}/versions/3/csv`).expect(200)).text.trim().split('\n')
-    const row = v3.find((l) => l.endsWith(',true,cosmic ray on the order'))!
+    const row = v3.find((l) => l.endsWith(',True,cosmic ray on the order'))!
     const cells = row.split(',')
     expectClose(Number(cells[3]) - Number(cells[5]), Number(cells[6]), { atol: 1e-9 }, 'residual = rv − model for an excluded point')
   })
 
-  it('LaTeX is a plain tabular with values rounded by their uncertainty', async () => {
+  it('ECSV carries the same rows with units in its header', async () => {
+    const res = await reviewer.get(`/api/reports/${reportId}/versions/2/ecsv`).expect(200)
+    const text = res.text
+    expect(text.startsWith('# %ECSV 1.0\n# ---\n')).toBe(true)
+    expect(text).toMatch(/name: rv_m_s\n#\s+unit: m \/ s/)
+    expect(text.split('\n').filter((l) => l && !l.startsWith('#'))).toHaveLength(1 + 220)
+  })
+
+  it('JSON names every unit in astropy spelling', async () => {
+    const res = await reviewer.get(`/api/reports/${reportId}/versions/1/json`).expect(200)
+    expect(res.body.units['result.planets[].msiniMjup']).toBe('jupiterMass')
+    expect(JSON.stringify(res.body)).not.toMatch(/"M_Jup"|"M_Earth"/)
+  })
+
+  it('LaTeX is a table float with values rounded by their uncertainty', async () => {
     const res = await reviewer.get(`/api/reports/${reportId}/versions/3/latex`).expect(200)
     expect(res.headers['content-type']).toMatch(/text\/plain/)
     const tex = res.text
-    expect(tex).toMatch(/\\begin\{tabular\}/)
+    expect(tex).toMatch(/\\begin\{table\*?\}[\s\S]*\\caption\{[\s\S]*\\begin\{tabular\}/)
     expect(tex).not.toMatch(/siunitx|\\SI\{|\\num\{/)
-    expect(tex).toMatch(/\$P\$ \(d\)/)
+    expect(tex).toMatch(/Period \$P\$ & d &/)
     expect(tex).toMatch(/\$\\pm\$|\\pm /)
     const v3 = (await reviewer.get(`/api/reports/${reportId}/versions/3`).expect(200)).body as ReportVersion
     const b = v3.snapshot.result.planets[0]!

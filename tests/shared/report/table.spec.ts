@@ -1,7 +1,8 @@
 // The tables and the diff of a report from a small hand-made snapshot (this test's own numbers).
 import { describe, expect, it } from 'vitest'
 import type { ReportSnapshot } from '../../../shared/api/reports.ts'
-import { latexTables, parameterRows, plainInterval, plainValue } from '../../../shared/report/table.ts'
+import { parameterRows, plainInterval, plainValue } from '../../../shared/report/table.ts'
+import { latexTables } from '../../../shared/report/latex-solution.ts'
 import { diffSnapshots, snapshotFingerprint } from '../../../shared/report/diff.ts'
 
 const u = (v: number | null) => v
@@ -49,15 +50,21 @@ describe('parameter table', () => {
 })
 
 describe('LaTeX tables from a snapshot', () => {
-  it('puts units in the header, escapes names and uses $\\pm$ for fits', () => {
+  it('has quantities as rows and planets as columns, units in their own column, $\\pm$ for fits', () => {
     const tex = latexTables(snapshot())
-    expect(tex).toContain('Planet & $P$ (d) & $K$ (m\\,s$^{-1}$) & $e$ & $\\omega$ (deg) & $T_\\mathrm{c}$ (JD) & $M\\sin i$ ($M_\\mathrm{J}$) & $a$ (au) \\\\')
-    expect(tex).toContain('  b & $12.4026 \\pm 0.0015$ & $9.43 \\pm 0.27$ & $0.145 \\pm 0.027$ & $11 \\pm 11$ & $2458872.38 \\pm 0.12$ & $0.101 \\pm 0.004$ & $0.1020 \\pm 0.0015$ \\\\')
-    expect(tex).toContain('  Kestrel\\_2 & 10 & $-12.39 \\pm 0.23$ & $1.85 \\pm 0.19$ & $2.31$ \\\\')
-    // the first lines are LaTeX comments naming the star and the data hash (comments need no escaping)
+    expect(tex).toContain('Parameter & Unit & b \\\\')
+    expect(tex).toContain('Period $P$ & d & $12.4026 \\pm 0.0015$ \\\\')
+    expect(tex).toContain('Semi-amplitude $K$ & m\\,s$^{-1}$ & $9.43 \\pm 0.27$ \\\\')
+    // times against a reduced epoch, named in a note; the scale was not recorded in this snapshot: plain "JD"
+    expect(tex).toContain('Conjunction $T_\\mathrm{c}$ & JD$^\\dagger$ & $8872.38 \\pm 0.12$ \\\\')
+    expect(tex).toContain('$^\\dagger$ JD $-$ 2\\,450\\,000')
+    expect(tex).toContain('Kestrel\\_2 & 10 & $-12.39 \\pm 0.23$ & $1.85 \\pm 0.19$ & $2.31$ \\\\')
+    expect(tex).toContain('\\begin{table}')
+    expect(tex).toMatch(/\\caption\{Orbital solution for Probe\\_1/)
+    // the first line is a LaTeX comment naming the star and the data hash (comments need no escaping)
     expect(tex.split('\n')[0]).toMatch(/^% Probe_1: one, model version 2; frozen .* \(data a{12}\)\.$/)
   })
-  it('uses the posterior interval where the solution was sampled', () => {
+  it('uses the posterior interval where the solution was sampled, and ± where both sides print alike', () => {
     // K b: median 9.41, +0.36 −0.29; the smaller side 0.29 has digits 290 ≤ 354 → two digits at 0.01
     expect(latexTables(snapshot({ sampled: true }))).toContain('$9.41^{+0.36}_{-0.29}$')
   })
