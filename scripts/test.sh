@@ -16,6 +16,19 @@ if [ ! -x /usr/bin/chromium ]; then
   DEBIAN_FRONTEND=noninteractive $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq chromium >/dev/null
 fi
 
+# Outside readers of our exports (LaTeX compile, PDF text, pandas/astropy reading the CSV and ECSV):
+# Debian's packages; a test whose reader is missing says so and checks the text only.
+missing=()
+[ -x /usr/bin/pdflatex ] || missing+=(texlive-latex-base)
+[ -x /usr/bin/pdftotext ] || missing+=(poppler-utils)
+/usr/bin/python3 -c 'import pandas, astropy' 2>/dev/null || missing+=(python3-pandas python3-astropy)
+if [ ${#missing[@]} -gt 0 ]; then
+  echo "Installing Debian packages for the export checks: ${missing[*]}"
+  sudo=""; [ "$(id -u)" = 0 ] || sudo="sudo"
+  { DEBIAN_FRONTEND=noninteractive $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "${missing[@]}" >/dev/null; } \
+    || echo "Could not install ${missing[*]}: those checks will be skipped with a message"
+fi
+
 bash scripts/pg.sh start "$cluster" "$port" || { echo "0 passed, 1 failed"; exit 1; }
 trap 'bash scripts/pg.sh stop "$cluster"' EXIT
 export TEST_DATABASE_URL=$(bash scripts/pg.sh url "$cluster" "$port" postgres)
