@@ -1,6 +1,7 @@
 /** Public API of Starsway's numerical core (re-exports only; helpers stay private). */
 export { GM_SUN, GM_JUPITER, GM_EARTH, AU, DAY, G, M_SUN_KG } from './constants.ts'
 export {
+export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
   solveKepler, solveKeplerArray, trueAnomaly, trueAnomalyArray, eccentricFromTrue, wrapPi, KEPLER_TOLERANCE,
 } from './kepler.ts'
 export { type Keplerian, radialVelocity, radialVelocityAt, addKeplerian, tpToTc, tcToTp, nearestEpoch } from './model.ts'
