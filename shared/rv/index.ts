@@ -11,7 +11,7 @@ export {
   type InstrumentFit, type FitStats, type FitResult, fitKeplerians, fitBaseline, jitterMle, E_MAX,
 } from './orbit-fit.ts'
 export { type StartOptions, type ScoredStart, planetStarts } from './orbit-start.ts'
-export { type SearchOptions, type SearchStep, type SearchResult, searchPlanets } from './signal-search.ts'
+export * from './search/index.ts'
 export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiMajorAxis, derivedPlanet } from './derived.ts'
 export * from './periodogram.ts'
 export {

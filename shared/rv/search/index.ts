@@ -1,0 +1,11 @@
+/** The planet search: Keplerian periodogram, alias partners, warrant checks, defaults, the search. */
+export { SEARCH_DEFAULTS, type SearchDefaults } from './defaults.ts'
+export {
+  type EccentricityCell, type KeplerianPeriodogramOptions, type KeplerianPeriodogramResult, type KeplerianPeak,
+  KEPLERIAN_PERIODOGRAM_DEFAULTS, keplerianPeriodogram, keplerianPeriodogramDirect, keplerianPeaks,
+} from './keplerian-periodogram.ts'
+export { type AliasPartner, aliasPartners } from './aliases.ts'
+export { type SignalFlag, type SignalFlagKind, type InstrumentShare, instrumentShares, rejections, warnings } from './warrant.ts'
+export {
+  type SearchOptions, type SearchStep, type SearchResult, type SignalReport, type AliasTrial, type AlternativeModel, searchPlanets,
+} from './search.ts'
