@@ -10,6 +10,8 @@ export type IngestErrorCode =
   | 'missing_error'
   | 'bad_mapping'
   | 'bad_hint'
+  | 'unsupported_format'
+  | 'needs_answer'
 
 /**
  * A problem with the whole file or with the mapping, never with one row (rows get RowProblems).

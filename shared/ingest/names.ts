@@ -1,4 +1,9 @@
+import { formatForOffset } from './time.ts'
+import { readTimeWords } from './time-words.ts'
 import type { ColumnRole, TimeFormat, VelocityUnit } from './types.ts'
+import { unitInText } from './units.ts'
+
+export { describeTimeFormat } from './time.ts'
 
 /** What a header name says about its column. */
 export interface NameReading {
@@ -6,32 +11,24 @@ export interface NameReading {
   indicator?: string
   unit?: VelocityUnit
   /** Time scale or zero point named in the header, if any. */
-  time?: 'bjd' | 'jd' | 'mjd' | 'jd-2400000' | 'jd-2450000' | 'days'
+  time?: TimeFormat
 }
 
 /** Header names are read up to this length (longer ones are not names; keeps regexes cheap). */
 const MAX_NAME_CHARS = 120
 
-const KMS = /km\s*\/\s*s|km\s*[ .]?\s*s\s*\^?\s*-\s*1|(?:^|[^a-z])(?:kms|kmps|km_s)(?:[^a-z]|$)/
-const MS = /(?:^|[^k])m\s*\/\s*s|(?:^|[^a-z])m\s*[ .]?\s*s\s*\^?\s*-\s*1|(?:^|[^a-z])(?:ms|mps|m_s)(?:[^a-z]|$)/
-
-/** Velocity unit named in a header (or units-row) text, if any. */
+/** Velocity unit named in a header (or units-row) text, if any, in its usual spelling ('km/s', 'm/s', 'cm/s' …). */
 export function unitFromName(raw: string): VelocityUnit | undefined {
-  const s = raw.slice(0, MAX_NAME_CHARS).toLowerCase()
-  if (KMS.test(s)) return 'km/s'
-  if (MS.test(s)) return 'm/s'
-  return undefined
+  return unitInText(raw.slice(0, MAX_NAME_CHARS))
 }
 
-/** Time format or scale named in a header text, if any. */
+/** Time format named in a header text, if any: 'mjd', 'jd-N' (any N written), 'bjd', 'jd' or 'days'. */
 export function timeFromName(raw: string): NameReading['time'] {
-  const s = raw.slice(0, MAX_NAME_CHARS).toLowerCase().replace(/\s+/g, '')
-  if (/2400000\.5/.test(s) || /(?:^|[^a-z])mjd/.test(s)) return 'mjd'
-  if (/2450000/.test(s)) return 'jd-2450000'
-  if (/2400000/.test(s) || /(?:^|[^a-z])rjd/.test(s)) return 'jd-2400000'
-  if (/(?:^|[^a-z])bjd/.test(s)) return 'bjd'
-  if (/(?:^|[^a-z])[h]?jd|julian/.test(s)) return 'jd'
-  if (/(?:^|[^a-z])days?(?:[^a-z]|$)/.test(s)) return 'days'
+  const w = readTimeWords(raw.slice(0, MAX_NAME_CHARS))
+  if (w.offset !== undefined) return formatForOffset(w.offset)
+  if (w.scale === 'bjd_tdb' || w.scale === 'bjd_utc') return 'bjd'
+  if (w.julian) return 'jd'
+  if (w.days) return 'days'
   return undefined
 }
 
@@ -115,16 +112,4 @@ export function readName(raw: string): NameReading {
   }
   if (RV_COMPACT.has(compact) || RV_START.test(compact)) return { ...out, role: 'rv' }
   return out
-}
-
-/** Human name of a time format, for notes. */
-export function describeTimeFormat(f: TimeFormat): string {
-  switch (f) {
-    case 'jd': return 'full Julian days'
-    case 'bjd': return 'full barycentric Julian days'
-    case 'mjd': return 'modified Julian days (JD − 2400000.5)'
-    case 'jd-2400000': return 'JD − 2400000'
-    case 'jd-2450000': return 'JD − 2450000'
-    case 'days': return 'plain days'
-  }
 }

@@ -1,10 +1,11 @@
 import { assertText } from './decode.ts'
 import { IngestError } from './errors.ts'
 import { MAX_FILE_BYTES, MAX_PROBLEMS, MAX_ROWS, DEFAULT_INSTRUMENT } from './limits.ts'
-import { validateMapping } from './mapping.ts'
+import { validateMapping, type Scale } from './mapping.ts'
+import { columnImplausibility, rowImplausibility } from './plausibility.ts'
 import { commentPrefix, isBlank, isMissing, parseNumber, splitCells, splitLines } from './text.ts'
-import { TIME_OFFSETS } from './time.ts'
-import type { DateSplit, ParseOptions, ParseResult, ParsedRow, RowProblem, TableMapping } from './types.ts'
+import { timeOffset } from './time.ts'
+import type { ColumnMapping, DateSplit, ParseOptions, ParseResult, ParsedRow, RowProblem, TableMapping } from './types.ts'
 
 function show(cell: string): string {
   return cell.length > 40 ? `'${cell.slice(0, 37)}…'` : `'${cell}'`
@@ -20,12 +21,24 @@ function splitter(splits: DateSplit[] | undefined): ((name: string, time: number
   }
 }
 
+/** A line's cells at the columns' fixed positions (unused columns empty). */
+function fixedSplitter(columns: ColumnMapping[], width: number): (line: string) => string[] {
+  const used = columns.filter((c) => c.role !== 'ignore' && c.start !== undefined && c.end !== undefined)
+  return (line) => {
+    const cells = new Array<string>(width).fill('')
+    for (const c of used) cells[c.index] = line.slice(c.start, c.end).trim()
+    return cells
+  }
+}
+
 /**
  * Read every data row of a table with a mapping (from detectTable, possibly corrected).
- * Times become full Julian days, velocities and errors m/s. Rows with a problem (a missing or
- * non-numeric cell, an error ≤ 0, too few or too many fields, a duplicate of an earlier row with
- * the same time, velocity and instrument) are left out of `rows` and listed in `problems`
- * with their line number and column. Throws IngestError for a bad mapping (see validateMapping),
+ * Times become full Julian days, velocities and errors m/s (each column in its own unit). Rows
+ * with a problem (a missing or non-numeric cell, an error ≤ 0, too few or too many fields, a
+ * duplicate of an earlier row with the same time, velocity and instrument, a value outside the
+ * physical ranges of plausibility.ts, a ~1000× unit jump) are left out of `rows` and listed in
+ * `problems` with their line number and column; doubtful rows are kept and listed in `warnings`.
+ * A flag column's other values set `excludedReason`. Throws IngestError for a bad mapping (see validateMapping),
  * binary text, or more than MAX_ROWS data rows.
  */
 export function parseTable(text: string, mapping: TableMapping, opts: ParseOptions = {}): ParseResult {
@@ -44,10 +57,9 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   const { delimiter } = mapping
   const decimalComma = mapping.decimalComma === true
   const width = Math.max(...mapping.columns.map(c => c.index)) + 1
-  const offset = TIME_OFFSETS[mapping.timeFormat]
-  const scale = m.scale
-  const pow10 = scale === 1000 ? 3 : 0
-  const defaultError = (mapping.defaultError ?? NaN) * scale
+  const offset = timeOffset(mapping.timeFormat)
+  const defaultError = parseNumber(String(mapping.defaultError ?? NaN), false, m.tableScale.pow10) * m.tableScale.factor
+  const fixed = delimiter === 'fixed' ? fixedSplitter(mapping.columns, width) : null
   const baseInstrument = (mapping.instrument ?? DEFAULT_INSTRUMENT).trim()
   const split = splitter(mapping.splitDates)
   const joinTail = delimiter === 'whitespace' && m.instrument !== null && m.instrument.index === width - 1
@@ -57,19 +69,21 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
   // Every problem is kept until the end, so duplicates (found last) sort into line order.
   const all: RowProblem[] = []
   const counts = new Map<string, number>()
+  const warnings: RowProblem[] = []
   const add = (p: RowProblem): void => { all.push(p) }
-  const readNumber = (cells: string[], col: { index: number; name: string }, what: string, pow: number, line: number): number => {
+  const readNumber = (cells: string[], col: { index: number; name: string }, what: string, scale: Scale, line: number): number => {
     const c = cells[col.index] ?? ''
     if (c === '') { add({ line, column: col.name, message: `missing ${what}` }); return NaN }
-    const v = parseNumber(c, decimalComma, pow)
+    const v = parseNumber(c, decimalComma, scale.pow10)
     if (Number.isNaN(v)) add({ line, column: col.name, message: `${what} ${show(c)} is not a number` })
-    return v
+    return scale.factor === 1 ? v : v * scale.factor
   }
+  const noScale: Scale = { pow10: 0, factor: 1 }
   let rowsRead = 0
   let truncated = false
   const lines = splitLines(text)
 
-  for (let i = 0; i < lines.length; i++) {
+  for (let i = (mapping.firstLine ?? 1) - 1; i < lines.length; i++) {
     const line = lines[i]!
     if (isBlank(line) || commentPrefix(line) !== null) continue
     if (toSkip > 0) { toSkip--; continue }
@@ -79,7 +93,7 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       throw new IngestError('too_many_rows', `The table has more than ${MAX_ROWS} rows. Split it into smaller files.`)
     }
     const lineNo = i + 1
-    let cells = splitCells(line, delimiter)
+    let cells = fixed ? fixed(line) : splitCells(line, delimiter)
     // Whitespace-separated with the instrument last: a name with spaces ("HARPS N") is one name.
     if (joinTail && cells.length > width) cells = [...cells.slice(0, width - 1), cells.slice(width - 1).join(' ')]
     if (cells.length < m.needed) {
@@ -91,11 +105,11 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
       continue
     }
     const before = all.length
-    const t = readNumber(cells, m.time, 'time', 0, lineNo)
-    const rv = readNumber(cells, m.rv, 'velocity', pow10, lineNo)
+    const t = readNumber(cells, m.time, 'time', noScale, lineNo)
+    const rv = readNumber(cells, m.rv, 'velocity', m.rvScale, lineNo)
     let err = defaultError
     if (m.error) {
-      err = readNumber(cells, m.error, 'error', pow10, lineNo)
+      err = readNumber(cells, m.error, 'error', m.errorScale, lineNo)
       if (!Number.isNaN(err) && !(err > 0)) add({ line: lineNo, column: m.error.name, message: `error must be positive (found ${cells[m.error.index]})` })
     }
     let instrument = baseInstrument
@@ -107,14 +121,23 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
     for (const ind of m.indicators) {
       const c = cells[ind.column.index]
       if (c === undefined) continue
-      const v = parseNumber(c, decimalComma, ind.pow10)
+      const v = parseNumber(c, decimalComma, ind.scale.pow10) * ind.scale.factor
       if (!Number.isNaN(v)) indicators[ind.key] = v
       else if (!isMissing(c)) add({ line: lineNo, column: ind.column.name, message: `${ind.key} ${show(c)} is not a number` })
     }
     if (all.length !== before) continue
     const time = t + offset
+    const implausible = rowImplausibility(t, time, rv, err, mapping.timeFormat)
+    if (implausible !== null) { add({ line: lineNo, message: implausible }); continue }
     if (split) instrument = split(instrument, time)
-    rows.push({ line: lineNo, time, rv, error: err, instrument, indicators })
+    const row: ParsedRow = { line: lineNo, time, rv, error: err, instrument, indicators }
+    let reason = ''
+    for (const f of m.flags) {
+      const c = (cells[f.column.index] ?? '').trim()
+      if (c !== '' && !f.keep.has(c.toLowerCase())) reason += `${reason ? '; ' : ''}${f.column.name}: ${c}`
+    }
+    if (reason) row.excludedReason = reason
+    rows.push(row)
   }
 
   // Duplicates: rows in time order (files are usually in time order already; a sort beats a hash
@@ -147,11 +170,17 @@ export function parseTable(text: string, mapping: TableMapping, opts: ParseOptio
     }
     start = end
   }
-  const kept = dupCount === 0 ? rows : rows.filter((_, k) => !duplicate[k])
-  if (dupCount > 0) all.sort((a, b) => a.line - b.line)
+  let kept = dupCount === 0 ? rows : rows.filter((_, k) => !duplicate[k])
+  const jumps = columnImplausibility(kept, all, warnings, { rv: m.rv.name, error: m.error?.name ?? null })
+  if (jumps.size > 0) kept = kept.filter((_, k) => !jumps.has(k))
+  if (dupCount > 0 || jumps.size > 0) all.sort((a, b) => a.line - b.line)
+  warnings.sort((a, b) => a.line - b.line)
   for (const r of kept) counts.set(r.instrument, (counts.get(r.instrument) ?? 0) + 1)
   const instruments = [...counts].map(([name, count]) => ({ name, count }))
-  return { rows: kept, problems: all.slice(0, maxProblems), problemCount: all.length, instruments, rowsRead, truncated }
+  return {
+    rows: kept, problems: all.slice(0, maxProblems), problemCount: all.length, warnings: warnings.slice(0, maxProblems),
+    warningCount: warnings.length, instruments, rowsRead, truncated,
+  }
 }
 
 /**

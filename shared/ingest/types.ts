@@ -3,21 +3,53 @@
  * objects travel from the server's preview to the browser's wizard and back to the commit.
  */
 
-/** Field separator of a table. 'whitespace' means runs of spaces and/or tabs. */
-export type Delimiter = ',' | '\t' | ';' | 'whitespace'
+/**
+ * Field separator of a table. 'whitespace' means runs of spaces and/or tabs; 'fixed' means each
+ * column sits at fixed character positions (`ColumnMapping.start`/`end`), as archives write them.
+ */
+export type Delimiter = ',' | '\t' | ';' | 'whitespace' | 'fixed'
 
-/** Unit of the velocity and error columns as written in the file. Stored values are always m/s. */
-export type VelocityUnit = 'm/s' | 'km/s'
+/**
+ * A velocity unit as written ('m/s', 'km/s', 'cm/s', 'm s-1', 'km.s-1' …): anything the unit
+ * parser of `units.ts` reads as a length over a time. Stored values are always m/s.
+ */
+export type VelocityUnit = string
+
+/** Where a table came from, as far as its layout tells. */
+export type TableFormat = 'delimited' | 'fixed-width' | 'ecsv' | 'ipac' | 'mrt' | 'cds' | 'rdb'
+
+/**
+ * The time scale (and reference point) of the times: barycentric TDB (`bjd_tdb`), barycentric
+ * UTC (`bjd_utc`), heliocentric UTC (`hjd_utc`), or at the observatory in UTC, TT or TDB;
+ * `unknown` when neither the file nor the user says.
+ */
+export type TimeScale = 'bjd_tdb' | 'bjd_utc' | 'hjd_utc' | 'jd_utc' | 'jd_tt' | 'jd_tdb' | 'unknown'
+
+/**
+ * Something detection could not decide and the user must answer before a commit (e.g. MJD or
+ * JD − 2400000). `field` is the mapping field the answer sets; `choices` the offered values,
+ * the detected default first.
+ */
+export interface Question {
+  field: 'timeFormat' | 'timeScale' | 'flag'
+  message: string
+  choices: Array<{ value: string; label: string }>
+}
 
 /**
  * How the time column is written. Stored times are full Julian days:
- * 'jd' and 'bjd' as given, 'mjd' + 2400000.5, 'jd-2400000' + 2400000, 'jd-2450000' + 2450000,
- * 'days' as given (a plain day count with no known zero point).
+ * 'jd' and 'bjd' as given ('bjd' is a full JD whose scale is barycentric TDB), 'mjd' + 2400000.5,
+ * 'jd-N' + N for any N ≥ 0 written in a header or chosen (JD − 2400000, JD − 2450000,
+ * BJD_TDB − 2457000 …), 'days' as given (a plain day count with no known zero point).
  */
-export type TimeFormat = 'jd' | 'bjd' | 'mjd' | 'jd-2400000' | 'jd-2450000' | 'days'
+export type TimeFormat = 'jd' | 'bjd' | 'mjd' | 'days' | `jd-${number}`
 
-/** What a column holds. Each of 'time', 'rv', 'error', 'instrument' may be used at most once. */
-export type ColumnRole = 'time' | 'rv' | 'error' | 'instrument' | 'indicator' | 'ignore'
+/**
+ * What a column holds. Each of 'time', 'rv', 'error', 'instrument' may be used at most once.
+ * 'flag' is a quality column (`good`/`cloudy`, `0`/`1`): rows whose value is not in `keep` are
+ * stored excluded, the value as the reason; several flag columns may exist.
+ */
+export type ColumnRole = 'time' | 'rv' | 'error' | 'instrument' | 'indicator' | 'flag' | 'ignore'
 
 /** Canonical names of the activity indicators Starsway knows; other indicator columns keep their own name. */
 export type KnownIndicator = 'bisector_span' | 'fwhm' | 's_index' | 'log_rhk' | 'h_alpha'
@@ -31,10 +63,16 @@ export interface ColumnMapping {
   /** For role 'indicator': the key under which values are stored (a KnownIndicator or a cleaned name). */
   indicator?: string
   /**
-   * For role 'indicator' only: the velocity unit of this column, when it is a velocity-like
-   * indicator (bisector span, FWHM). When set, values are stored in m/s; when absent, as given.
+   * The velocity unit of this column as written. For 'rv' and 'error' it overrides the table's
+   * `unit` (a header `RV[km/s] eRV[m/s]`); for a velocity-like indicator (bisector span, FWHM)
+   * values are stored in m/s when it is set, as given when absent.
    */
   unit?: VelocityUnit
+  /** For delimiter 'fixed': the 0-based character range [start, end) of the column. */
+  start?: number
+  end?: number
+  /** For role 'flag': the values meaning a good measurement (compared trimmed, case-insensitive). */
+  keep?: string[]
 }
 
 /**
@@ -63,11 +101,26 @@ export interface TableMapping {
   columns: ColumnMapping[]
   unit: VelocityUnit
   timeFormat: TimeFormat
+  /** Time scale of the times (default 'unknown'; 'bjd' implies 'bjd_tdb'). */
+  timeScale?: TimeScale
+  /** 1-based line where the table body starts (archive formats with a free-text preamble); lines before it are never read. */
+  firstLine?: number
+  /** Open questions (see Question); parseTable refuses a mapping that still has one. */
+  questions?: Question[]
   /** One error for every row, in the table's unit; required when no column has role 'error'. */
   defaultError?: number
   /** Instrument name for all rows when no column has role 'instrument' (default DEFAULT_INSTRUMENT). */
   instrument?: string
   splitDates?: DateSplit[]
+}
+
+/** One column of a byte-by-byte description (CDS ReadMe, AAS MRT): 1-based inclusive bytes. */
+export interface FieldSpec {
+  first: number
+  last: number
+  label: string
+  unit?: string
+  explanation?: string
 }
 
 /** A column chosen by its header name (case-insensitive) or by its 1-based position. */
@@ -88,6 +141,11 @@ export interface DetectHints {
   /** Name for all rows when there is no instrument column. */
   instrumentName?: string
   splitDates?: DateSplit[]
+  timeScale?: TimeScale
+  /** The upload's file name: names the instrument of a table without an instrument column, and refuses spreadsheets and LaTeX by name. */
+  fileName?: string
+  /** Column positions from a separate description (a CDS ReadMe naming this file). */
+  layout?: FieldSpec[]
 }
 
 export interface PreviewRow {
@@ -113,6 +171,8 @@ export interface Detection {
   preview: PreviewRow[]
   /** One sentence per decision: what was chosen and why. */
   notes: string[]
+  /** The layout recognised (delimited text, fixed-width, ECSV, IPAC, AAS MRT, CDS, RDB). */
+  format: TableFormat
 }
 
 export interface ParsedRow {
@@ -127,6 +187,8 @@ export interface ParsedRow {
   instrument: string
   /** Indicator values by key; a cell left empty or written as NaN/NA/null is absent here. */
   indicators: Record<string, number>
+  /** Set when a flag column marks the row (`quality: cloudy`): stored excluded with this reason. */
+  excludedReason?: string
 }
 
 export interface RowProblem {
@@ -143,6 +205,9 @@ export interface ParseResult {
   /** Problems, at most `maxProblems` of them (see problemCount for the total). */
   problems: RowProblem[]
   problemCount: number
+  /** Doubtful rows that are still read (an error larger than the velocity spread), at most `maxProblems`. */
+  warnings: RowProblem[]
+  warningCount: number
   /** Instruments of the good rows, by first appearance. */
   instruments: Array<{ name: string; count: number }>
   /** Data rows read (good + bad). */

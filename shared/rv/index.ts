@@ -1,6 +1,12 @@
 /** Public API of Starsway's numerical core (re-exports only; helpers stay private). */
 export { GM_SUN, GM_JUPITER, GM_EARTH, AU, DAY, G, M_SUN_KG } from './constants.ts'
 export {
+  type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
+  VETTING_DEFAULTS, periodRelation, activityVetting,
+} from './activity-vetting.ts'
+  type IndicatorColumn, type IndicatorPeak, type IndicatorDiagnostics, type IndicatorOptions, type InstrumentCorrelation,
+  INDICATOR_MIN_ROWS, indicatorDiagnostics, centrePerInstrument,
+} from './activity-indicators.ts'
 export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
   solveKepler, solveKeplerArray, trueAnomaly, trueAnomalyArray, eccentricFromTrue, wrapPi, KEPLER_TOLERANCE,
 } from './kepler.ts'

@@ -135,7 +135,7 @@ describe('unusable columns', () => {
   })
 
   it('refuses malformed hints', () => {
-    expect(ingestError(() => detectTable('2450001 1 1\n', { unit: 'cm/s' as never }), 'bad_hint').field).toBe('unit')
+    expect(ingestError(() => detectTable('2450001 1 1\n', { unit: 'kg' as never }), 'bad_hint').field).toBe('unit')
     expect(ingestError(() => detectTable('2450001 1 1\n', { defaultError: -1 }), 'bad_hint').field).toBe('defaultError')
   })
 })

@@ -278,7 +278,7 @@ describe('mapping checks', () => {
   })
 
   it('refuses unknown units, time formats and delimiters', () => {
-    expectIngest(() => parseTable('1 1 1', basic({ unit: 'cm/s' as never })), 'bad_mapping', 'unit', /unit/)
+    expectIngest(() => parseTable('1 1 1', basic({ unit: 'kg' as never })), 'bad_mapping', 'unit', /unit/)
     expectIngest(() => parseTable('1 1 1', basic({ timeFormat: 'hjd' as never })), 'bad_mapping', 'timeFormat', /timeFormat/)
     expectIngest(() => parseTable('1 1 1', basic({ delimiter: '|' as never })), 'bad_mapping', 'delimiter', /delimiter/)
   })
