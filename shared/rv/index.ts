@@ -34,3 +34,11 @@ export {
 } from './posterior.ts'
 export { type SampleOptions, type ParameterSummary, type SampleDiagnostics, type SampleResult, samplePosterior } from './mcmc.ts'
 export * from './gp/index.ts'
+export {
+  type IndicatorColumn, type IndicatorPeak, type IndicatorDiagnostics, type IndicatorOptions, type InstrumentCorrelation,
+  INDICATOR_MIN_ROWS, indicatorDiagnostics, centrePerInstrument,
+} from './activity-indicators.ts'
+export {
+  type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
+  VETTING_DEFAULTS, periodRelation, activityVetting,
+} from './activity-vetting.ts'
