@@ -13,7 +13,9 @@ import type { Models } from './db/models.ts'
 import type { Mailer } from './mail/mailer.ts'
 import type { Services } from './services.ts'
 import { routes } from './routes.ts'
-import { errorMiddleware, HttpError, NotFoundError } from './errors.ts'
+import { errorForLog, errorMiddleware, HttpError, NotFoundError } from './errors.ts'
+import { normaliseEmail } from '../shared/api/auth.ts'
+import { refuseUnstorableText } from './input.ts'
 import { csrfMiddleware, sessionMiddleware } from './auth/session.ts'
 import { createFilesMiddleware, type Extras } from './guards.ts'
 
@@ -27,12 +29,39 @@ export interface AppDeps {
   distDir?: string
 }
 
-function limiter(windowMs: number, limit: number, what: string, skipSuccessfulRequests: boolean) {
+/** Client address + normalised e-mail: " V@t.test" and "v@t.test" share one counter. */
+function addressAndEmail(req: Request): string {
+  const email = (req.body as { email?: unknown } | undefined)?.email
+  return `${ipKeyGenerator(req.ip ?? '')}|${typeof email === 'string' ? normaliseEmail(email) : ''}`
+}
+
+/**
+ * Failed sign-ins per address + e-mail: only a wrong password (401) counts. Refusals of the input
+ * (400), the limit itself (429) and outages (503) leave the counter as it was, so a database
+ * outage locks nobody out.
+ */
+function signInLimiter(windowMs: number, limit: number, key: (req: Request) => string) {
   return rateLimit({
-    windowMs, limit, skipSuccessfulRequests, standardHeaders: 'draft-8', legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String((req.body as { email?: unknown } | undefined)?.email ?? '').toLowerCase()}`,
-    handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', `Too many ${what} attempts: wait 15 minutes and try again.`)),
+    windowMs, limit, skipSuccessfulRequests: true, requestWasSuccessful: (_req, res) => res.statusCode !== 401,
+    standardHeaders: 'draft-8', legacyHeaders: false, keyGenerator: key,
+    handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', 'Too many failed sign-in attempts: wait 15 minutes and try again, or reset your password.')),
   })
+}
+
+/** Every request counts except those the server failed (5xx). */
+function requestLimiter(windowMs: number, limit: number, what: string, key: (req: Request) => string) {
+  return rateLimit({
+    windowMs, limit, skipFailedRequests: true, requestWasSuccessful: (_req, res) => res.statusCode < 500,
+    standardHeaders: 'draft-8', legacyHeaders: false, keyGenerator: key,
+    handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', `Too many ${what}: wait and try again later.`)),
+  })
+}
+
+/** Access-log form of a URL: link tokens (invitations, resets) never reach the log. */
+export function loggedUrl(url: string): string {
+  return url
+    .replace(/(\/api\/invitations\/)[^/?#]+/, '$1<token>')
+    .replace(/([?&](?:token|inviteToken)=)[^&#]*/g, '$1<token>')
 }
 
 /** Builds the Express app around its dependencies; `index.ts` listens, tests call it directly. */
@@ -41,8 +70,11 @@ export function createApp(deps: AppDeps): Express {
   const logger = deps.logger ?? pino({ level: config.env === 'test' ? 'silent' : 'info' })
   const services: Services = { config, sequelize: deps.sequelize, models: deps.models, mailer: deps.mailer }
   const extras: Extras = {
-    loginLimiter: limiter(15 * 60_000, config.loginRateLimit, 'sign-in', true),
-    resetLimiter: limiter(15 * 60_000, config.loginRateLimit, 'password reset', false),
+    loginLimiter: signInLimiter(15 * 60_000, config.loginRateLimit, addressAndEmail),
+    // one address trying many e-mails (credential stuffing)
+    loginAddressLimiter: signInLimiter(15 * 60_000, config.loginRateLimit * 10, (req) => ipKeyGenerator(req.ip ?? '')),
+    resetLimiter: requestLimiter(15 * 60_000, config.loginRateLimit, 'password reset attempts', addressAndEmail),
+    shareLimiter: requestLimiter(60 * 60_000, config.shareRateLimit, 'share messages in an hour', (req) => `user|${(req.res?.locals.user as { id?: number } | null)?.id ?? ipKeyGenerator(req.ip ?? '')}`),
     files: createFilesMiddleware(services),
   }
   const s = Object.assign({}, services, { extras })
@@ -55,8 +87,9 @@ export function createApp(deps: AppDeps): Express {
     genReqId: (req) => (req.headers['x-request-id'] as string | undefined) ?? randomUUID(),
     // one short line per request: no headers (they carry the session cookie)
     serializers: {
-      req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+      req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: loggedUrl(req.url) }),
       res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      err: errorForLog,
     },
   }))
   app.use(helmet({
@@ -71,8 +104,11 @@ export function createApp(deps: AppDeps): Express {
   }))
   app.use(cookieParser())
   app.use(express.json({ limit: '1mb' }))
+  app.use(refuseUnstorableText)
+  // API answers carry user data: never stored by the browser or a proxy
+  app.use('/api', (_req, res, next) => { res.set('Cache-Control', 'no-store'); next() })
   app.use(sessionMiddleware(s))
-  app.use('/api', csrfMiddleware())
+  app.use('/api', csrfMiddleware(s))
 
   for (const route of routes) {
     app[route.method](route.path, async (req: Request, res: Response) => {
@@ -90,7 +126,8 @@ export function createApp(deps: AppDeps): Express {
 
   app.use(errorMiddleware({
     maxUploadBytes: config.upload.maxBytes,
-    log: (err, requestId) => logger.error({ err, requestId }, 'unexpected error'),
+    log: (err, requestId) => logger.error({ err: errorForLog(err), requestId }, 'unexpected error'),
+    warn: (err) => logger.warn({ err: errorForLog(err) }, 'database unavailable: answered 503'),
   }))
   return app
 }

@@ -18,6 +18,7 @@ const envSchema = z.object({
   UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(20 * 1024 * 1024),
   UPLOAD_MAX_ROWS: z.coerce.number().int().positive().default(200_000),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
+  SHARE_RATE_LIMIT: z.coerce.number().int().positive().default(20),
   JOB_WORKERS: z.enum(['0', '1', 'true', 'false']).default('1'),
   JOB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   JOB_STALE_SECONDS: z.coerce.number().positive().default(30),
@@ -39,6 +40,8 @@ export interface Config {
   upload: { maxBytes: number; maxRows: number; maxFiles: number }
   /** Failed sign-ins (and reset requests) allowed per 15 minutes per IP + e-mail. */
   loginRateLimit: number
+  /** Report share messages one user may send per hour. */
+  shareRateLimit: number
   /** Development-only routes (/api/dev/mail, /dev/mail). */
   devRoutes: boolean
   /** Job queue (server/jobs): whether this server process also works on jobs, and how. */
@@ -50,6 +53,18 @@ export interface Config {
 
 const DEV_SECRET = 'starsway-development-secret-not-for-production'
 
+/**
+ * Why a production JWT secret is too weak, or null. At least 32 characters (256 bits for
+ * HS256, RFC 7518 §3.2 asks for a key of at least the hash size) with at least 10 distinct
+ * characters, and never the published development one.
+ */
+export function weakSecretReason(secret: string): string | null {
+  if (secret === DEV_SECRET || secret.includes('starsway-development')) return 'is the published development secret'
+  if (secret.length < 32) return `has ${secret.length} characters; use at least 32`
+  if (new Set(secret).size < 10) return 'repeats too few characters'
+  return null
+}
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Partial<Config> = {}): Config {
   const parsed = envSchema.safeParse(env)
   if (!parsed.success) {
@@ -58,6 +73,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
   }
   const e = parsed.data
   if (e.NODE_ENV === 'production' && !e.JWT_SECRET) throw new Error('JWT_SECRET must be set in production')
+  const weak = e.NODE_ENV === 'production' && e.JWT_SECRET ? weakSecretReason(e.JWT_SECRET) : null
+  if (weak) throw new Error(`JWT_SECRET ${weak}: generate one with \`openssl rand -base64 48\``)
   const config: Config = {
     env: e.NODE_ENV,
     databaseUrl: e.DATABASE_URL,
@@ -70,6 +87,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     bcryptCost: e.BCRYPT_COST,
     upload: { maxBytes: e.UPLOAD_MAX_BYTES, maxRows: e.UPLOAD_MAX_ROWS, maxFiles: 10 },
     loginRateLimit: e.LOGIN_RATE_LIMIT,
+    shareRateLimit: e.SHARE_RATE_LIMIT,
     devRoutes: e.NODE_ENV !== 'production',
     jobs: {
       workers: e.JOB_WORKERS === '1' || e.JOB_WORKERS === 'true', concurrency: e.JOB_CONCURRENCY, staleSeconds: e.JOB_STALE_SECONDS,

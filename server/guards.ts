@@ -32,6 +32,9 @@ export function scope(res: Response): Scope {
 
 export const signedIn: Guard = (_req, res) => { signedInUser(res) }
 
+/** Development-only routes: absent (404) in production, and behind sign-in elsewhere. */
+export const devOnly: Guard = (_req, _res, s) => { if (!s.config.devRoutes) throw new NotFoundError('Route') }
+
 function idOf(req: Request, name: string, what: string): number {
   const raw = req.params[name]
   const n = Number(raw)
@@ -110,7 +113,9 @@ export function middleware(pick: (s: Services & { extras: Extras }) => RequestHa
 /** Per-app middleware instances (their state, such as rate-limit counters, belongs to one app). */
 export interface Extras {
   loginLimiter: RequestHandler
+  loginAddressLimiter: RequestHandler
   resetLimiter: RequestHandler
+  shareLimiter: RequestHandler
   files: RequestHandler
 }
 
@@ -123,5 +128,7 @@ export function createFilesMiddleware(s: Services): RequestHandler {
 }
 
 export const loginLimit = middleware((s) => s.extras.loginLimiter)
+export const loginAddressLimit = middleware((s) => s.extras.loginAddressLimiter)
+export const shareLimit = middleware((s) => s.extras.shareLimiter)
 export const resetLimit = middleware((s) => s.extras.resetLimiter)
 export const files = middleware((s) => s.extras.files)

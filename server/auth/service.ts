@@ -1,10 +1,11 @@
 import bcrypt from 'bcryptjs'
-import { Op } from 'sequelize'
+import { Op, UniqueConstraintError } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { User } from '../db/models.ts'
 import { ConflictError, UnauthorizedError, ValidationError } from '../errors.ts'
 import type { MeResponse, RegisterRequest, User as UserJson } from '../../shared/api/auth.ts'
 import { hashToken, newToken } from './tokens.ts'
+import { deleteUserSessions } from './sessions.ts'
 import { acceptInvitationInTx, findOpenInvitation } from '../teams/service.ts'
 
 const RESET_HOURS = 1
@@ -28,11 +29,17 @@ export async function register(s: Services, input: RegisterRequest): Promise<Use
     throw new ConflictError('An account with this e-mail already exists: sign in instead.', 'email')
   }
   const passwordHash = await bcrypt.hash(input.password, s.config.bcryptCost)
-  return s.sequelize.transaction(async (transaction) => {
-    const user = await s.models.User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
-    if (invitation) await acceptInvitationInTx(s, invitation, user, transaction)
-    return user
-  })
+  try {
+    return await s.sequelize.transaction(async (transaction) => {
+      const user = await s.models.User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
+      if (invitation) await acceptInvitationInTx(s, invitation, user, transaction)
+      return user
+    })
+  } catch (err) {
+    // two registrations of one address at the same moment: the unique index decides, the loser hears 409
+    if (err instanceof UniqueConstraintError) throw new ConflictError('An account with this e-mail already exists: sign in instead.', 'email')
+    throw err
+  }
 }
 
 /** Same message for an unknown e-mail and a wrong password (no user enumeration). */
@@ -69,8 +76,12 @@ export async function requestReset(s: Services, email: string): Promise<void> {
   const user = await s.models.User.findOne({ where: { email } })
   if (!user) return
   const { token, hash } = newToken()
-  await s.models.PasswordReset.create({
-    userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000), usedAt: null,
+  await s.sequelize.transaction(async (transaction) => {
+    // only the newest link works: older unused ones are spent now
+    await s.models.PasswordReset.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: null }, transaction })
+    await s.models.PasswordReset.create({
+      userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000), usedAt: null,
+    }, { transaction })
   })
   const link = `${s.config.appUrl}/reset?token=${token}`
   await s.mailer.send({
@@ -92,10 +103,11 @@ export async function resetPassword(s: Services, token: string, newPassword: str
     if (!reset) throw new ValidationError('This reset link is unknown, used or expired: ask for a new one.', 'token')
     const user = await s.models.User.findByPk(reset.userId, { transaction })
     if (!user) throw new ValidationError('This reset link is unknown, used or expired: ask for a new one.', 'token')
-    reset.usedAt = new Date()
-    await reset.save({ transaction })
+    // this link and every other open one of the user are spent; every session ends
+    await s.models.PasswordReset.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: null }, transaction })
     user.passwordHash = passwordHash
     user.tokenVersion = user.tokenVersion + 1
     await user.save({ transaction })
+    await deleteUserSessions(s, user.id, undefined, transaction)
   })
 }

@@ -42,6 +42,8 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   declare expiresAt: Date
   declare acceptedAt: Date | null
   declare invitedBy: number | null
+  /** An analyst's request (via a report share) that waits for an owner's approval; no usable token yet. */
+  declare pendingApproval: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
   declare team?: NonAttribute<Team>
@@ -173,7 +175,7 @@ export function initModels(sequelize: Sequelize): Models {
   Invitation.init({
     id: pk, email: { type: DataTypes.STRING, allowNull: false }, role: { type: roleType, allowNull: false },
     tokenHash: { type: DataTypes.STRING, allowNull: false }, expiresAt: { type: DataTypes.DATE, allowNull: false },
-    acceptedAt: DataTypes.DATE, invitedBy: DataTypes.INTEGER, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
+    acceptedAt: DataTypes.DATE, invitedBy: DataTypes.INTEGER, pendingApproval: { type: DataTypes.BOOLEAN, defaultValue: false }, createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
   }, { ...base, modelName: 'Invitation', tableName: 'invitations' })
   PasswordReset.init({
     id: pk, tokenHash: { type: DataTypes.STRING, allowNull: false }, expiresAt: { type: DataTypes.DATE, allowNull: false },

@@ -2,12 +2,29 @@ import type { Request, Response } from 'express'
 import { readFileSync } from 'node:fs'
 import type { Services } from '../services.ts'
 import { listDevMail } from '../mail/dev-server.ts'
-import { NotFoundError } from '../errors.ts'
+import { databaseError, NotFoundError, UnavailableError } from '../errors.ts'
 
 const version = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version
 
+/** Liveness: cheap, never touches the database (a load balancer may call it often). */
 export function health(_req: Request, res: Response): void {
   res.json({ ok: true, version })
+}
+
+const READY_TIMEOUT_MS = 2000
+
+/** Readiness: the database answers a trivial query within 2 s, else 503 with Retry-After. */
+export async function ready(_req: Request, res: Response, s: Services): Promise<void> {
+  let timer: NodeJS.Timeout | undefined
+  const timeout = new Promise<never>((_r, reject) => { timer = setTimeout(() => reject(new UnavailableError('The database did not answer within 2 s: try again in a few seconds.')), READY_TIMEOUT_MS) })
+  try {
+    await Promise.race([s.sequelize.query('SELECT 1'), timeout])
+  } catch (err) {
+    throw databaseError(err) ?? (err instanceof UnavailableError ? err : new UnavailableError())
+  } finally {
+    clearTimeout(timer)
+  }
+  res.json({ ok: true, version, database: 'up' })
 }
 
 /** Development only: the messages the local SMTP server stored, newest first. */

@@ -7,7 +7,7 @@ import type { FitModel } from '../db/models-analysis.ts'
 import { reportModels, type Report, type ReportReview, type ReportVersion as ReportVersionRow } from '../db/models-reports.ts'
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors.ts'
 import { record } from '../audit/service.ts'
-import { invite } from '../teams/service.ts'
+import { inviteOrRequest } from '../teams/service.ts'
 import { ROLE_RANK, type Role } from '../../shared/api/common.ts'
 import { diffSnapshots, snapshotFingerprint } from '../../shared/report/diff.ts'
 import { parameterRows } from '../../shared/report/table.ts'
@@ -149,7 +149,7 @@ export async function share(s: Services, actor: User, team: Team, report: Report
     if (!m) {
       user = null
       const open = await s.models.Invitation.findOne({ where: { teamId: team.id, email, acceptedAt: null } })
-      invitationId = open && open.expiresAt > new Date() ? open.id : (await invite(s, actor, team, email, 'reviewer')).id
+      invitationId = open && open.expiresAt > new Date() ? open.id : (await inviteOrRequest(s, actor, team, email, 'reviewer')).id
     }
   }
   if (user && user.id === actor.id) throw new ValidationError('userId: you cannot share a report with yourself.', 'userId')

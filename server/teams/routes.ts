@@ -37,6 +37,9 @@ export async function invite(req: Request, res: Response, s: Services): Promise<
   const input = createInvitationRequestSchema.parse(req.body)
   res.status(201).json(await teams.invite(s, signedInUser(res), scope(res).team!, input.email, input.role))
 }
+export async function approveInvitation(req: Request, res: Response, s: Services): Promise<void> {
+  res.json(await teams.approveInvitation(s, signedInUser(res), scope(res).team!, param(req, 'invitationId', 'Invitation')))
+}
 export async function revokeInvitation(req: Request, res: Response, s: Services): Promise<void> {
   await teams.revokeInvitation(s, signedInUser(res), scope(res).team!.id, param(req, 'invitationId', 'Invitation'))
   res.status(204).end()

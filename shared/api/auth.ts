@@ -1,13 +1,17 @@
 import { z } from 'zod'
 import { roleSchema } from './common.ts'
+import { weakPasswordReason } from './password.ts'
 
-export const emailSchema = z.string().trim().toLowerCase().pipe(z.email('must be an e-mail address'))
+/** The one normal form of an e-mail address (the schema below and the sign-in rate limit key on it). */
+export const normaliseEmail = (email: string): string => email.trim().toLowerCase()
+export const emailSchema = z.string().transform(normaliseEmail).pipe(z.email('must be an e-mail address').max(320, 'must be at most 320 characters'))
 export const passwordSchema = z.string().min(10, 'must be at least 10 characters').max(200, 'must be at most 200 characters')
+  .superRefine((p, ctx) => { const why = weakPasswordReason(p); if (why) ctx.addIssue({ code: 'custom', message: why }) })
 
 export const registerRequestSchema = z.object({
   email: emailSchema,
   password: passwordSchema,
-  name: z.string().trim().min(1, 'is required').max(120),
+  name: z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
   inviteToken: z.string().min(1).optional(),
 })
 export type RegisterRequest = z.infer<typeof registerRequestSchema>

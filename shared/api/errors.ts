@@ -1,6 +1,6 @@
 import { z } from 'zod'
 
-export const errorCodeSchema = z.enum(['validation', 'unauthorized', 'forbidden', 'not_found', 'conflict', 'too_large', 'rate_limited', 'internal'])
+export const errorCodeSchema = z.enum(['validation', 'unauthorized', 'forbidden', 'not_found', 'conflict', 'too_large', 'rate_limited', 'unavailable', 'internal'])
 export type ErrorCode = z.infer<typeof errorCodeSchema>
 
 /** The one error envelope every failing request returns. */

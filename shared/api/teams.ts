@@ -2,7 +2,7 @@ import { z } from 'zod'
 import { roleSchema } from './common.ts'
 import { emailSchema } from './auth.ts'
 
-export const createTeamRequestSchema = z.object({ name: z.string().trim().min(1, 'is required').max(120) })
+export const createTeamRequestSchema = z.object({ name: z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters') })
 export type CreateTeamRequest = z.infer<typeof createTeamRequestSchema>
 
 export const teamSummarySchema = z.object({ id: z.number().int(), name: z.string(), role: roleSchema })
@@ -23,6 +23,8 @@ export type CreateInvitationRequest = z.infer<typeof createInvitationRequestSche
 
 export const invitationSchema = z.object({
   id: z.number().int(), email: z.string(), role: roleSchema, expiresAt: z.string(), acceptedAt: z.string().nullable(),
+  /** Requested by an analyst (sharing a report with an outsider): no link is sent until an owner approves. */
+  pendingApproval: z.boolean(),
 })
 export type Invitation = z.infer<typeof invitationSchema>
 export const invitationListResponseSchema = z.array(invitationSchema)

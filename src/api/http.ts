@@ -5,7 +5,7 @@
 
 export type ApiErrorCode =
   | 'validation' | 'unauthorized' | 'forbidden' | 'not_found' | 'conflict'
-  | 'too_large' | 'rate_limited' | 'internal' | 'network'
+  | 'too_large' | 'rate_limited' | 'unavailable' | 'internal' | 'network'
 
 /** A failed request, as the screen shows it. `field` names the offending input when the server says so. */
 export class ApiError extends Error {
@@ -62,6 +62,7 @@ function codeForStatus(status: number): ApiErrorCode {
   if (status === 409) return 'conflict'
   if (status === 413) return 'too_large'
   if (status === 429) return 'rate_limited'
+  if (status === 503) return 'unavailable'
   return 'internal'
 }
 

@@ -50,15 +50,16 @@ async function extraMember(): Promise<number> {
   await t.models.Membership.create({ teamId, userId: u.id, role: 'reviewer' })
   return u.id
 }
-async function openInvitation(email = `invitee-${unique()}@example.test`): Promise<{ id: number; token: string }> {
+async function openInvitation(email = `invitee-${unique()}@example.test`, pendingApproval = false): Promise<{ id: number; token: string }> {
   const { token, hash } = newToken()
-  const inv = await t.models.Invitation.create({ teamId, email, role: 'reviewer', tokenHash: hash, expiresAt: new Date(Date.now() + 86400_000), acceptedAt: null, invitedBy: null })
+  const inv = await t.models.Invitation.create({ teamId, email, role: 'reviewer', tokenHash: hash, expiresAt: new Date(Date.now() + 86400_000), acceptedAt: null, invitedBy: null, pendingApproval })
   expect(hashToken(token)).toBe(hash)
   return { id: inv.id, token }
 }
 
 const cases: Case[] = [
   { method: 'get', route: '/api/health', path: '/api/health', expect: anyone(200) },
+  { method: 'get', route: '/api/health/ready', path: '/api/health/ready', expect: anyone(200) },
   { method: 'post', route: '/api/auth/register', path: '/api/auth/register', expect: anyone(201),
     body: () => ({ email: `new-${unique()}@example.test`, password: 'long enough pw', name: 'New' }) },
   { method: 'post', route: '/api/auth/login', path: '/api/auth/login', expect: anyone(200),
@@ -81,6 +82,8 @@ const cases: Case[] = [
   { method: 'get', route: '/api/teams/:teamId/invitations', path: '/api/teams/TEAM/invitations', expect: owner(200) },
   { method: 'post', route: '/api/teams/:teamId/invitations', path: '/api/teams/TEAM/invitations', expect: owner(201),
     body: () => ({ email: `invitee-${unique()}@example.test`, role: 'reviewer' }) },
+  { method: 'post', route: '/api/teams/:teamId/invitations/:invitationId/approve', expect: owner(200),
+    prepare: async () => ({ path: `/api/teams/${teamId}/invitations/${(await openInvitation(undefined, true)).id}/approve` }) },
   { method: 'delete', route: '/api/teams/:teamId/invitations/:invitationId', expect: owner(204),
     prepare: async () => ({ path: `/api/teams/${teamId}/invitations/${(await openInvitation()).id}` }) },
   { method: 'get', route: '/api/invitations/:token', expect: anyone(200),
@@ -109,8 +112,9 @@ const cases: Case[] = [
   { method: 'patch', route: '/api/measurements/:measurementId', path: '/api/measurements/MEASUREMENT', expect: analyst(200),
     body: { excluded: true, reason: 'access test' } },
   { method: 'get', route: '/api/teams/:teamId/audit', path: '/api/teams/TEAM/audit', expect: member(200) },
-  { method: 'get', route: '/api/dev/mail', path: '/api/dev/mail', expect: anyone(200) },
-  { method: 'get', route: '/dev/mail', path: '/dev/mail', expect: anyone(200) },
+  // development only (404 in production, tests/server/app.spec.ts), and behind sign-in
+  { method: 'get', route: '/api/dev/mail', path: '/api/dev/mail', expect: signedIn(200) },
+  { method: 'get', route: '/dev/mail', path: '/dev/mail', expect: signedIn(200) },
 ]
 
 function fill(path: string): string {

@@ -42,9 +42,14 @@ describe('listening test app', () => {
     expect(res.status).toBe(202)
     const msg = await t.mail.waitFor((m) => m.to.includes('ines.reviewer@lanternfield.test'))
     expect(msg.text).toContain(`${t.baseUrl}/reset?token=`)
-    const list = await (await fetch(`${t.baseUrl}/api/dev/mail`)).json() as Array<{ subject: string; to: string[] }>
+    expect((await fetch(`${t.baseUrl}/api/dev/mail`)).status).toBe(401) // behind sign-in: the page shows reset links
+    const signedIn = await fetch(`${t.baseUrl}/api/auth/login`, {
+      method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'nadia.owner@lanternfield.test', password: 'starsway-demo' }),
+    })
+    const cookie = signedIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+    const list = await (await fetch(`${t.baseUrl}/api/dev/mail`, { headers: { cookie } })).json() as Array<{ subject: string; to: string[] }>
     expect(list[0]).toMatchObject({ subject: 'Reset your Starsway password', to: ['ines.reviewer@lanternfield.test'] })
-    const page = await (await fetch(`${t.baseUrl}/dev/mail`)).text()
+    const page = await (await fetch(`${t.baseUrl}/dev/mail`, { headers: { cookie } })).text()
     expect(page).toMatch(/Reset your Starsway password/)
   })
 })

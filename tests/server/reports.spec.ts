@@ -242,10 +242,14 @@ describe('sharing and review', () => {
     await reviewer.post(`/api/reports/${reportId}/shares`, { email: 'x@example.test' }).expect(403)
   })
 
-  it('shares with an outside address: a reviewer invitation and the report e-mail; after joining they can approve', async () => {
+  it('shares with an outside address: a reviewer invitation (an analyst\'s needs an owner\'s approval) and the report e-mail; after joining they can approve', async () => {
     const email = 'coauthor@elsewhere.test'
     const res = await analyst.post(`/api/reports/${reportId}/shares`, { email }).expect(201)
     expect(res.body.invited).toBe(true)
+    await t.mail.waitFor((m) => m.to.includes(EMAIL.owner) && /asks to invite coauthor@elsewhere\.test/.test(m.subject))
+    const pending = (await owner.get(`/api/teams/${t.seed!.teamId}/invitations`).expect(200)).body.find((i: { email: string }) => i.email === email)
+    expect(pending.pendingApproval).toBe(true)
+    await owner.post(`/api/teams/${t.seed!.teamId}/invitations/${pending.id}/approve`).expect(200)
     const invitation = await t.mail.waitFor((m) => m.to.includes(email) && /invites you/.test(m.subject))
     await t.mail.waitFor((m) => m.to.includes(email) && /shares the report/.test(m.subject))
     const token = /token=([A-Za-z0-9_-]+)/.exec(invitation.text)![1]!

@@ -1,0 +1,42 @@
+import { QueryTypes, type Transaction } from 'sequelize'
+import { randomBytes } from 'node:crypto'
+import type { Services } from '../services.ts'
+import type { User } from '../db/models.ts'
+import { hashToken } from './tokens.ts'
+
+// Server-side sessions (table `sessions`, migration 0007): the cookie carries a random id, the
+// table its sha256. Sign-out deletes the row; a password change or reset deletes the others.
+
+/** Creates a session for the user; returns its id (goes into the signed cookie only). */
+export async function createSession(s: Services, userId: number, days: number): Promise<string> {
+  const id = randomBytes(32).toString('base64url')
+  await s.sequelize.query(
+    `INSERT INTO sessions (id_hash, user_id, created_at, expires_at) VALUES (:hash, :userId, now(), now() + make_interval(days => :days))`,
+    { replacements: { hash: hashToken(id), userId, days }, type: QueryTypes.INSERT },
+  )
+  // a user's expired sessions go when they sign in again (the table stays small)
+  await s.sequelize.query(`DELETE FROM sessions WHERE user_id = :userId AND expires_at < now()`, { replacements: { userId }, type: QueryTypes.DELETE })
+  return id
+}
+
+export async function deleteSession(s: Services, id: string): Promise<void> {
+  await s.sequelize.query(`DELETE FROM sessions WHERE id_hash = :hash`, { replacements: { hash: hashToken(id) }, type: QueryTypes.DELETE })
+}
+
+/** Ends every session of the user (password reset), or every one but `keep` (password change). */
+export async function deleteUserSessions(s: Services, userId: number, keep?: string, transaction?: Transaction): Promise<void> {
+  await s.sequelize.query(
+    keep ? `DELETE FROM sessions WHERE user_id = :userId AND id_hash <> :keep` : `DELETE FROM sessions WHERE user_id = :userId`,
+    { replacements: { userId, keep: keep ? hashToken(keep) : null }, type: QueryTypes.DELETE, transaction },
+  )
+}
+
+/** The user of a live session (one query), or null when the session is unknown, expired or another user's. */
+export async function sessionUser(s: Services, id: string, userId: number): Promise<User | null> {
+  return s.models.User.findOne({
+    where: s.sequelize.and(
+      { id: userId },
+      s.sequelize.literal(`EXISTS (SELECT 1 FROM sessions WHERE id_hash = ${s.sequelize.escape(hashToken(id))} AND user_id = "User"."id" AND expires_at > now())`),
+    ),
+  })
+}
