@@ -58,6 +58,8 @@ export const routes: Route[] = [
 
   { method: 'get', path: '/api/stars/:starId/measurements', guards: [star('reviewer')], handler: measurements.list },
   { method: 'patch', path: '/api/measurements/:measurementId', guards: [measurement('analyst')], handler: measurements.update },
+  { method: 'get', path: '/api/datasets/:datasetId/usage', guards: [dataset('reviewer')], handler: measurements.datasetUsage },
+  { method: 'delete', path: '/api/datasets/:datasetId', guards: [dataset('analyst')], handler: measurements.deleteDataset },
 
   { method: 'get', path: '/api/teams/:teamId/audit', guards: [team('reviewer')], handler: audit.list },
 

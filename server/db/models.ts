@@ -70,6 +70,12 @@ export class Star extends Model<InferAttributes<Star>, InferCreationAttributes<S
   declare luminosityLsun: number | null
   declare raDeg: number | null
   declare decDeg: number | null
+  /** Proper motion μα* = μα cos δ and μδ, mas/yr, at `coordEpochJd` (TDB JD; null: J2000.0). */
+  declare pmRaMasYr: CreationOptional<number | null>
+  declare pmDecMasYr: CreationOptional<number | null>
+  declare coordEpochJd: CreationOptional<number | null>
+  /** The observatory offered when this star's times are converted to BJD_TDB (shared/api/stars.ts `siteSchema`). */
+  declare defaultSite: CreationOptional<{ id?: string; name: string; lonDeg: number; latDeg: number; heightM: number } | null>
   declare notes: string | null
   declare archivedAt: Date | null
   declare createdAt: CreationOptional<Date>
@@ -186,6 +192,7 @@ export function initModels(sequelize: Sequelize): Models {
     massMsun: { type: DataTypes.DOUBLE, allowNull: false }, massErrMsun: { type: DataTypes.DOUBLE, allowNull: false },
     radiusRsun: DataTypes.DOUBLE, teffK: DataTypes.DOUBLE, luminosityLsun: DataTypes.DOUBLE,
     raDeg: DataTypes.DOUBLE, decDeg: DataTypes.DOUBLE, notes: DataTypes.TEXT, archivedAt: DataTypes.DATE,
+    pmRaMasYr: DataTypes.DOUBLE, pmDecMasYr: DataTypes.DOUBLE, coordEpochJd: DataTypes.DOUBLE, defaultSite: DataTypes.JSONB,
     createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
   }, { ...base, modelName: 'Star', tableName: 'stars' })
   RawFile.init({

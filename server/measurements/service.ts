@@ -3,20 +3,28 @@ import type { Services } from '../services.ts'
 import type { Measurement, Star, User } from '../db/models.ts'
 import type { Measurement as MeasurementJson } from '../../shared/api/measurements.ts'
 import { record } from '../audit/service.ts'
+import { timeScaleName } from '../../shared/time/index.ts'
 
 interface Row {
-  id: number; dataset_id: number; instrument: string; time: number; rv: number; error: number
+  id: number; dataset_id: number; instrument: string; time_scale: string | null; time_format: string; time: number; rv: number; error: number
   indicators: Record<string, number>; excluded: boolean; excluded_reason: string | null
   excluded_by: number | null; excluder_name: string | null; excluded_at: Date | null
 }
 
-const SELECT = `SELECT m.id, m.dataset_id, d.instrument, m.time, m.rv, m.error, m.indicators, m.excluded,
+// The scale is read through to_jsonb(d) so this query works before and after the column exists.
+const SELECT = `SELECT m.id, m.dataset_id, d.instrument, to_jsonb(d)->>'time_scale' AS time_scale, d.time_format, m.time, m.rv, m.error, m.indicators, m.excluded,
        m.excluded_reason, m.excluded_by, u.name AS excluder_name, m.excluded_at
   FROM measurements m JOIN datasets d ON d.id = m.dataset_id LEFT JOIN users u ON u.id = m.excluded_by`
 
+/** A dataset's time scale: as recorded at upload; a 'bjd' time format without one means BJD_TDB; else unknown. */
+export function datasetTimeScale(scale: string | null, timeFormat: string): string {
+  if (scale) return timeScaleName(scale)
+  return timeFormat === 'bjd' ? 'bjd_tdb' : 'unknown'
+}
+
 function json(r: Row): MeasurementJson {
   return {
-    id: r.id, datasetId: r.dataset_id, instrument: r.instrument, time: r.time, rv: r.rv, error: r.error,
+    id: r.id, datasetId: r.dataset_id, instrument: r.instrument, timeScale: datasetTimeScale(r.time_scale, r.time_format), time: r.time, rv: r.rv, error: r.error,
     indicators: r.indicators ?? {}, excluded: r.excluded, excludedReason: r.excluded_reason,
     excludedBy: r.excluded_by !== null ? { id: r.excluded_by, name: r.excluder_name ?? '' } : null,
     excludedAt: r.excluded_at ? new Date(r.excluded_at).toISOString() : null,

@@ -1,7 +1,7 @@
 import { QueryTypes, UniqueConstraintError } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star, User } from '../db/models.ts'
-import { ConflictError } from '../errors.ts'
+import { ConflictError, ValidationError } from '../errors.ts'
 import type { CreateStarRequest, Star as StarJson, StarSummary, UpdateStarRequest } from '../../shared/api/stars.ts'
 import { record } from '../audit/service.ts'
 
@@ -40,6 +40,8 @@ export async function starJson(s: Services, star: Star): Promise<StarJson> {
   return {
     ...summary(star, st), teamId: star.teamId, radiusRsun: star.radiusRsun, teffK: star.teffK,
     luminosityLsun: star.luminosityLsun, raDeg: star.raDeg, decDeg: star.decDeg, notes: star.notes,
+    pmRaMasYr: star.pmRaMasYr ?? null, pmDecMasYr: star.pmDecMasYr ?? null, coordEpochJd: star.coordEpochJd ?? null,
+    defaultSite: star.defaultSite ?? null,
     createdAt: star.createdAt.toISOString(),
   }
 }
@@ -62,6 +64,8 @@ export async function createStar(s: Services, actor: User, teamId: number, input
         teamId, name: input.name, massMsun: input.massMsun, massErrMsun: input.massErrMsun,
         radiusRsun: input.radiusRsun ?? null, teffK: input.teffK ?? null, luminosityLsun: input.luminosityLsun ?? null,
         raDeg: input.raDeg ?? null, decDeg: input.decDeg ?? null, notes: input.notes ?? null, archivedAt: null,
+        pmRaMasYr: input.pmRaMasYr ?? null, pmDecMasYr: input.pmDecMasYr ?? null, coordEpochJd: input.coordEpochJd ?? null,
+        defaultSite: input.defaultSite ?? null,
       }, { transaction })
       await record(s, { teamId, userId: actor.id, action: 'star.create', entity: 'star', entityId: star.id, detail: { name: star.name } }, transaction)
       return star
@@ -74,9 +78,14 @@ export async function updateStar(s: Services, actor: User, star: Star, input: Up
   for (const [k, v] of Object.entries(input) as [keyof UpdateStarRequest, unknown][]) {
     if (v === undefined) continue
     const before = star.get(k)
-    if (before !== v) changes[k] = { from: before, to: v }
+    if (JSON.stringify(before ?? null) !== JSON.stringify(v)) changes[k] = { from: before ?? null, to: v }
   }
   if (Object.keys(changes).length === 0) return star
+  // a proper motion needs coordinates: check the star as it will be, not only the fields sent
+  const after = { ...star.get({ plain: true }), ...Object.fromEntries(Object.entries(changes).map(([k, c]) => [k, c.to])) } as Star
+  if ((after.pmRaMasYr != null || after.pmDecMasYr != null) && (after.raDeg == null || after.decDeg == null)) {
+    throw new ValidationError('raDeg: is required with a proper motion (RA and Dec both)', 'raDeg')
+  }
   try {
     return await s.sequelize.transaction(async (transaction) => {
       star.set(Object.fromEntries(Object.entries(changes).map(([k, c]) => [k, c.to])))

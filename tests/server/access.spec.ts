@@ -57,6 +57,17 @@ async function openInvitation(email = `invitee-${unique()}@example.test`, pendin
   return { id: inv.id, token }
 }
 
+/** A fresh, unused dataset on the probe star (each successful deletion removes one). */
+async function spareDataset(): Promise<number> {
+  const n = ++counter
+  const name = `spare-${n}.txt`
+  const content = `# bjd rv err\n${2459500.5 + n * 10} 10.0 1.0\n${2459501.5 + n * 10} 12.0 1.1\n${2459502.5 + n * 10} 9.0 1.0\n`
+  const c = await signIn(t.app, EMAIL.analyst)
+  const pre = await c.upload(`/api/stars/${starId}/uploads/preview`, [{ name, content }]).expect(200)
+  const com = await c.upload(`/api/stars/${starId}/uploads/commit`, [{ name, content }], { mappings: { [name]: pre.body.files[0].detection.mapping } }).expect(201)
+  return com.body.datasets[0].id
+}
+
 const cases: Case[] = [
   { method: 'get', route: '/api/health', path: '/api/health', expect: anyone(200) },
   { method: 'get', route: '/api/health/ready', path: '/api/health/ready', expect: anyone(200) },
@@ -108,6 +119,9 @@ const cases: Case[] = [
     upload: { fields: () => ({ mappings: { 'probe.txt': mapping } }) } },
   { method: 'get', route: '/api/stars/:starId/datasets', path: '/api/stars/STAR/datasets', expect: member(200) },
   { method: 'get', route: '/api/datasets/:datasetId/raw', path: '/api/datasets/DATASET/raw', expect: member(200) },
+  { method: 'get', route: '/api/datasets/:datasetId/usage', path: '/api/datasets/DATASET/usage', expect: member(200) },
+  { method: 'delete', route: '/api/datasets/:datasetId', expect: analyst(204),
+    prepare: async () => ({ path: `/api/datasets/${await spareDataset()}` }) },
   { method: 'get', route: '/api/stars/:starId/measurements', path: '/api/stars/STAR/measurements', expect: member(200) },
   { method: 'patch', route: '/api/measurements/:measurementId', path: '/api/measurements/MEASUREMENT', expect: analyst(200),
     body: { excluded: true, reason: 'access test' } },
