@@ -9,7 +9,7 @@ export const MIN_ERROR = 1e-3
 const JUMP = 1000
 
 function fmt(v: number): string {
-  return Math.abs(v) >= 1e6 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : String(Number(v.toPrecision(10)))
+  return Math.abs(v) >= 1e8 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : String(Number(v.toPrecision(10)))
 }
 
 /**

@@ -39,8 +39,9 @@ function chooseDelimiter(lines: string[]): { delimiter: Delimiter; why: string; 
  * least three columns: each cell is then read where it stands.
  */
 function tryFixed(lines: string[]): ReturnType<typeof findFixedFields> {
+  // The first line may be the header: its names must not be cut either, so it counts for the ink.
   const body = lines.length >= 3 ? lines.slice(1) : lines
-  const fields = findFixedFields(body)
+  const fields = findFixedFields(lines)
   if (!fields || fields.length < 3) return null
   const counts = body.map((l) => splitCells(l, 'whitespace').length)
   const varied = counts.some((c) => c !== counts[0])
