@@ -1,29 +1,33 @@
 /// <reference path="../../types/vendor.d.ts" />
-// The PDF of one frozen report version: pdfkit with the app's Roboto font, the plots drawn from
-// ECharts SSR SVGs by svg-to-pdfkit (vector paths and text).
+// The PDF of one frozen report version: pdfkit with DejaVu Sans (a Unicode font shipped with the app
+// through npm, so Greek letters, Δ, χ², ω, M☉, M⊕ and accented names print as written), the plots drawn
+// from ECharts SSR SVGs by svg-to-pdfkit (vector paths and text).
 import { createRequire } from 'node:module'
 import { readFileSync } from 'node:fs'
 import PDFDocument from 'pdfkit'
 import SVGtoPDF from 'svg-to-pdfkit'
 import type { Approval, ReportSnapshot } from '../../shared/api/reports.ts'
 import { formatPlain } from '../../shared/report/round.ts'
-import { instrumentRows, parameterRows, plainInterval, plainValue } from '../../shared/report/table.ts'
+import { instrumentRows, plainInterval, plainValue } from '../../shared/report/table.ts'
+import { solutionGrid, type GridCell } from '../../shared/report/solution-grid.ts'
+import { snapshotTimeSystem } from '../../shared/report/time-label.ts'
 import { cornerOption, periodogramOption, phaseOption, renderSvg, residualsOption, timeSeriesOption } from './charts.ts'
 
 const require = createRequire(import.meta.url)
 let fonts: { regular: Buffer; bold: Buffer } | undefined
 function loadFonts() {
   fonts ??= {
-    regular: readFileSync(require.resolve('@fontsource/roboto/files/roboto-latin-400-normal.woff')),
-    bold: readFileSync(require.resolve('@fontsource/roboto/files/roboto-latin-700-normal.woff')),
+    regular: readFileSync(require.resolve('dejavu-fonts-ttf/ttf/DejaVuSans.ttf')),
+    bold: readFileSync(require.resolve('dejavu-fonts-ttf/ttf/DejaVuSans-Bold.ttf')),
   }
   return fonts
 }
 
-/** The Latin subset of Roboto has no Greek or math glyphs: spell them out. */
-function latin(text: string): string {
-  return text.replace(/ω/g, 'omega').replace(/−/g, '-').replace(/γ̇/g, 'dgamma/dt').replace(/[–—]/g, '-').replace(/²/g, '^2').replace(/⊕/g, 'Earth')
-    .replace(/[^\x20-\x7e\xa0-\xff\n]/g, '?')
+/** One cell of the solution grid as plain text: posterior interval when sampled, else the fit ± 1σ. */
+function gridText(c: GridCell | null, sampled: boolean, shift: number): string {
+  if (!c) return ''
+  if (sampled && c.median !== null) return plainInterval(c.median - shift, c.plus, c.minus)
+  return plainValue(c.value === null ? null : c.value - shift, c.error)
 }
 
 const PAGE = { width: 595.28, height: 841.89, margin: 40 }
@@ -35,16 +39,18 @@ export interface PdfInput { reportId: number; version: number; snapshot: ReportS
 export async function reportPdf(input: PdfInput): Promise<Buffer> {
   const s = input.snapshot
   const f = loadFonts()
-  const doc = new PDFDocument({ size: 'A4', margin: PAGE.margin, info: { Title: latin(`${s.title} (version ${input.version})`), Author: latin(s.frozenBy.name), Creator: `Starsway ${s.product.version}` } })
-  doc.registerFont('Roboto', f.regular)
-  doc.registerFont('Roboto-Bold', f.bold)
+  const doc = new PDFDocument({ size: 'A4', margin: PAGE.margin, info: { Title: `${s.title} (version ${input.version})`, Author: s.frozenBy.name, Creator: `Starsway ${s.product.version}` } })
+  doc.registerFont('Body', f.regular)
+  doc.registerFont('Body-Bold', f.bold)
   const chunks: Buffer[] = []
   doc.on('data', (c: Buffer) => chunks.push(c))
   const done = new Promise<void>((resolve, reject) => { doc.on('end', () => resolve()); doc.on('error', reject) })
 
-  const h1 = (t: string) => { doc.font('Roboto-Bold').fontSize(16).text(latin(t)); doc.moveDown(0.3) }
-  const h2 = (t: string) => { doc.moveDown(0.5); doc.font('Roboto-Bold').fontSize(11.5).text(latin(t)); doc.moveDown(0.2) }
-  const para = (t: string, size = 9.5) => { doc.font('Roboto').fontSize(size).text(latin(t), { width: CONTENT_W }) }
+  const h1 = (t: string) => { doc.font('Body-Bold').fontSize(16).text(t); doc.moveDown(0.3) }
+  const h2 = (t: string) => { doc.moveDown(0.5); doc.font('Body-Bold').fontSize(11.5).text(t); doc.moveDown(0.2) }
+  /** A section heading, on a new page unless `room` points are left below it. */
+  const h1Room = (t: string, room: number) => { if (doc.y + room + 30 > PAGE.height - PAGE.margin) doc.addPage(); else doc.moveDown(0.8); h1(t) }
+  const para = (t: string, size = 9.5) => { doc.font('Body').fontSize(size).text(t, { width: CONTENT_W }) }
   const table = (header: string[], rows: string[][], widths: number[]) => {
     const x0 = PAGE.margin
     const rowH = 13
@@ -52,8 +58,8 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
       if (doc.y + rowH > PAGE.height - PAGE.margin) doc.addPage()
       const y = doc.y
       let x = x0
-      doc.font(bold ? 'Roboto-Bold' : 'Roboto').fontSize(8.5)
-      cells.forEach((c, i) => { doc.text(latin(c), x + 2, y, { width: widths[i]! - 4, lineBreak: false, ellipsis: true }); x += widths[i]! })
+      doc.font(bold ? 'Body-Bold' : 'Body').fontSize(8)
+      cells.forEach((c, i) => { doc.text(c, x + 2, y, { width: widths[i]! - 4, lineBreak: false, ellipsis: true }); x += widths[i]! })
       doc.x = x0
       doc.y = y + rowH
     }
@@ -64,7 +70,7 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
   }
   const plot = (svg: string, height: number) => {
     if (doc.y + height > PAGE.height - PAGE.margin) doc.addPage()
-    SVGtoPDF(doc, svg, PAGE.margin, doc.y, { width: CONTENT_W, height, fontCallback: () => 'Roboto' })
+    SVGtoPDF(doc, svg, PAGE.margin, doc.y, { width: CONTENT_W, height, fontCallback: (_family: string, bold: boolean) => (bold ? 'Body-Bold' : 'Body') })
     doc.y += height + 8
     doc.x = PAGE.margin
   }
@@ -75,61 +81,69 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
     `Starsway ${s.product.version}${s.product.commit ? ` (${s.product.commit.slice(0, 12)})` : ''}.`)
   para(`Data hash (SHA-256 of the included measurements and the exclusions): ${s.data.hash}`, 8)
   if (s.data.changedSinceFit) para('Note: the star\'s data changed after this fit (points excluded or restored); the values below are those of the fit as frozen.', 8.5)
+  const ts = snapshotTimeSystem(s)
   h2('Star')
-  table(['Name', 'Mass (M_Sun)', 'Radius (R_Sun)', 'Teff (K)', 'Luminosity (L_Sun)'], [[
+  table(['Name', 'Mass (M☉)', 'Radius (R☉)', 'Teff (K)', 'Luminosity (L☉)'], [[
     s.star.name, plainValue(s.star.massMsun, s.star.massErrMsun), s.star.radiusRsun === null ? '—' : formatPlain(s.star.radiusRsun, 4),
     s.star.teffK === null ? '—' : formatPlain(s.star.teffK, 5), s.star.luminosityLsun === null ? '—' : formatPlain(s.star.luminosityLsun, 4),
   ]], [135, 95, 95, 85, 105])
-  h2('Parameters')
-  const sampled = !!s.sampling
-  const prow = parameterRows(s)
-  table(['Planet', 'Parameter', 'Unit', 'Fit (1 sigma)', ...(sampled ? ['Posterior median (16-84 %)'] : []), 'Kind'],
-    prow.map((r) => [r.planet ?? '', r.label, r.unit, plainValue(r.value, r.error), ...(sampled ? [plainInterval(r.median, r.plus, r.minus)] : []), r.kind]),
-    sampled ? [40, 150, 45, 105, 115, 60] : [45, 190, 55, 150, 75])
+  const g = solutionGrid(s)
+  h2(g.sampled ? 'Solution (posterior medians, 16th–84th percentiles)' : 'Solution (maximum likelihood, ±1σ)')
+  if (g.columns.length) {
+    const valueW = Math.max(70, Math.min(150, (CONTENT_W - 250) / g.columns.length))
+    for (const sec of g.sections) {
+      const cols = sec.rows[0]?.cells.length === g.columns.length ? g.columns : ['all planets']
+      table([sec.title, 'Unit', ...cols], sec.rows.map((r) => [r.label, r.unit, ...r.cells.map((c) => gridText(c, g.sampled && !sec.title.startsWith('Long-term'), r.shift))]),
+        [140, 110, ...cols.map(() => valueW)])
+    }
+    para(`Derived quantities use M★ = ${plainValue(s.star.massMsun, s.star.massErrMsun)} M☉. Times are ${ts.label} (full Julian dates minus ${formatPlain(ts.offset, 10)}).${g.sections.length > 2 ? ` Drifts are per year about the reference epoch ${formatPlain(s.result.epoch, 10)}.` : ''}`, 8)
+  } else para('No planets in this model.', 9)
   h2('Instruments')
-  table(['Instrument', 'n', 'Offset (m/s)', 'Jitter (m/s)', 'rms (m/s)'],
-    instrumentRows(s).map((i) => [i.name, String(i.n), plainValue(i.offset, i.offsetErr), plainValue(i.jitter, i.jitterErr), i.rms === null ? '—' : formatPlain(i.rms, 3)]),
+  table(['Instrument', 'n', 'Zero point (m/s)', 'Jitter (m/s)', 'rms (m/s)'],
+    instrumentRows(s).map((i) => [i.name, String(i.n),
+      g.sampled && i.offsetPost ? plainInterval(i.offsetPost.median, i.offsetPost.plus, i.offsetPost.minus) : plainValue(i.offset, i.offsetErr),
+      g.sampled && i.jitterPost ? plainInterval(i.jitterPost.median, i.jitterPost.plus, i.jitterPost.minus) : plainValue(i.jitter, i.jitterErr),
+      i.rms === null ? '—' : formatPlain(i.rms, 3)]),
     [135, 45, 120, 120, 95])
   h2('Statistics')
   const st = s.result.stats
-  table(['N', 'Parameters', 'chi2', 'Reduced chi2', 'ln L', 'BIC', 'AIC', 'rms (m/s)', 'Status'],
+  table(['N', 'Free', 'χ²', 'Reduced χ²', 'ln L', 'BIC', 'AIC', 'rms (m/s)', 'Status'],
     [[String(st.nPoints), String(st.nParams), st.chi2 === null ? '—' : formatPlain(st.chi2, 5), st.reducedChi2 === null ? '—' : formatPlain(st.reducedChi2, 4),
       st.lnL === null ? '—' : formatPlain(st.lnL, 6), st.bic === null ? '—' : formatPlain(st.bic, 6), st.aic === null ? '—' : formatPlain(st.aic, 6),
-      st.rms === null ? '—' : formatPlain(st.rms, 3), st.status]], [35, 55, 55, 60, 60, 65, 65, 55, 65])
+      st.rms === null ? '—' : formatPlain(st.rms, 3), st.status]], [35, 40, 55, 70, 60, 65, 65, 60, 65])
   if (s.comparison) {
     h2('Model comparison')
-    table(['Model', 'Version', 'Planets', 'Trend', 'BIC', 'Delta BIC', 'Evidence', 'Preferred'],
+    table(['Model', 'Version', 'Planets', 'Trend', 'BIC', 'ΔBIC', 'Evidence', 'Preferred'],
       s.comparison.rows.map((r) => [r.name, String(r.version), String(r.planets), r.trend, formatPlain(r.bic, 6), r.deltaBic === null ? '—' : formatPlain(r.deltaBic, 3), r.evidence ?? '—', r.preferred ? 'yes' : '']),
       [130, 45, 45, 55, 70, 60, 60, 50])
     para(s.comparison.reading, 8.5)
   }
   if (s.result.warnings.length) { h2('Warnings'); for (const w of s.result.warnings) para(`• ${w.message}`, 8.5) }
 
-  // ---- plots
+  // ---- plots: velocities and residuals share one page and one time axis; the rest packed
   doc.addPage()
   h1('Data, model and residuals')
-  plot(renderSvg(timeSeriesOption(s), 640, 330), 290)
-  plot(renderSvg(residualsOption(s), 640, 300), 260)
+  plot(renderSvg(timeSeriesOption(s), 640, 330), 300)
+  plot(renderSvg(residualsOption(s), 640, 300), 270)
   if (s.result.planets.length) {
-    doc.addPage()
-    h1('Phase-folded orbits')
-    s.result.planets.forEach((_, k) => plot(renderSvg(phaseOption(s, k), 640, 300), 260))
+    h1Room('Phase-folded orbits', 250)
+    s.result.planets.forEach((_, k) => plot(renderSvg(phaseOption(s, k), 640, 300), 250))
   }
   if (s.periodogram || s.residualPeriodogram) {
-    doc.addPage()
-    h1('Periodograms')
-    if (s.periodogram) plot(renderSvg(periodogramOption(s.periodogram, 'Periodogram of the velocities (generalised Lomb-Scargle) with FAP levels'), 640, 300), 260)
-    if (s.residualPeriodogram) plot(renderSvg(periodogramOption(s.residualPeriodogram, 'Periodogram of the residuals with FAP levels'), 640, 300), 260)
+    h1Room('Periodograms', 240)
+    if (s.periodogram) plot(renderSvg(periodogramOption(s.periodogram, 'Periodogram of the velocities (generalised Lomb–Scargle) with false-alarm levels'), 640, 290), 240)
+    if (s.residualPeriodogram) plot(renderSvg(periodogramOption(s.residualPeriodogram, 'Periodogram of the residuals with false-alarm levels'), 640, 290), 240)
   }
-  const corner = cornerOption(s)
+  const corner = cornerOption(s.sampling?.corner, { fontFamily: 'Body' })
   if (corner && s.sampling) {
     doc.addPage()
     h1('Posterior')
     para(`Ensemble sampler: ${s.sampling.settings.walkers} walkers, ${s.sampling.settings.steps} steps, burn-in ${s.sampling.settings.burn}, thinning ${s.sampling.settings.thin}, seed ${s.sampling.settings.seed}; ` +
-      `acceptance ${formatPlain(s.sampling.diagnostics.acceptance, 2)}; ${s.sampling.diagnostics.converged ? 'converged' : 'NOT converged'}.`)
+      `acceptance ${formatPlain(s.sampling.diagnostics.acceptance, 2)}; ${s.sampling.diagnostics.converged ? 'converged' : 'NOT converged'}. ` +
+      'Contours enclose 39.3 % and 86.5 % of the draws (1σ and 2σ in two dimensions); dashed lines mark the 16th, 50th and 84th percentiles.')
     for (const w of s.sampling.diagnostics.warnings) para(`• ${w}`, 8.5)
     doc.moveDown(0.5)
-    plot(renderSvg(corner, 600, 600), CONTENT_W)
+    plot(renderSvg(corner, 620, 620), CONTENT_W)
   }
 
   // ---- methods and provenance
@@ -141,7 +155,7 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
   h2('Provenance')
   para(`Included measurements: ${s.data.nIncluded} (${s.data.instruments.join(', ')}); excluded: ${s.data.nExcluded}. Fit: ${s.settings.fit.status}, ${s.settings.fit.iterations} iterations, trend ${s.settings.fit.trend}.`, 9)
   if (s.data.exclusions.length) {
-    table(['Measurement', 'Instrument', 'Time (JD)', 'Reason', 'By'],
+    table(['Measurement', 'Instrument', `Time (${ts.scale})`, 'Reason', 'By'],
       s.data.exclusions.map((x) => [String(x.id), x.instrument, formatPlain(x.time, 12), x.reason ?? '', x.by?.name ?? '']), [70, 80, 90, 200, 75])
   }
   h2('Review')

@@ -52,6 +52,17 @@ function periodogramSnapshot(r: PeriodogramRun | null): SnapshotPeriodogram | nu
   }
 }
 
+/**
+ * The velocity periodogram the report shows and its methods text describe: the latest run over
+ * exactly the instruments of the fit; a run over another selection (a test on one instrument, say)
+ * is never picked silently. Null when none matches.
+ */
+async function periodogramOfFit(PeriodogramRun: ReturnType<typeof analysisModels>['PeriodogramRun'], starId: number, fitted: string[]): Promise<PeriodogramRun | null> {
+  const runs = await PeriodogramRun.findAll({ where: { starId, kind: 'rv' }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: 50 })
+  const want = [...fitted].sort().join('\u0000')
+  return runs.find((r) => [...(r.data?.instruments ?? [])].sort().join('\u0000') === want) ?? null
+}
+
 interface SamplingRow { id: number; star_id: number; model_version_id: number | null; state: string; settings: SnapshotSampling['settings']; result: null | { parameters: SnapshotSampling['parameters']; diagnostics: { converged: boolean; acceptance: number; warnings: string[] }; sample: { names: string[]; units: string[]; columns: Array<Array<number | null>> } }; finished_at: Date | null }
 
 /** A succeeded sampling run of this model version (400 naming samplingRunId otherwise). */
@@ -99,7 +110,7 @@ export async function buildSnapshot(s: Services, actor: User, star: Star, model:
   const included = points.filter((p) => p.included)
   const nowUsed = inModel.filter((r) => !r.excluded && Number.isFinite(r.time) && Number.isFinite(r.rv) && r.error > 0)
   const changedSinceFit = rvHash(nowUsed) !== result.data.hash
-  const rvRun = await PeriodogramRun.findOne({ where: { starId: star.id, kind: 'rv' }, order: [['createdAt', 'DESC'], ['id', 'DESC']] })
+  const rvRun = await periodogramOfFit(PeriodogramRun, star.id, result.data.instruments)
   const resRun = await PeriodogramRun.findOne({ where: { starId: star.id, kind: 'residuals', modelVersionId: v.id }, order: [['createdAt', 'DESC'], ['id', 'DESC']] })
   const sampling = samplingRunId !== undefined ? await samplingSnapshot(s, star, v, samplingRunId) : null
   const cmp = await compareModels(s, star)

@@ -99,12 +99,12 @@ export function solutionGrid(s: ReportSnapshot): SolutionGrid {
   }
   const sections: GridSection[] = [
     { title: 'Orbit', rows: ORBIT.map(row) },
-    { title: `Derived (M★ = ${s.star.massMsun} ± ${s.star.massErrMsun} M☉)`, rows: DERIVED.map(row) },
+    { title: 'Derived', rows: DERIVED.map(row) },
   ]
   const drift = rows.filter((r) => r.planet === null)
   if (drift.length) {
     sections.push({
-      title: `Long-term drift (about the reference epoch ${s.result.epoch})`,
+      title: 'Long-term drift',
       rows: drift.map((r) => {
         const q = r.key === 'trend.slope' ? 'slope' : 'curvature'
         // per year (and per year squared): readable numbers where per day gives 1e-6 (common practice)

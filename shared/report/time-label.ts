@@ -45,12 +45,11 @@ export function timeSystemOf(scale: string | null | undefined, offset: number): 
   }
 }
 
-/** The epoch subtracted for printing: the largest multiple of 10 000 below the earliest time (common practice: 2 450 000). */
+/** The epoch subtracted for printing: whole multiples of 50 000 d below the earliest time (2 450 000 for 1995–2132; common practice), as the app's axes. */
 export function printEpoch(times: number[]): number {
-  const finite = times.filter(Number.isFinite)
-  if (!finite.length) return 0
-  const t0 = Math.min(...finite)
-  return t0 > 2_000_000 ? Math.floor(t0 / 10_000) * 10_000 : 0
+  let t0 = Infinity
+  for (const t of times) if (Number.isFinite(t) && t < t0) t0 = t
+  return t0 >= 100_000 && t0 < Infinity ? Math.floor(t0 / 50_000) * 50_000 : 0
 }
 
 /** The time system of a snapshot (older snapshots carry no scale: "JD", named as not recorded). */
