@@ -42,3 +42,6 @@ export {
   type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
   VETTING_DEFAULTS, periodRelation, activityVetting,
 } from './activity-vetting.ts'
+export {
+  type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, fitWithGp, trainGpOnIndicator,
+} from './gp-fit.ts'

@@ -62,40 +62,70 @@ export function semiseparableLogLikelihood(
   t: Float64Array, scale: Float64Array, noiseVar: Float64Array, terms: readonly SemiseparableTerm[], y: Float64Array,
 ): number {
   const n = t.length, nt = terms.length, J = 2 * nt
+  // Flat copies of the term coefficients (no object access in the loop).
+  const ta = new Float64Array(nt), tb = new Float64Array(nt), tc = new Float64Array(nt), td = new Float64Array(nt)
+  terms.forEach((q, j) => { ta[j] = q.a; tb[j] = q.b; tc[j] = q.c; td[j] = q.d })
+  // Fewer transcendental calls (they dominate the cost): a term at exactly twice term 0's frequency
+  // takes its cos/sin by the double-angle formulae, and terms sharing term 0's decay share its exp.
+  const harmonic = new Uint8Array(nt), sameDecay = new Uint8Array(nt)
+  for (let j = 1; j < nt; j++) {
+    harmonic[j] = Math.abs(td[j] - 2 * td[0]) <= 1e-14 * td[j] ? 1 : 0
+    sameDecay[j] = tc[j] === tc[0] ? 1 : 0
+  }
+  const cosv = new Float64Array(nt), sinv = new Float64Array(nt)
   const S = new Float64Array(J * J), f = new Float64Array(J)
   const u = new Float64Array(J), v = new Float64Array(J), w = new Float64Array(J), tmp = new Float64Array(J)
   const phi = new Float64Array(J)
   const a0 = totalVariance(terms)
   const t0 = n ? t[0] : 0
-  let dPrev = 0, zPrev = 0, logDet = 0, quad = 0
+  let dPrev = 0, zPrev = 0, logDet = 0, quad = 0, prod = 1
   for (let i = 0; i < n; i++) {
-    const x = t[i] - t0
-    fillRow(x, scale[i], terms, u, v, 0)
+    const x = t[i] - t0, si = scale[i]
+    for (let j = 0; j < nt; j++) {
+      let cs: number, sn: number
+      if (harmonic[j]) { const c1 = cosv[0], s1 = sinv[0]; cs = 2 * c1 * c1 - 1; sn = 2 * s1 * c1 } // cos 2θ, sin 2θ from term 0
+      else { cs = Math.cos(td[j] * x); sn = Math.sin(td[j] * x) }
+      cosv[j] = cs; sinv[j] = sn
+      u[2 * j] = si * (ta[j] * cs + tb[j] * sn)
+      u[2 * j + 1] = si * (ta[j] * sn - tb[j] * cs)
+      v[2 * j] = si * cs
+      v[2 * j + 1] = si * sn
+    }
     if (i > 0) {
       const dt = t[i] - t[i - 1]
-      for (let j = 0; j < nt; j++) { const p = Math.exp(-terms[j].c * dt); phi[2 * j] = p; phi[2 * j + 1] = p }
+      for (let j = 0; j < nt; j++) { const p = sameDecay[j] ? phi[0] : Math.exp(-tc[j] * dt); phi[2 * j] = p; phi[2 * j + 1] = p }
       for (let k = 0; k < J; k++) {
-        const wk = dPrev * w[k]
-        for (let l = 0; l < J; l++) S[k * J + l] = phi[k] * phi[l] * (S[k * J + l] + wk * w[l])
-        f[k] = phi[k] * (f[k] + w[k] * zPrev)
+        const wk = dPrev * w[k], pk = phi[k]
+        const row = k * J
+        for (let l = 0; l <= k; l++) {
+          const val = pk * phi[l] * (S[row + l] + wk * w[l])
+          S[row + l] = val
+          S[l * J + k] = val
+        }
+        f[k] = pk * (f[k] + w[k] * zPrev)
       }
     }
     let uSu = 0, uf = 0
     for (let k = 0; k < J; k++) {
-      let s = 0
-      for (let l = 0; l < J; l++) s += S[k * J + l] * u[l]
-      tmp[k] = s
-      uSu += u[k] * s
+      let acc = 0
+      const row = k * J
+      for (let l = 0; l < J; l++) acc += S[row + l] * u[l]
+      tmp[k] = acc
+      uSu += u[k] * acc
       uf += u[k] * f[k]
     }
-    const d = noiseVar[i] + scale[i] * scale[i] * a0 - uSu
+    const d = noiseVar[i] + si * si * a0 - uSu
     if (!(d > 0)) throw new RangeError(NOT_PD)
-    for (let k = 0; k < J; k++) w[k] = (v[k] - tmp[k]) / d
+    const id = 1 / d
+    for (let k = 0; k < J; k++) w[k] = (v[k] - tmp[k]) * id
     const z = y[i] - uf
-    logDet += Math.log(d)
-    quad += (z * z) / d
+    // ln det as Σ ln of running products (one log per block, flushed before over/underflow)
+    prod *= d
+    if (prod > 1e150 || prod < 1e-150) { logDet += Math.log(prod); prod = 1 }
+    quad += z * z * id
     dPrev = d; zPrev = z
   }
+  logDet += Math.log(prod)
   return -0.5 * (quad + logDet + n * Math.log(2 * Math.PI))
 }
 

@@ -1,0 +1,412 @@
+/**
+ * Keplerian fit with a Gaussian-process noise model ("planets + GP"): the same Keplerians, offsets
+ * and trend as the white-noise fitter, but the residuals are scored by the GP likelihood
+ * ln N(r | 0, C) with C from `gp/noise-model.ts` (rotation kernel: O(N) semiseparable solver;
+ * quasi-periodic: dense). Offsets and trend are profiled out exactly by generalised least squares
+ * at every step (θ = (AᵀC⁻¹A)⁻¹AᵀC⁻¹r); everything else is found by the MAP of ln L + ln prior with a
+ * Nelder–Mead simplex (restarted once from its optimum), and errors come from the inverse of the
+ * central-difference Hessian of −ln posterior there (Laplace approximation; common practice).
+ *
+ * Hyperparameters and their stated priors (each may be fixed instead):
+ * - rotation period P_rot: Gaussian N(value, sigma²) — value from an activity indicator's periodogram
+ *   or the user (default sigma 10 % of the value);
+ * - decay time: flat in ln between P_rot/2 and 10 × the baseline (a decay shorter than half a rotation
+ *   leaves no periodicity to speak of; common practice after Haywood et al. 2014);
+ * - amplitude(s): flat in ln between 0.01 and 1000 m/s (data units for an indicator);
+ * - shape: rotation kernel f flat on [0, 1]; quasi-periodic Γ flat in ln on [0.05, 20];
+ * - jitter per instrument: flat in ln between 0.001 and 1000 m/s.
+ * "Train on an indicator first": `trainGpOnIndicator` fits the GP alone to an activity indicator
+ * (FWHM, S-index …) and returns the kernel shape to reuse, fixed or as the centre of the priors.
+ */
+import { radialVelocity, tcToTp, tpToTc, type Keplerian } from './model.ts'
+import { baseline, checkRvData, type RvData } from './orbit-data.ts'
+import { invertSymmetric } from './linalg.ts'
+import type { PlanetStart, TrendKind } from './orbit-fit-types.ts'
+import { checkKernelShape, kernelValue, rotationTerms, type KernelShape } from './gp/kernels.ts'
+import { denseFactor, denseSolve } from './gp/dense.ts'
+import { semiseparableFactor, semiseparableSolve } from './gp/semiseparable.ts'
+import { gpActivityAtData, gpFactor, type GpNoiseModel } from './gp/noise-model.ts'
+import { nelderMead } from './gp/nelder-mead.ts'
+
+const DEG = Math.PI / 180
+const E_LIMIT = 0.95
+
+export interface GpHyperSpec {
+  kernel: 'rotation' | 'quasi-periodic'
+  /** Rotation period: prior centre (d), its 1σ (default 10 %), where the value came from (for reports). */
+  period: { value: number; sigma?: number; fixed?: boolean; source?: string }
+  /** Decay time (d): start (default 2 × period) or fixed value. */
+  decayTime?: { value?: number; fixed?: boolean }
+  /** Rotation kernel f ∈ [0, 1] (default start 0.5) or quasi-periodic Γ (default start 1). */
+  shape?: { value?: number; fixed?: boolean }
+  /** Amplitude(s), m/s: start or fixed values; `perInstrument` (default false) gives each instrument its own. */
+  amplitude?: { value?: number[]; fixed?: boolean; perInstrument?: boolean }
+}
+
+export interface GpFitOptions {
+  planets: PlanetStart[]
+  gp: GpHyperSpec
+  trend?: TrendKind
+  epoch?: number
+  /** 'fit' (default) or fixed jitters per instrument (m/s). */
+  jitter?: 'fit' | number[]
+  /** Largest number of likelihood evaluations per simplex run (default 4000 × free parameters). */
+  maxEvaluations?: number
+  /** Skip the Hessian (errors NaN; for screening). */
+  skipUncertainties?: boolean
+}
+
+export interface GpPlanetFit {
+  period: number; K: number; e: number; omegaDeg: number; tc: number; tp: number
+  uncertainty: { period: number; K: number; e: number; tc: number }
+}
+
+export interface GpFitResult {
+  success: boolean
+  status: 'converged' | 'max-evaluations' | 'failed'
+  message: string
+  planets: GpPlanetFit[]
+  instruments: Array<{ name: string; offset: number; jitter: number; amplitude: number }>
+  trend: { kind: TrendKind; slope: number; curvature: number; epoch: number }
+  /** The fitted noise model (kernel shape, amplitudes, jitters) — reusable in gp/ functions. */
+  noise: GpNoiseModel
+  /** 1σ errors of the free hyperparameters (NaN where fixed or undetermined). */
+  noiseUncertainty: { period: number; decayTime: number; shape: number; amplitude: number[] }
+  /** The priors as applied, in words (for the methods text). */
+  priors: string[]
+  stats: { nPoints: number; nParams: number; lnL: number; lnPosterior: number; bic: number; aic: number }
+  /** y − Keplerians − offsets − trend (the GP's input). */
+  residuals: Float64Array
+  /** The GP's conditional mean at each row (the activity as that row's instrument sees it). */
+  activity: Float64Array
+  evaluations: number
+}
+
+interface Layout {
+  np: number
+  nInst: number
+  nAmp: number
+  freeAmp: boolean
+  freeDecay: boolean
+  freePeriod: boolean
+  freeShape: boolean
+  freeJitter: boolean
+  nFree: number
+}
+
+const clampLn = (v: number, lo: number, hi: number): boolean => v >= Math.log(lo) && v <= Math.log(hi)
+
+function median(a: ArrayLike<number>): number {
+  const s = Array.from(a).sort((x, y) => x - y)
+  return s.length ? s[Math.floor(s.length / 2)] : 0
+}
+
+/** Checks the options; throws naming the field. */
+function checkSpec(o: GpFitOptions, nInst: number): void {
+  const g = o.gp
+  if (g.kernel !== 'rotation' && g.kernel !== 'quasi-periodic') throw new RangeError(`gp.kernel must be 'rotation' or 'quasi-periodic' (got ${g.kernel})`)
+  if (!(g.period && g.period.value > 0)) throw new RangeError(`gp.period.value must be > 0 (got ${g.period?.value})`)
+  if (g.period.sigma !== undefined && !(g.period.sigma > 0)) throw new RangeError(`gp.period.sigma must be > 0 (got ${g.period.sigma})`)
+  const d = g.decayTime?.value
+  if (d !== undefined && !(d > g.period.value / 2)) throw new RangeError(`gp.decayTime.value must exceed half the rotation period (${g.period.value / 2} d), got ${d}`)
+  const a = g.amplitude?.value
+  if (a && (a.length !== 1 && a.length !== nInst)) throw new RangeError(`gp.amplitude.value must have 1 or ${nInst} values`)
+  if (Array.isArray(o.jitter) && o.jitter.length !== nInst) throw new RangeError(`jitter must have ${nInst} values (one per instrument)`)
+  o.planets.forEach((p, k) => {
+    if (!(p.period > 0)) throw new RangeError(`planets[${k}].period must be > 0`)
+    if (p.tc === undefined && p.tp === undefined) throw new RangeError(`planets[${k}] needs tc or tp`)
+  })
+}
+
+/** Fits Keplerians + offsets + trend with a GP noise model; see the module comment. */
+export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
+  checkRvData(data)
+  const nInst = data.instrumentNames.length
+  checkSpec(opts, nInst)
+  const g = opts.gp
+  const n = data.t.length
+  const span = baseline(data.t)
+  const trend = opts.trend ?? 'none'
+  const epoch = opts.epoch ?? data.t.reduce((s, v) => s + v, 0) / Math.max(1, n)
+  const jitterFree = opts.jitter === undefined || opts.jitter === 'fit'
+  const perInst = !!g.amplitude?.perInstrument && nInst > 1
+  const L: Layout = {
+    np: opts.planets.length, nInst, nAmp: perInst ? nInst : 1,
+    freeAmp: !g.amplitude?.fixed, freeDecay: !g.decayTime?.fixed, freePeriod: !g.period.fixed, freeShape: !g.shape?.fixed,
+    freeJitter: jitterFree, nFree: 0,
+  }
+  L.nFree = 5 * L.np + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0) + (L.freePeriod ? 1 : 0) + (L.freeShape ? 1 : 0) + (L.freeJitter ? nInst : 0)
+  const nTrend = trend === 'none' ? 0 : trend === 'linear' ? 1 : 2
+  const nLin = nInst + nTrend
+
+  // Rows sorted by time once (the fast solver needs it); results are mapped back at the end.
+  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => data.t[a] - data.t[b] || a - b)
+  const t = Float64Array.from(order, (i) => data.t[i])
+  const y = Float64Array.from(order, (i) => data.y[i])
+  const dy = Float64Array.from(order, (i) => data.dy[i])
+  const inst = Int32Array.from(order, (i) => data.instrument[i])
+  const A: Float64Array[] = []
+  for (let k = 0; k < nInst; k++) A.push(Float64Array.from(inst, (v) => (v === k ? 1 : 0)))
+  if (nTrend >= 1) A.push(Float64Array.from(t, (v) => v - epoch))
+  if (nTrend >= 2) A.push(Float64Array.from(t, (v) => (v - epoch) ** 2))
+
+  // Starting values
+  const medErr = median(dy)
+  const ampStart = g.amplitude?.value ?? [Math.max(medErr, 1)]
+  const shapeStart = g.shape?.value ?? (g.kernel === 'rotation' ? 0.5 : 1)
+  const decayStart = g.decayTime?.value ?? 2 * g.period.value
+  const jitStart = Array.isArray(opts.jitter) ? opts.jitter : new Array<number>(nInst).fill(Math.max(0.1 * medErr, 0.01))
+  const periodSigma = g.period.sigma ?? 0.1 * g.period.value
+  const x0: number[] = []
+  const step: number[] = []
+  for (const p of opts.planets) {
+    const e = p.e ?? 0, w = (p.omegaDeg ?? 90) * DEG
+    const tc = p.tc ?? tpToTc(p.tp!, p.period, e, w)
+    x0.push(Math.log(p.period), Math.log(Math.max(p.K, 0.01)), Math.sqrt(e) * Math.cos(w), Math.sqrt(e) * Math.sin(w), tc)
+    step.push(Math.max(0.2 * p.period / Math.max(span, p.period), 1e-4), 0.1, 0.1, 0.1, 0.05 * p.period)
+  }
+  if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { x0.push(Math.log(ampStart.length === 1 ? ampStart[0] : ampStart[k])); step.push(0.3) }
+  if (L.freeDecay) { x0.push(Math.log(decayStart)); step.push(0.3) }
+  if (L.freePeriod) { x0.push(Math.log(g.period.value)); step.push(Math.min(0.05, periodSigma / g.period.value)) }
+  if (L.freeShape) { x0.push(g.kernel === 'rotation' ? Math.min(0.95, Math.max(0.05, shapeStart)) : Math.log(shapeStart)); step.push(g.kernel === 'rotation' ? 0.1 : 0.3) }
+  if (L.freeJitter) for (let k = 0; k < nInst; k++) { x0.push(Math.log(Math.max(jitStart[k], 0.01))); step.push(0.5) }
+
+  interface Unpacked { orbits: Keplerian[]; amp: number[]; decay: number; period: number; shape: number; jit: number[]; lnPrior: number; ok: boolean }
+  const unpack = (x: ArrayLike<number>): Unpacked => {
+    let j = 0, ok = true, lnPrior = 0
+    const orbits: Keplerian[] = []
+    for (let k = 0; k < L.np; k++) {
+      const P = Math.exp(x[j]), K = Math.exp(x[j + 1]), a = x[j + 2], b = x[j + 3], tc = x[j + 4]
+      const e = a * a + b * b
+      if (!(e < E_LIMIT) || !(K < 1e5)) ok = false
+      const omega = Math.atan2(b, a)
+      orbits.push({ period: P, K, e, omega, tp: ok ? tcToTp(tc, P, e, omega) : tc })
+      j += 5
+    }
+    const amp: number[] = []
+    if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { if (!clampLn(x[j], 0.01, 1000)) ok = false; amp.push(Math.exp(x[j++])) }
+    else amp.push(...ampStart)
+    const period = L.freePeriod ? Math.exp(x[L.np * 5 + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0)]) : g.period.value
+    let decay = decayStart
+    if (L.freeDecay) { decay = Math.exp(x[j]); j++ }
+    if (L.freePeriod) j++
+    if (!(decay > period / 2 && decay < 10 * Math.max(span, period))) ok = false
+    let shape = shapeStart
+    if (L.freeShape) {
+      shape = g.kernel === 'rotation' ? x[j] : Math.exp(x[j])
+      if (g.kernel === 'rotation' ? !(shape >= 0 && shape <= 1) : !clampLn(x[j], 0.05, 20)) ok = false
+      j++
+    }
+    const jit: number[] = []
+    if (L.freeJitter) for (let k = 0; k < nInst; k++) { if (!clampLn(x[j], 0.001, 1000)) ok = false; jit.push(Math.exp(x[j++])) }
+    else jit.push(...jitStart)
+    if (L.freePeriod) lnPrior += -0.5 * ((period - g.period.value) / periodSigma) ** 2
+    return { orbits, amp, decay, period, shape, jit, lnPrior, ok }
+  }
+  const kernelOf = (u: Unpacked): KernelShape => g.kernel === 'rotation'
+    ? { kind: 'rotation', period: u.period, decayTime: u.decay, shape: u.shape }
+    : { kind: 'quasi-periodic', period: u.period, decayTime: u.decay, roughness: u.shape }
+
+  const scale = new Float64Array(n), noise = new Float64Array(n), r0 = new Float64Array(n)
+  /** ln L profiled over offsets and trend; also returns θ and the residual when asked. */
+  const evaluate = (u: Unpacked, keep = false): { lnL: number; theta: Float64Array; resid: Float64Array | null } => {
+    const kep = radialVelocity(t, u.orbits)
+    for (let i = 0; i < n; i++) {
+      r0[i] = y[i] - kep[i]
+      scale[i] = u.amp.length === 1 ? u.amp[0] : u.amp[inst[i]]
+      noise[i] = dy[i] * dy[i] + u.jit[inst[i]] ** 2
+    }
+    const kern = kernelOf(u)
+    checkKernelShape(kern)
+    let solve: (v: Float64Array) => Float64Array, logDet: number
+    if (kern.kind === 'rotation') {
+      const f = semiseparableFactor(t, scale, noise, rotationTerms(kern))
+      solve = (v) => semiseparableSolve(f, v); logDet = f.logDet
+    } else {
+      const f = denseFactor(t, scale, noise, (tau) => kernelValue(tau, kern))
+      solve = (v) => denseSolve(f, v); logDet = f.logDet
+    }
+    const cr = solve(r0)
+    const CA = A.map(solve)
+    const M = new Float64Array(nLin * nLin), bv = new Float64Array(nLin)
+    for (let p = 0; p < nLin; p++) {
+      for (let i = 0; i < n; i++) bv[p] += A[p][i] * cr[i]
+      for (let q = 0; q <= p; q++) {
+        let s = 0
+        for (let i = 0; i < n; i++) s += A[p][i] * CA[q][i]
+        M[p * nLin + q] = s; M[q * nLin + p] = s
+      }
+    }
+    const { inv } = invertSymmetric(M, nLin)
+    const theta = new Float64Array(nLin)
+    for (let p = 0; p < nLin; p++) for (let q = 0; q < nLin; q++) theta[p] += inv[p * nLin + q] * bv[q]
+    let quad = 0
+    for (let i = 0; i < n; i++) quad += r0[i] * cr[i]
+    for (let p = 0; p < nLin; p++) quad -= theta[p] * bv[p]
+    const lnL = -0.5 * (quad + logDet + n * Math.log(2 * Math.PI))
+    let resid: Float64Array | null = null
+    if (keep) {
+      resid = Float64Array.from(r0)
+      for (let p = 0; p < nLin; p++) for (let i = 0; i < n; i++) resid[i] -= theta[p] * A[p][i]
+    }
+    return { lnL, theta, resid }
+  }
+  const cost = (x: Float64Array): number => {
+    const u = unpack(x)
+    if (!u.ok) return Infinity
+    try {
+      const v = evaluate(u).lnL + u.lnPrior
+      return Number.isFinite(v) ? -v : Infinity
+    } catch {
+      return Infinity
+    }
+  }
+
+  const priors = describePriors(g, periodSigma, span, jitterFree)
+  const maxEval = opts.maxEvaluations ?? 4000 * Math.max(1, L.nFree)
+  let x = Float64Array.from(x0), evaluations = 0, converged = true
+  if (L.nFree > 0) {
+    if (!Number.isFinite(cost(x))) {
+      return failed(data, opts, priors, 'the starting point is outside the priors or gives no likelihood (check the starting orbit, the rotation period and the decay time)')
+    }
+    for (let run = 0; run < 2; run++) {
+      const r = nelderMead(cost, x, { step, maxEvaluations: maxEval, fTolerance: 1e-8 })
+      evaluations += r.evaluations
+      x = Float64Array.from(r.x)
+      converged = r.converged
+    }
+  }
+  const u = unpack(x)
+  const best = evaluate(u, true)
+
+  // Errors from the Hessian of −ln posterior in the free coordinates (Laplace approximation).
+  const errs = new Float64Array(L.nFree).fill(NaN)
+  let hessNote = ''
+  if (!opts.skipUncertainties && L.nFree > 0) {
+    const h = step.map((s) => s * 1e-2)
+    const f0 = cost(x)
+    const xp = Float64Array.from(x)
+    const at = (i: number, di: number, j: number, dj: number): number => {
+      xp.set(x); xp[i] += di; xp[j] += dj
+      return cost(xp)
+    }
+    // Parameters at a prior bound (a jitter at its floor, say) are held there: errors NaN, noted.
+    const free = Array.from({ length: L.nFree }, (_, i) => i).filter((i) => Number.isFinite(at(i, h[i], i, 0)) && Number.isFinite(at(i, -h[i], i, 0)))
+    const m = free.length
+    const H = new Float64Array(m * m)
+    for (let a = 0; a < m; a++) {
+      const i = free[a]
+      H[a * m + a] = (at(i, h[i], i, 0) - 2 * f0 + at(i, -h[i], i, 0)) / (h[i] * h[i])
+      for (let b = 0; b < a; b++) {
+        const j = free[b]
+        const v = (at(i, h[i], j, h[j]) - at(i, h[i], j, -h[j]) - at(i, -h[i], j, h[j]) + at(i, -h[i], j, -h[j])) / (4 * h[i] * h[j])
+        H[a * m + b] = v; H[b * m + a] = v
+      }
+    }
+    if (m < L.nFree) hessNote += `; ${L.nFree - m} parameter(s) at a prior bound, held there for the errors`
+    if (H.every(Number.isFinite)) {
+      const { inv, singular } = invertSymmetric(H, m)
+      for (let a = 0; a < m; a++) errs[free[a]] = inv[a * m + a] > 0 ? Math.sqrt(inv[a * m + a]) : NaN
+      if (singular) hessNote += '; some parameters are not constrained by the data (their errors are infinite)'
+    } else hessNote += '; the errors could not be computed (the posterior is not smooth at the optimum)'
+  }
+
+  const planets: GpPlanetFit[] = u.orbits.map((o, k) => {
+    const j = 5 * k
+    const a = x[j + 2], b = x[j + 3]
+    const e = o.e
+    const se = Math.sqrt((2 * a * errs[j + 2]) ** 2 + (2 * b * errs[j + 3]) ** 2)
+    return {
+      period: o.period, K: o.K, e, omegaDeg: ((o.omega / DEG) % 360 + 360) % 360, tc: x[j + 4], tp: o.tp,
+      uncertainty: { period: o.period * errs[j], K: o.K * errs[j + 1], e: se, tc: errs[j + 4] },
+    }
+  })
+  let j = 5 * L.np
+  const ampErr: number[] = []
+  if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { ampErr.push(u.amp[k] * errs[j]); j++ }
+  else ampErr.push(...u.amp.map(() => NaN))
+  const decayErr = L.freeDecay ? u.decay * errs[j++] : NaN
+  const periodErr = L.freePeriod ? u.period * errs[j++] : NaN
+  const shapeErr = L.freeShape ? (g.kernel === 'rotation' ? errs[j] : u.shape * errs[j]) : NaN
+
+  const noiseModel: GpNoiseModel = { kernel: kernelOf(u), amplitude: u.amp, jitter: u.jit }
+  const residuals = new Float64Array(n)
+  best.resid!.forEach((v, k) => { residuals[order[k]] = v })
+  const activity = gpActivityAtData(gpFactor(data, noiseModel), residuals)
+  const nParams = L.nFree + nLin
+  const lnPost = best.lnL + u.lnPrior
+  const status = !Number.isFinite(best.lnL) ? 'failed' : converged ? 'converged' : 'max-evaluations'
+  return {
+    success: status === 'converged',
+    status,
+    message: status === 'converged' ? `converged after ${evaluations} likelihood evaluations${hessNote}`
+      : status === 'failed' ? 'no finite likelihood at the optimum' : `stopped after ${evaluations} evaluations without meeting the tolerance${hessNote}`,
+    planets,
+    instruments: data.instrumentNames.map((name, k) => ({ name, offset: best.theta[k], jitter: u.jit[k], amplitude: u.amp.length === 1 ? u.amp[0] : u.amp[k] })),
+    trend: { kind: trend, slope: nTrend >= 1 ? best.theta[nInst] : 0, curvature: nTrend >= 2 ? best.theta[nInst + 1] : 0, epoch },
+    noise: noiseModel,
+    noiseUncertainty: { period: periodErr, decayTime: decayErr, shape: shapeErr, amplitude: ampErr },
+    priors,
+    stats: { nPoints: n, nParams, lnL: best.lnL, lnPosterior: lnPost, bic: nParams * Math.log(n) - 2 * best.lnL, aic: 2 * nParams - 2 * best.lnL },
+    residuals, activity, evaluations,
+  }
+}
+
+function describePriors(g: GpHyperSpec, periodSigma: number, span: number, jitterFree: boolean): string[] {
+  const out: string[] = []
+  const src = g.period.source ? ` (from ${g.period.source})` : ''
+  out.push(g.period.fixed ? `rotation period fixed at ${g.period.value} d${src}` : `rotation period ~ N(${g.period.value}, ${periodSigma.toPrecision(3)}²) d${src}`)
+  out.push(g.decayTime?.fixed ? `decay time fixed at ${g.decayTime.value} d` : `decay time flat in ln between half the rotation period and ${(10 * span).toFixed(0)} d`)
+  if (g.kernel === 'rotation') out.push(g.shape?.fixed ? `shape factor fixed at ${g.shape.value}` : 'shape factor (P/2 harmonic share) flat on [0, 1]')
+  else out.push(g.shape?.fixed ? `Γ fixed at ${g.shape.value}` : 'Γ flat in ln on [0.05, 20]')
+  out.push(g.amplitude?.fixed ? `GP amplitude fixed at ${g.amplitude.value?.join(', ')}` : `GP amplitude${g.amplitude?.perInstrument ? ' per instrument' : ''} flat in ln on [0.01, 1000]`)
+  if (jitterFree) out.push('jitter per instrument flat in ln on [0.001, 1000] m/s')
+  return out
+}
+
+function failed(data: RvData, opts: GpFitOptions, priors: string[], message: string): GpFitResult {
+  const n = data.t.length
+  return {
+    success: false, status: 'failed', message, planets: [], instruments: [], priors,
+    trend: { kind: opts.trend ?? 'none', slope: NaN, curvature: NaN, epoch: NaN },
+    noise: { kernel: { kind: 'rotation', period: opts.gp.period.value, decayTime: opts.gp.period.value, shape: 0 }, amplitude: [0], jitter: [0] },
+    noiseUncertainty: { period: NaN, decayTime: NaN, shape: NaN, amplitude: [] },
+    stats: { nPoints: n, nParams: 0, lnL: NaN, lnPosterior: NaN, bic: NaN, aic: NaN },
+    residuals: new Float64Array(n), activity: new Float64Array(n), evaluations: 0,
+  }
+}
+
+/**
+ * "Train on an indicator first": fits the GP alone (no planets; a mean per instrument) to an activity
+ * indicator and returns the fit; its `noise.kernel` is the shape to reuse for the velocities (fixed, or
+ * as the centre of the priors). `error` may be omitted (unit weights, with a fitted jitter taking the
+ * scatter). The amplitude is in the indicator's units and is not reused.
+ */
+export function trainGpOnIndicator(
+  data: Pick<RvData, 't' | 'instrument' | 'instrumentNames'>, value: Float64Array, error: Float64Array | null, gp: GpHyperSpec,
+): GpFitResult {
+  const n = data.t.length
+  if (value.length !== n) throw new RangeError(`indicator has ${value.length} values, the data have ${n} rows`)
+  const keep: number[] = []
+  for (let i = 0; i < n; i++) if (Number.isFinite(value[i]) && (!error || error[i] > 0)) keep.push(i)
+  const mean = keep.reduce((s, i) => s + value[i], 0) / Math.max(1, keep.length)
+  const sd = Math.sqrt(keep.reduce((s, i) => s + (value[i] - mean) ** 2, 0) / Math.max(1, keep.length))
+  if (!(sd > 0)) throw new RangeError('the indicator is constant; there is nothing to train the GP on')
+  // Fitted in units of the indicator's standard deviation (the amplitude and jitter priors are in
+  // m/s-like ranges), then scaled back.
+  const sub: RvData = {
+    t: Float64Array.from(keep, (i) => data.t[i]), y: Float64Array.from(keep, (i) => (value[i] - mean) / sd),
+    dy: Float64Array.from(keep, (i) => (error ? error[i] / sd : 1e-3)),
+    instrument: Int32Array.from(keep, (i) => data.instrument[i]), instrumentNames: data.instrumentNames,
+  }
+  const amp = gp.amplitude?.value?.map((a) => a / sd) ?? [1]
+  const fit = fitWithGp(sub, { planets: [], gp: { ...gp, amplitude: { ...gp.amplitude, value: amp } } })
+  const back = (v: number): number => v * sd
+  fit.noise = { ...fit.noise, amplitude: fit.noise.amplitude.map(back), jitter: fit.noise.jitter.map(back) }
+  fit.noiseUncertainty.amplitude = fit.noiseUncertainty.amplitude.map(back)
+  fit.instruments = fit.instruments.map((ins) => ({ ...ins, offset: mean + back(ins.offset), jitter: back(ins.jitter), amplitude: back(ins.amplitude) }))
+  fit.residuals = fit.residuals.map(back)
+  fit.activity = fit.activity.map(back)
+  fit.priors = fit.priors.map((p) => p.replace('m/s', 'indicator standard deviations').replace('flat in ln on [0.01, 1000]', 'flat in ln on [0.01, 1000] indicator standard deviations'))
+  return fit
+}

@@ -1,0 +1,60 @@
+import { describe, it, expect } from 'vitest'
+import { fitKeplerians, fitWithGp, trainGpOnIndicator, indicatorDiagnostics } from '../../../../shared/rv/index.ts'
+import { spottedStar, STAR } from './spotted-star.ts'
+
+// The seeded synthetic spotted star (./spotted-star.ts): a 12.3-d planet (K = 7 m/s) and rotational
+// activity at 23.5 d in the velocities and in a bisector-like indicator; two instruments.
+describe('planets + GP on a spotted star', () => {
+  const star = spottedStar(1, 160, 420, true)
+  const white = fitKeplerians(star.data, { planets: [{ period: 12.3, K: 5, e: 0.05, omegaDeg: 60, tc: 2459003 }] })
+  const bis = indicatorDiagnostics(star.data, { name: 'bisector', value: star.bisector, error: star.bisectorError })
+  const prot = bis.peaks[0].period
+  const start = { period: white.planets[0].period, K: white.planets[0].K, e: white.planets[0].e, omegaDeg: white.planets[0].omegaDeg, tc: white.planets[0].tc }
+  const gp = fitWithGp(star.data, { planets: [start], gp: { kernel: 'rotation', period: { value: prot, source: 'bisector periodogram' }, amplitude: { perInstrument: false } } })
+
+  it('converges and recovers K within its error', () => {
+    expect(gp.success, gp.message).toBe(true)
+    const p = gp.planets[0]
+    expect(Math.abs(p.period - STAR.planet.period)).toBeLessThan(3 * p.uncertainty.period)
+    expect(Math.abs(p.K - STAR.planet.K)).toBeLessThan(p.uncertainty.K)
+    expect(p.uncertainty.K).toBeLessThan(0.3 * p.K)
+  })
+
+  it('finds the rotation period and is preferred over white noise by BIC', () => {
+    expect(Math.abs(gp.noise.kernel.period - STAR.rotation.period)).toBeLessThan(1.5)
+    expect(gp.stats.bic).toBeLessThan(white.stats.bic - 10)
+  })
+
+  it('states its priors and gives the activity at each row', () => {
+    expect(gp.priors[0]).toMatch(/rotation period ~ N\(.* \(from bisector periodogram\)/)
+    expect(gp.activity.length).toBe(160)
+    let r = 0, a2 = 0, b2 = 0
+    for (let i = 0; i < 160; i++) { r += gp.activity[i] * star.activity[i]; a2 += gp.activity[i] ** 2; b2 += star.activity[i] ** 2 }
+    expect(r / Math.sqrt(a2 * b2)).toBeGreaterThan(0.8)
+  })
+
+  it('trains on an indicator first and reuses its kernel for the velocities', () => {
+    const trained = trainGpOnIndicator(star.data, star.bisector, star.bisectorError, { kernel: 'rotation', period: { value: prot } })
+    expect(trained.success, trained.message).toBe(true)
+    expect(Math.abs(trained.noise.kernel.period - STAR.rotation.period)).toBeLessThan(1.5)
+    const k = trained.noise.kernel
+    if (k.kind !== 'rotation') throw new Error('rotation kernel expected')
+    const fixed = fitWithGp(star.data, {
+      planets: [start],
+      gp: { kernel: 'rotation', period: { value: k.period, fixed: true, source: 'trained on bisector' }, decayTime: { value: k.decayTime, fixed: true }, shape: { value: k.shape, fixed: true } },
+    })
+    expect(fixed.success, fixed.message).toBe(true)
+    expect(Math.abs(fixed.planets[0].K - STAR.planet.K)).toBeLessThan(2 * fixed.planets[0].uncertainty.K)
+    expect(fixed.priors[0]).toMatch(/fixed at/)
+  })
+
+  it('the same star without indicators still fits with a GP (period from the user)', () => {
+    const g = fitWithGp(star.data, { planets: [start], gp: { kernel: 'rotation', period: { value: 25, sigma: 5, source: 'user' } } })
+    expect(g.success, g.message).toBe(true)
+    expect(Math.abs(g.planets[0].K - STAR.planet.K)).toBeLessThan(2 * g.planets[0].uncertainty.K)
+  })
+
+  it('refuses a decay time shorter than half the rotation period, naming it', () => {
+    expect(() => fitWithGp(star.data, { planets: [start], gp: { kernel: 'rotation', period: { value: 23 }, decayTime: { value: 5 } } })).toThrow(/gp.decayTime.value must exceed half/)
+  })
+})
