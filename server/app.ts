@@ -49,7 +49,7 @@ function signInLimiter(windowMs: number, limit: number, key: (req: Request) => s
 }
 
 /** Every request counts except those the server failed (5xx). */
-function requestLimiter(windowMs: number, limit: number, what: string, key: (req: Request) => string) {
+function requestLimiter(windowMs: number, limit: number, what: string, key: (req: Request, res: Response) => string) {
   return rateLimit({
     windowMs, limit, skipFailedRequests: true, requestWasSuccessful: (_req, res) => res.statusCode < 500,
     standardHeaders: 'draft-8', legacyHeaders: false, keyGenerator: key,
@@ -74,7 +74,7 @@ export function createApp(deps: AppDeps): Express {
     // one address trying many e-mails (credential stuffing)
     loginAddressLimiter: signInLimiter(15 * 60_000, config.loginRateLimit * 10, (req) => ipKeyGenerator(req.ip ?? '')),
     resetLimiter: requestLimiter(15 * 60_000, config.loginRateLimit, 'password reset attempts', addressAndEmail),
-    shareLimiter: requestLimiter(60 * 60_000, config.shareRateLimit, 'share messages in an hour', (req) => `user|${(req.res?.locals.user as { id?: number } | null)?.id ?? ipKeyGenerator(req.ip ?? '')}`),
+    shareLimiter: requestLimiter(60 * 60_000, config.shareRateLimit, 'share messages in an hour', (req, res) => `user|${(res.locals.user as { id?: number } | null)?.id ?? ipKeyGenerator(req.ip ?? '')}`),
     files: createFilesMiddleware(services),
   }
   const s = Object.assign({}, services, { extras })
