@@ -83,6 +83,25 @@ function cellOf(r: ParameterRow | undefined): GridCell | null {
   return { key: r.key, value: r.value, error: r.error, median: r.median, plus: r.plus, minus: r.minus }
 }
 
+/** Every parameter a reviewer can comment on, keyed as stored ("b.K", "HARPS.jitter") and named in words. */
+export function parameterChoices(s: ReportSnapshot): Array<{ value: string; title: string }> {
+  const rows = parameterRows(s)
+  const out = rows.map((r) => {
+    const q = r.key.slice(r.key.indexOf('.') + 1)
+    const words = r.planet ? `Planet ${r.planet}: ${LABEL[q] ?? r.label}` : (r.key === 'trend.slope' ? LABEL.slope! : LABEL.curvature!)
+    return { value: r.key, title: `${words}${q === 'msiniMearth' ? ' (Earth masses)' : q === 'msiniMjup' ? ' (Jupiter masses)' : ''}` }
+  })
+  for (const i of s.result.instruments) {
+    out.push({ value: `${i.name}.offset`, title: `${i.name}: zero point` }, { value: `${i.name}.jitter`, title: `${i.name}: jitter` })
+  }
+  return out
+}
+
+/** The words for a stored parameter key (the key itself when unknown). */
+export function parameterTitle(s: ReportSnapshot | null, key: string): string {
+  return (s && parameterChoices(s).find((c) => c.value === key)?.title) ?? key
+}
+
 /** The grid of a frozen snapshot. */
 export function solutionGrid(s: ReportSnapshot): SolutionGrid {
   const rows = parameterRows(s)
