@@ -4,7 +4,7 @@
  * against scipy's least_squares (scripts/reference/fit_timing.py, same data, model and start, same
  * run), a one-planet fit from the data alone and a three-planet, two-instrument search.
  *
- *   npx tsx scripts/bench.ts [--json] [--skip-periodogram] [--skip-sampler]
+ *   npx tsx scripts/bench.ts [--json] [--skip-periodogram] [--skip-sampler] [--skip-gp]
  *
  * Times are best-of-repeats wall times on this machine; speed is never asserted in tests.
  */
@@ -16,6 +16,7 @@ import { fileURLToPath } from 'node:url'
 import { createRandom } from '../shared/math/random.ts'
 import { benchPeriodogram, type BenchRow } from './bench-periodogram.ts'
 import { benchSampler } from './bench-sampler.ts'
+import { benchGp } from './bench-gp.ts'
 import { solveKeplerArray, radialVelocity, fitKeplerians, searchPlanets, tpToTc, type RvData, type Keplerian } from '../shared/rv/index.ts'
 
 const here = dirname(fileURLToPath(import.meta.url))
@@ -144,6 +145,7 @@ async function main(): Promise<void> {
   if (!process.argv.includes('--skip-periodogram')) rows.push(...(await benchPeriodogram()))
   rows.push(benchKepler(), benchFitNearOptimum(), benchFitFromData(), benchThreePlanets())
   if (!process.argv.includes('--skip-sampler')) rows.push(...(await benchSampler())) // ensemble sampler vs emcee (scripts/bench-sampler.ts)
+  if (!process.argv.includes('--skip-gp')) rows.push(...benchGp()) // GP noise models: O(N) scaling, dense vs scipy cho_factor (scripts/bench-gp.ts)
   if (json) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
   const f = (v: number | null | undefined): string => (v === null || v === undefined ? '—' : v >= 100 ? v.toFixed(0) : v.toPrecision(3))
   for (const r of rows) {

@@ -1,0 +1,109 @@
+/**
+ * Benchmark rows of the Gaussian-process noise models (issue 13): the O(N) rotation-kernel log-likelihood
+ * at N = 1e3, 1e4, 1e5 (time per point; linear scaling means a flat time per point), and the dense
+ * quasi-periodic reference at N = 1000 against scipy.linalg.cho_factor on the same matrix
+ * (scripts/reference/gp_timing.py, same data, same run). Called by scripts/bench.ts.
+ */
+import { spawnSync } from 'node:child_process'
+import { mkdtempSync, writeFileSync, existsSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { createRandom } from '../shared/math/random.ts'
+import { semiseparableLogLikelihood, rotationTerms, denseCovariance, denseFactor, denseLogLikelihood, quasiPeriodic } from '../shared/rv/index.ts'
+import { choleskyInPlace } from '../shared/rv/gp/dense.ts'
+import type { BenchRow } from './bench-periodogram.ts'
+
+const here = dirname(fileURLToPath(import.meta.url))
+const PY = '/usr/bin/python3'
+
+function data(seed: number, n: number): { t: Float64Array; y: Float64Array; scale: Float64Array; noiseVar: Float64Array } {
+  const rng = createRandom(seed)
+  const t = new Float64Array(n)
+  let x = 2459000
+  for (let i = 0; i < n; i++) { x += 0.02 + 0.6 * rng.next(); t[i] = x }
+  const y = Float64Array.from(t, (v) => 6 * Math.sin((2 * Math.PI * v) / 23.5) + 2 * rng.normal())
+  return { t, y, scale: new Float64Array(n).fill(6), noiseVar: Float64Array.from(t, () => 1 + 3 * rng.next()) }
+}
+
+/**
+ * CPU time (ms) of one call, from batches of calls (process.cpuUsage: the machine's other load does
+ * not count, unlike wall time — the rows compare sizes, so preemption must not favour the short runs).
+ */
+function cpuPerCall(f: () => void, batchMs = 150, batches = 3): number {
+  let reps = 1
+  for (;;) { // grow the batch until it takes batchMs of CPU
+    const c0 = process.cpuUsage(); for (let r = 0; r < reps; r++) f(); const c = process.cpuUsage(c0)
+    const ms = (c.user + c.system) / 1000
+    if (ms >= batchMs || reps > 1e6) break
+    reps = Math.ceil(reps * Math.min(10, Math.max(2, (1.2 * batchMs) / Math.max(ms, 0.01))))
+  }
+  let b = Infinity
+  for (let k = 0; k < batches; k++) {
+    const c0 = process.cpuUsage(); for (let r = 0; r < reps; r++) f(); const c = process.cpuUsage(c0)
+    b = Math.min(b, (c.user + c.system) / 1000 / reps)
+  }
+  return b
+}
+
+/** Fast GP log-likelihood rows at N = 1e3, 1e4, 1e5 (CPU time per call). */
+function benchFast(): BenchRow[] {
+  const terms = rotationTerms({ kind: 'rotation', period: 23.5, decayTime: 60, shape: 0.5 })
+  const rows: BenchRow[] = []
+  let perPoint1e3 = NaN
+  for (const n of [1000, 10000, 100000]) {
+    const d = data(131 + n, n)
+    const run = (): number => semiseparableLogLikelihood(d.t, d.scale, d.noiseVar, terms, d.y)
+    for (let r = 0; r < 3; r++) run()
+    const ms = cpuPerCall(run)
+    const perPointUs = (ms * 1000) / n
+    if (n === 1000) perPoint1e3 = perPointUs
+    rows.push(n === 1000
+      ? {
+        name: 'GP log-likelihood, rotation kernel, O(N) semiseparable solver, N = 1000', oursMs: ms, referenceMs: 1, ratio: ms,
+        target: 'ratio ≤ 1 (≤ 1 ms; reference column = the budget)', note: `${perPointUs.toFixed(3)} µs per point (CPU time)`,
+      }
+      : {
+        name: `GP log-likelihood, rotation kernel, N = ${n}`, oursMs: ms, referenceMs: (perPoint1e3 * n) / 1000, ratio: perPointUs / perPoint1e3,
+        target: 'ratio ≤ 1.5 (linear scaling: time per point as at N = 1000; reference column = 1000-point time × N/1000)',
+        note: `${perPointUs.toFixed(3)} µs per point (CPU time)`,
+      })
+  }
+  return rows
+}
+
+/** Dense reference at N = 1000 against scipy cho_factor on the same matrix. */
+function benchDense(): BenchRow[] {
+  const n = 1000
+  const d = data(1313, n)
+  const kernel = { kind: 'quasi-periodic' as const, period: 23.5, decayTime: 60, roughness: 1.2 }
+  const kappa = (tau: number): number => quasiPeriodic(tau, kernel)
+  const c = denseCovariance(d.t, d.scale, d.noiseVar, kappa)
+  const build = cpuPerCall(() => { denseCovariance(d.t, d.scale, d.noiseVar, kappa) }, 0, 3)
+  const oursCho = cpuPerCall(() => { choleskyInPlace(Float64Array.from(c), n) }, 0, 3)
+  const lnL = cpuPerCall(() => { denseLogLikelihood(denseFactor(d.t, d.scale, d.noiseVar, kappa), d.y) }, 0, 2)
+  let referenceMs: number | null = null
+  let note = `CPU times; ours: building the matrix ${build.toFixed(1)} ms, Cholesky ${oursCho.toFixed(1)} ms (one thread), whole ln L ${lnL.toFixed(1)} ms`
+  const script = join(here, 'reference', 'gp_timing.py')
+  if (existsSync(PY)) {
+    const dir = mkdtempSync(join(tmpdir(), 'starsway-gp-'))
+    const file = join(dir, 'gp.json')
+    writeFileSync(file, JSON.stringify({ t: Array.from(d.t), y: Array.from(d.y), noiseVar: Array.from(d.noiseVar), amplitude: 6, ...kernel }))
+    const p = spawnSync(PY, [script, file], { encoding: 'utf8', maxBuffer: 1 << 20 })
+    rmSync(dir, { recursive: true, force: true })
+    if (p.status === 0) {
+      const r = JSON.parse(p.stdout.trim().split('\n').pop() ?? '{}')
+      referenceMs = r.choCpuMs
+      const ourLnL = denseLogLikelihood(denseFactor(d.t, d.scale, d.noiseVar, kappa), d.y)
+      note += `; scipy ${r.versions.scipy} cho_factor ${Number(r.choCpuMs).toFixed(1)} ms CPU (${Number(r.choMs).toFixed(1)} ms wall), cho_factor + cho_solve ${Number(r.lnLMs).toFixed(1)} ms; ln L ours ${ourLnL.toFixed(6)}, numpy ${Number(r.lnL).toFixed(6)}`
+    } else note += `; scipy reference failed: ${(p.stderr || '').trim().split('\n').slice(-1).join(' ')}`
+  } else note += '; scipy reference not available'
+  return [{
+    name: 'dense GP reference (quasi-periodic kernel), Cholesky of the 1000 × 1000 covariance', oursMs: oursCho, referenceMs,
+    ratio: referenceMs ? oursCho / referenceMs : null, target: 'ratio ≤ 1 (no slower than scipy.linalg.cho_factor on the same matrix, CPU time)', note,
+  }]
+}
+
+export function benchGp(): BenchRow[] {
+  return [...benchFast(), ...benchDense()]
+}
