@@ -4,7 +4,7 @@ export {
 } from './grid.ts'
 export {
   type RecoveryCriterion, type RecoveryOptions, type LimitsData, type Recovery, type RecoveryOutcome,
-  RECOVERY_DEFAULTS, limitsDataFromFit, checkLimitsData, prepareRecovery, recoverInjected,
+  RECOVERY_DEFAULTS, limitsDataFromFit, checkLimitsData, prepareRecovery, recoverInjected, recoverInjectedFull,
 } from './recovery.ts'
 export { type Injection, trialSeed, injectionOf, injectInto } from './inject.ts'
 export { defaultMassRange } from './mass-range.ts'

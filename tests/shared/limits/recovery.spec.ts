@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { createRandom } from '../../../shared/math/index.ts'
 import { gls } from '../../../shared/rv/index.ts'
-import { prepareRecovery, recoverInjected, injectInto, detectionProbability, type LimitsData } from '../../../shared/limits/index.ts'
+import { prepareRecovery, recoverInjected, recoverInjectedFull, injectInto, detectionProbability, type LimitsData } from '../../../shared/limits/index.ts'
 
 /**
  * White noise only, circular orbits: the recovered fraction against K must follow the exact
@@ -75,5 +75,26 @@ describe('recovery against the analytic detection probability (white noise, circ
   it('noise alone is almost never recovered (the false-alarm threshold is 1e-3)', () => {
     const r = runTrials('peak', 0, 150, 77)
     expect(r.fraction).toBeLessThanOrEqual(0.01)
+  })
+})
+
+describe('the shortcut of the highest-peak criterion', () => {
+  it('gives the same outcome as the full periodogram on every trial', () => {
+    const data: LimitsData = { t, residuals: new Float64Array(N), dy }
+    const rec = prepareRecovery(data, { criterion: 'peak' })
+    const r = createRandom(31)
+    const y = new Float64Array(N)
+    let recovered = 0
+    for (let k = 0; k < 160; k++) {
+      const K = 0.4 + 2.4 * r.next()
+      const period = Math.exp(Math.log(0.6) + (Math.log(1500) - Math.log(0.6)) * r.next())
+      const orbit = { period, K, e: 0, omega: 0, tp: t[0] + period * r.next() }
+      injectInto(t, noise(r), orbit, y)
+      const a = recoverInjected(rec, t, y, dy, 1 / period), b = recoverInjectedFull(rec, t, y, dy, 1 / period)
+      expect(a.recovered, `trial ${k}: P ${period}, K ${K}`).toBe(b.recovered)
+      if (a.recovered) recovered++
+    }
+    expect(recovered).toBeGreaterThan(20) // both outcomes occur
+    expect(recovered).toBeLessThan(140)
   })
 })
