@@ -1,15 +1,11 @@
 // Turns the numerical core's fit into the stored/returned JSON: derived planet quantities,
 // per-measurement residuals, warnings in plain words.
-import { derivedPlanet, type RvData } from '../../shared/rv/index.ts'
+import { derivedPlanet, fitWarnings, planetLetter, type RvData } from '../../shared/rv/index.ts'
 import type { PlainFit } from '../compute/tasks.ts'
 import type { DataSelection, FitResultJson, FitWarning, ModelSpec, PlanetSpec } from '../../shared/api/analyses.ts'
 
 const fin = (x: number | undefined | null): number | null => (x !== undefined && x !== null && Number.isFinite(x) ? x : null)
 
-/** Eccentricity above which a warning is given (common practice: fits this eccentric are often spurious or poorly sampled). */
-export const E_WARN = 0.9
-
-export function planetLabel(k: number): string { return String.fromCharCode(98 + k) }
 
 export interface StarInfo { massMsun: number; massErrMsun: number; luminosityLsun: number | null }
 
@@ -27,7 +23,7 @@ export function fitJson(fit: PlainFit, data: RvData, ids: number[], star: StarIn
     } catch { d = null }
     const aAu = d ? fin(d.aAu) : null
     return {
-      label: planetLabel(k), period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tp: p.tp, tc: p.tc,
+      label: planetLetter(k), period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tp: p.tp, tc: p.tc,
       uncertainty: {
         period: fin(p.uncertainty.period), K: fin(p.uncertainty.K), e: fin(p.uncertainty.e),
         omegaDeg: fin(p.uncertainty.omegaDeg), tp: fin(p.uncertainty.tp), tc: fin(p.uncertainty.tc),
@@ -62,26 +58,9 @@ export function fitJson(fit: PlainFit, data: RvData, ids: number[], star: StarIn
   }
 }
 
-/**
- * Plain warnings: not converged; e above {@link E_WARN}; K less than 3σ from zero (the signal is
- * not clearly above the noise — common practice); a period longer than the data's baseline.
- */
+/** Plain warnings of the core (`fitWarnings`) with the selection's baseline. */
 export function warningsOf(fit: PlainFit, sel: DataSelection): FitWarning[] {
-  const w: FitWarning[] = []
-  if (fit.status === 'failed') w.push({ code: 'failed', planet: null, message: `The fit failed: ${fit.message}.` })
-  else if (!fit.converged) w.push({ code: 'not_converged', planet: null, message: `The fit did not converge: ${fit.message}. Treat the values as provisional; refit from these values.` })
-  fit.planets.forEach((p, k) => {
-    const name = `Planet ${planetLabel(k)}`
-    if (p.e > E_WARN) w.push({ code: 'e_near_1', planet: k, message: `${name}: e = ${p.e.toFixed(3)} is close to 1; such orbits are often an artefact of sparse phase coverage.` })
-    const sK = p.uncertainty.K
-    if (Number.isFinite(sK) && sK > 0 && p.K < 3 * sK) {
-      w.push({ code: 'k_below_noise', planet: k, message: `${name}: K = ${p.K.toFixed(2)} ± ${sK.toFixed(2)} m/s is less than 3σ from zero: the signal is not clearly above the noise.` })
-    }
-    if (p.period > sel.baseline) {
-      w.push({ code: 'period_beyond_baseline', planet: k, message: `${name}: P = ${p.period.toFixed(1)} d is longer than the ${sel.baseline.toFixed(0)} d the data cover; the orbit is not closed by the data.` })
-    }
-  })
-  return w
+  return fitWarnings(fit, sel.baseline)
 }
 
 /** A spec whose planets are the fitted values (for a search result or "start from this fit"). */

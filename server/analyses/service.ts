@@ -47,7 +47,6 @@ function runJson(r: PeriodogramRun): PeriodogramRunJson {
 export async function runPeriodogram(s: Services, actor: User, star: Star, req: RunPeriodogramRequest): Promise<PeriodogramRunJson> {
   const rows = await starRows(s, star)
   let t: number[], y: number[], dy: number[], inst: number[] | undefined
-  let center: 'fit' | 'mean' | 'none' = 'none'
   let sel
   let modelVersionId: number | null = null
   if (req.kind === 'residuals') {
@@ -80,13 +79,11 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
       }
       y = used.map((r) => r.indicators[name]!)
       dy = used.map(() => 1)
-      center = 'mean'
       sel = selection(used, picked.nExcluded, [...new Set(used.map((r) => r.instrument))],
         contentHash(used.map((r) => `${r.id}:${r.time}:${r.indicators[name]}`)))
     } else {
       y = used.map((r) => r.rv)
       dy = used.map((r) => r.error)
-      center = 'fit'
       sel = selection(used, picked.nExcluded, names, contentHash(used.map((r) => `${r.id}:${r.time}:${r.rv}:${r.error}`)))
     }
     t = used.map((r) => r.time)
@@ -96,14 +93,15 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
   if (t.length < MIN_PERIODOGRAM_POINTS) {
     throw new ValidationError(`instruments: ${t.length} usable points (excluded points left out); a periodogram needs at least ${MIN_PERIODOGRAM_POINTS}.`, 'instruments')
   }
+  // Grid defaults, centring and peaks are the core's (`periodogramReport`), as in the CLI.
   const baseline = sel.baseline
-  const minPeriod = req.minPeriod ?? 1.1
-  const maxPeriod = req.maxPeriod ?? baseline
-  if (!(maxPeriod > minPeriod)) throw new ValidationError(`maxPeriod: must be larger than minPeriod (${minPeriod} d); the data cover ${baseline.toFixed(1)} d.`, 'maxPeriod')
-  const oversample = req.oversample ?? 10
-  const result = await pool(s).run('periodogram', {
-    t: Float64Array.from(t), y: Float64Array.from(y), dy: Float64Array.from(dy), minPeriod, maxPeriod, oversample,
-    center, instrument: inst ? Int32Array.from(inst) : undefined,
+  if (req.minPeriod !== undefined && req.maxPeriod !== undefined && !(req.maxPeriod > req.minPeriod)) {
+    throw new ValidationError(`maxPeriod: must be larger than minPeriod (${req.minPeriod} d); the data cover ${baseline.toFixed(1)} d.`, 'maxPeriod')
+  }
+  const { settings: grid, ...result } = await pool(s).run('periodogram', {
+    t: Float64Array.from(t), y: Float64Array.from(y), dy: Float64Array.from(dy),
+    minPeriod: req.minPeriod, maxPeriod: req.maxPeriod, oversample: req.oversample,
+    instrument: inst ? Int32Array.from(inst) : undefined,
   }).catch((err: unknown) => {
     // the numerical core names the offending option (e.g. a grid too large)
     if (err instanceof ComputeError && err.remoteName === 'RangeError') {
@@ -112,6 +110,7 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
     }
     throw err
   })
+  const { minPeriod, maxPeriod, oversample } = grid
   const top = result.peaks[0]
   const run = await s.sequelize.transaction(async (transaction) => {
     const r = await M(s).PeriodogramRun.create({
@@ -325,13 +324,19 @@ export async function archiveModel(s: Services, actor: User, star: Star, model: 
 /** Runs the numerical core's search (in the pool) and saves the chosen solution as a fitted model. */
 export async function search(s: Services, actor: User, star: Star, req: SearchRequest): Promise<SearchResponse> {
   const { data, ids, selection: sel } = await loadRv(s, star, req.instruments, 'instruments', 10)
+  // The core's defaults (SEARCH_DEFAULTS) unless the request sets an option: the same as the CLI.
   const out = await pool(s).run('search', {
     data, options: {
-      trend: req.trend ?? 'auto', maxPlanets: req.maxPlanets ?? 4, fapThreshold: req.fapThreshold ?? 1e-3,
-      minPeriod: req.minPeriod, maxPeriod: req.maxPeriod,
+      trend: req.trend, maxPlanets: req.maxPlanets, fapThreshold: req.fapThreshold, minPeriod: req.minPeriod, maxPeriod: req.maxPeriod,
     },
+  }).catch((err: unknown) => {
+    if (err instanceof ComputeError && err.remoteName === 'RangeError') {
+      const field = /minPeriod|maxPeriod/.exec(err.message)?.[0] ?? 'minPeriod'
+      throw new ValidationError(`${field}: ${err.message}`, field)
+    }
+    throw err
   })
-  const result = fitJson(out.fit, data, ids, star, sel)
+  const result = { ...fitJson(out.fit, data, ids, star, sel), search: out.report }
   const name = `Search: ${out.planets} planet${out.planets === 1 ? '' : 's'}`
   const model = await createModel(s, actor, star, { name, spec: specFromFit(out.fit, out.trend, req.instruments ?? null) }, {
     status: out.fit.status === 'failed' ? 'failed' : 'fitted', result, note: 'search', action: 'model.search',
@@ -341,5 +346,6 @@ export async function search(s: Services, actor: User, star: Star, req: SearchRe
     model,
     steps: out.steps.map((st) => ({ ...st, nextPeakFap: st.nextPeakFap ?? null, nextPeakPeriod: st.nextPeakPeriod ?? null })),
     chosen: { planets: out.planets, trend: out.trend },
+    report: out.report,
   }
 }

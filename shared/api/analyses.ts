@@ -20,9 +20,9 @@ export const runPeriodogramRequestSchema = z.object({
   indicator: z.string().trim().min(1).max(120).optional(),
   /** A fitted model version of this star; required for kind 'residuals'. */
   modelVersionId: z.number().int().positive().optional(),
-  /** Days; default 1.1. */
+  /** Days; default of the core's grid: 0.5 d (0.2 d for dense nightly sampling). */
   minPeriod: positive().optional(),
-  /** Days; default the baseline of the data. */
+  /** Days; default 5 × the baseline of the data. */
   maxPeriod: positive().optional(),
   /** Grid step 1/(oversample · baseline); default 10. */
   oversample: z.number().finite().min(1, 'must be at least 1').max(100, 'must be at most 100').optional(),
@@ -178,6 +178,35 @@ export const fitWarningSchema = z.object({
 })
 export type FitWarning = z.infer<typeof fitWarningSchema>
 
+/** A rejection, warning or note of the search about one signal or the model (readable message). */
+export const searchFlagSchema = z.object({
+  kind: z.string(),
+  severity: z.enum(['rejection', 'warning', 'info']),
+  /** Days; null for model-level flags. */
+  period: z.number().nullable(),
+  instrument: z.string().nullable(),
+  message: z.string(),
+})
+export type SearchFlag = z.infer<typeof searchFlagSchema>
+
+/** A kept signal with its alias partners fitted in its place (best first; lnL of each). */
+export const searchSignalSchema = z.object({
+  planet: z.number().int(), period: z.number(),
+  aliases: z.array(z.object({ period: z.number(), relation: z.string(), lnL: z.number(), converged: z.boolean() })),
+  /** lnL of the chosen period minus the runner-up partner's (null if none could be fitted). */
+  runnerUpDeltaLnL: z.number().nullable(),
+})
+export type SearchSignal = z.infer<typeof searchSignalSchema>
+
+/** What the search said beside its chosen model: flags, alias partners, alternatives, settings used. */
+export const searchReportSchema = z.object({
+  flags: z.array(searchFlagSchema),
+  signals: z.array(searchSignalSchema),
+  alternatives: z.array(z.object({ description: z.string(), planets: z.number().int(), trend: trendSchema, bic: z.number(), lnL: z.number() })),
+  settings: z.object({ minPeriod: z.number(), maxPeriod: z.number(), bicThreshold: z.number(), maxPlanets: z.number().int() }),
+})
+export type SearchReport = z.infer<typeof searchReportSchema>
+
 export const fitResultSchema = z.object({
   planets: z.array(fittedPlanetSchema),
   instruments: z.array(z.object({
@@ -198,6 +227,8 @@ export const fitResultSchema = z.object({
   residuals: z.array(z.object({ measurementId: z.number().int(), model: z.number(), residual: z.number() })),
   warnings: z.array(fitWarningSchema),
   data: dataSelectionSchema,
+  /** For a model made by the search: its flags, alias partners and alternatives. */
+  search: searchReportSchema.nullable().optional(),
 })
 export type FitResultJson = z.infer<typeof fitResultSchema>
 
@@ -237,12 +268,19 @@ export type ModelDetail = z.infer<typeof modelDetailSchema>
 
 export const searchRequestSchema = z.object({
   trend: z.enum(['auto', 'none', 'linear', 'quadratic']).optional(),
-  maxPlanets: z.number().int().min(1).max(6).optional(),
-  /** Stop when the next residual peak's FAP exceeds this (default 0.001). */
+  /** Most planets tried in auto mode (default: the core's SEARCH_DEFAULTS.maxPlanets). */
+  maxPlanets: z.number().int().min(1).max(8).optional(),
+  /** Accepted for old callers; detection is judged by the Keplerian fit's BIC (the result says so). */
   fapThreshold: z.number().gt(0, 'must be in (0, 1)').lt(1, 'must be in (0, 1)').optional(),
+  /** Days; default of the core's grid (0.5 d, 0.2 d for dense sampling). */
   minPeriod: positive().optional(),
+  /** Days; default 5 × the baseline. */
   maxPeriod: positive().optional(),
   instruments: instrumentsSchema.optional(),
+}).superRefine((v, ctx) => {
+  if (v.minPeriod !== undefined && v.maxPeriod !== undefined && !(v.minPeriod < v.maxPeriod)) {
+    ctx.addIssue({ code: 'custom', path: ['maxPeriod'], message: 'must be larger than minPeriod' })
+  }
 })
 export type SearchRequest = z.infer<typeof searchRequestSchema>
 
@@ -250,10 +288,12 @@ export const searchStepSchema = z.object({
   planets: z.number().int(), trend: trendSchema, bic: z.number(), lnL: z.number(),
   nextPeakFap: z.number().nullable(), nextPeakPeriod: z.number().nullable(),
 })
+
 export const searchResponseSchema = z.object({
   model: modelDetailSchema,
   steps: z.array(searchStepSchema),
   chosen: z.object({ planets: z.number().int(), trend: trendSchema }),
+  report: searchReportSchema,
 })
 export type SearchResponse = z.infer<typeof searchResponseSchema>
 

@@ -1,13 +1,6 @@
 /** Public API of Starsway's numerical core (re-exports only; helpers stay private). */
 export { GM_SUN, GM_JUPITER, GM_EARTH, AU, DAY, G, M_SUN_KG } from './constants.ts'
 export {
-  type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
-  VETTING_DEFAULTS, periodRelation, activityVetting,
-} from './activity-vetting.ts'
-  type IndicatorColumn, type IndicatorPeak, type IndicatorDiagnostics, type IndicatorOptions, type InstrumentCorrelation,
-  INDICATOR_MIN_ROWS, indicatorDiagnostics, centrePerInstrument,
-} from './activity-indicators.ts'
-export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
   solveKepler, solveKeplerArray, trueAnomaly, trueAnomalyArray, eccentricFromTrue, wrapPi, KEPLER_TOLERANCE,
 } from './kepler.ts'
 export { type Keplerian, radialVelocity, radialVelocityAt, addKeplerian, tpToTc, tcToTp, nearestEpoch } from './model.ts'
@@ -34,6 +27,23 @@ export {
 } from './posterior.ts'
 export { type SampleOptions, type ParameterSummary, type SampleDiagnostics, type SampleResult, samplePosterior } from './mcmc.ts'
 export * from './gp/index.ts'
+export { centreByInstrument } from './centring.ts'
+export {
+  type PlanetElements, keplerianOf, elementsOfFit, elementsOfStart, startOfElements, OMEGA_START_DEG,
+} from './planet-elements.ts'
+export {
+  type PlanetPrior, type PlanetSpecInput, type SpecFitOptions, meanEpoch, flattenPriors, startsFromSpec, fitSpec,
+} from './model-spec.ts'
+export {
+  type PeriodogramReportInput, type PeriodogramReport, type ReportPeak,
+  periodogramReport, downsampleCurve, CURVE_POINTS, FAP_LEVELS, REPORT_PEAKS,
+} from './periodogram-report.ts'
+export {
+  type CurveTrend, type CurveSampling, CURVE_DEFAULTS, curveTimes, modelVelocity, phaseOf, phaseCurve,
+} from './model-curve.ts'
+export { type Coincidence, COINCIDENCE_FAP, coincidences, peakWidth } from './peak-coincidence.ts'
+export { type FitWarningCode, type FitWarningItem, E_WARN, planetLetter, fitWarnings } from './fit-warnings.ts'
+export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
 export {
   type IndicatorColumn, type IndicatorPeak, type IndicatorDiagnostics, type IndicatorOptions, type InstrumentCorrelation,
   INDICATOR_MIN_ROWS, indicatorDiagnostics, centrePerInstrument,
@@ -45,3 +55,4 @@ export {
 export {
   type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, fitWithGp, trainGpOnIndicator,
 } from './gp-fit.ts'
+export { type SearchSummary, searchSummary } from './search-summary.ts'

@@ -151,7 +151,12 @@ describe('the two-planet demo star (Vela Sorrel)', () => {
     search = res.body
     expect(search.chosen.planets).toBe(2)
     expect(search.model.name).toBe('Search: 2 planets')
-    expect(search.steps.map((s) => s.planets)).toEqual([0, 1, 2])
+    // the search tries one planet more than it keeps (the BIC rule and warrant checks stop it)
+    expect(search.steps.map((s) => s.planets).slice(0, 3)).toEqual([0, 1, 2])
+    // its judgement travels with the answer and is stored with the model
+    expect(search.report.settings.maxPeriod).toBeGreaterThan(5 * 0.99 * (search.model.current.result!.data.baseline))
+    expect(search.report.signals.map((s) => s.planet).sort()).toEqual([0, 1])
+    expect(search.model.current.result!.search).toEqual(search.report)
     const stored = (await a.get(`/api/models/${search.model.id}/versions/1`).expect(200)).body
     expect(stored).toEqual(search.model.current)
     const result = stored.result!

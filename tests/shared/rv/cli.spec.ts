@@ -37,16 +37,18 @@ describe('command line: periodogram', () => {
     const r = run(['periodogram', synthCsv, '--json', '--peaks', '3'])
     expect(r.code).toBe(0)
     const doc = JSON.parse(r.out)
-    expect(Object.keys(doc).sort()).toEqual(['grid', 'input', 'peaks', 'timingMs'])
+    expect(Object.keys(doc).sort()).toEqual(['fapLevels', 'grid', 'input', 'peaks', 'timingMs', 'units'])
+    expect(doc.units).toMatchObject({ period: 'd', frequency: '1 / d', K: 'm / s', msiniMjup: 'jupiterMass' })
     expect(doc.input).toMatchObject({ rows: 90, instruments: expect.any(Array), unit: 'm/s', timeFormat: expect.any(String) })
     expect(doc.input.baselineDays).toBeGreaterThan(600)
-    expect(Object.keys(doc.grid).sort()).toEqual(['count', 'maxFrequency', 'minFrequency'])
+    expect(Object.keys(doc.grid).sort()).toEqual(['count', 'maxFrequency', 'maxPeriod', 'method', 'minFrequency', 'minPeriod', 'oversample'])
     // default grid (issue 9 §2): 1/(5 × baseline) up to 1/(0.5 d), steps of 1/(10 × baseline)
     expect(doc.grid.maxFrequency).toBeLessThanOrEqual(1 / 0.5 + 1e-12)
     expect(doc.grid.maxFrequency).toBeGreaterThan(1 / 0.5 - 1 / (10 * doc.input.baselineDays))
     expectClose(doc.grid.minFrequency, 1 / (5 * doc.input.baselineDays), { rtol: 1e-6 }, 'fmin')
     expect(doc.peaks).toHaveLength(3)
-    expect(Object.keys(doc.peaks[0]).sort()).toEqual(['fap', 'frequency', 'period', 'power'])
+    expect(Object.keys(doc.peaks[0]).sort()).toEqual(['aliases', 'fap', 'frequency', 'period', 'power'])
+    expect(doc.fapLevels.map((l: { fap: number }) => l.fap)).toEqual([0.1, 0.01, 0.001])
     for (let i = 1; i < 3; i++) expect(doc.peaks[i].power).toBeLessThanOrEqual(doc.peaks[i - 1].power)
     expectClose(doc.peaks[0].period, 9.7, { rtol: 0.01 }, 'peak period (injected 9.7 d)')
     expect(typeof doc.timingMs.periodogram).toBe('number')
@@ -79,15 +81,17 @@ describe('command line: periodogram', () => {
 describe('command line: fit', () => {
   it('fits HD 20868 (km/s) from the data alone with the JSON contract', () => {
     // Published solution: Moutou et al. 2009, A&A 496, 513 (P = 380.85 d, K = 100.34 m/s, e = 0.75, ω = 356.2°).
-    const r = run(['fit', published('hd20868-harps.txt'), '--mstar', '0.78', '--mstar-err', '0.03', '--json'])
+    const r = run(['fit', published('hd20868-harps.txt'), '--star-mass', '0.78', '--star-mass-err', '0.03', '--json'])
     expect(r.code).toBe(0)
     const doc = JSON.parse(r.out)
-    expect(Object.keys(doc).sort()).toEqual(['input', 'instruments', 'planets', 'search', 'stats', 'timingMs', 'trend'])
+    expect(Object.keys(doc).sort()).toEqual(['input', 'instruments', 'mode', 'planets', 'report', 'search', 'starMass', 'stats', 'timingMs', 'trend', 'units', 'warnings'])
+    expect(doc.mode).toBe('search')
+    expect(doc.starMass).toEqual({ value: 0.78, error: 0.03 })
     expect(doc.input.unit).toBe('km/s')
     expect(doc.planets).toHaveLength(1)
     const p = doc.planets[0]
     expect(Object.keys(p).sort()).toEqual(['K', 'aAu', 'e', 'msiniMearth', 'msiniMjup', 'omegaDeg', 'period', 'tc', 'tp', 'uncertainty'])
-    expect(Object.keys(p.uncertainty).sort()).toEqual(['K', 'aAu', 'e', 'msiniMjup', 'omegaDeg', 'period', 'tp'])
+    expect(Object.keys(p.uncertainty).sort()).toEqual(['K', 'aAu', 'e', 'msiniMjup', 'omegaDeg', 'period', 'tc', 'tp'])
     expectClose(p.period, 380.85, { atol: 0.3 }, 'P')
     expectClose(p.K, 100.34, { atol: 1.5 }, 'K')
     expectClose(p.e, 0.75, { atol: 0.01 }, 'e')
@@ -99,10 +103,10 @@ describe('command line: fit', () => {
     expect(p.uncertainty.msiniMjup).toBeGreaterThan(0)
     expect(doc.instruments[0]).toMatchObject({ n: 48 })
     expect(Object.keys(doc.instruments[0]).sort()).toEqual(['jitter', 'n', 'name', 'offset', 'rms'])
-    expect(Object.keys(doc.stats).sort()).toEqual(['aic', 'bic', 'chi2', 'converged', 'lnL', 'nPoints', 'nParams', 'rms'].sort())
+    expect(Object.keys(doc.stats).sort()).toEqual(['aic', 'bic', 'chi2', 'converged', 'lnL', 'nPoints', 'nParams', 'rms', 'status'].sort())
     expect(doc.stats.converged).toBe(true)
     expect(doc.search[0]).toMatchObject({ planets: 0 })
-    expect(Object.keys(doc.search[0]).sort()).toEqual(['bic', 'lnL', 'nextPeakFap', 'planets'])
+    expect(Object.keys(doc.search[0]).sort()).toEqual(['bic', 'lnL', 'nextPeakFap', 'nextPeakPeriod', 'planets', 'trend'])
     expect(typeof doc.timingMs.total).toBe('number')
   })
 
@@ -123,8 +127,32 @@ describe('command line: fit', () => {
     expect(r.out).toMatch(/K \[m\/s\]/)
     expect(r.out).toMatch(/trend: slope/)
     const doc = JSON.parse(run(['fit', synthCsv, '--planets', '1', '--trend', 'linear', '--json']).out)
-    expect(Object.keys(doc.trend).sort()).toEqual(['curvature', 'epoch', 'slope'])
+    expect(Object.keys(doc.trend).sort()).toEqual(['curvature', 'epoch', 'kind', 'slope'])
     expect(doc.trend.curvature).toBe(0)
+  })
+
+  it('fits a model given with --planet, fixed parameters and a prior, below 1.1 d if asked', () => {
+    const doc = JSON.parse(run([
+      'fit', published('51peg-six-instruments.txt'), '--planet', 'period=4.2308,e=0,omegaDeg=0,fix=e+omegaDeg',
+      '--prior', 'b.period=normal:4.2308:0.001', '--json',
+    ]).out)
+    expect(doc.mode).toBe('model')
+    expect(doc.search).toEqual([])
+    expect(doc.planets[0].e).toBe(0)
+    expect(doc.planets[0].uncertainty.e).toBe(0)
+    expectClose(doc.planets[0].period, 4.2307869, { atol: 1e-4 }, 'P')
+    // the search honours a period range below the old 1.1-d floor
+    const usp = JSON.parse(run(['fit', synthCsv, '--planets', '1', '--trend', 'none', '--min-period', '0.6', '--max-period', '30', '--json']).out)
+    expectClose(usp.planets[0].period, 9.7, { rtol: 0.01 }, 'P in 0.6–30 d')
+  })
+
+  it('prints help per command and the version', () => {
+    const h = run(['fit', '--help'])
+    expect(h.code).toBe(0)
+    expect(h.out).toMatch(/--star-mass/)
+    expect(h.out).toMatch(/--min-period/)
+    expect(run(['periodogram', '--help']).out).toMatch(/--frequencies/)
+    expect(run(['--version']).out).toMatch(/^starsway \d+\.\d+\.\d+$/)
   })
 })
 
@@ -137,9 +165,15 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     ['bad unit', ['periodogram', 'x.csv', '--unit', 'furlongs'], /--unit/],
     ['bad planets', ['fit', 'x.csv', '--planets', 'many'], /--planets/],
     ['bad trend', ['fit', 'x.csv', '--trend', 'cubic'], /--trend/],
-    ['mstar-err alone', ['fit', 'x.csv', '--mstar-err', '0.1'], /--mstar-err needs --mstar/],
+    ['star-mass-err alone', ['fit', 'x.csv', '--star-mass-err', '0.1'], /--star-mass-err needs --star-mass/],
+    ['old mass spelling', ['fit', 'x.csv', '--mstar', '1'], /unknown option --mstar/],
+    ['bad planet spec', ['fit', 'x.csv', '--planet', 'period=-3'], /--planet b: period/],
+    ['prior without planet', ['fit', 'x.csv', '--prior', 'b.e=uniform:0:0.5'], /--prior needs/],
+    ['bad prior', ['fit', 'x.csv', '--planet', 'period=3', '--prior', 'b.e=gauss:0'], /--prior/],
+    ['search option with a model', ['fit', 'x.csv', '--planet', 'period=3', '--min-period', '1'], /search option/],
     ['both grid flags', ['periodogram', 'x.csv', '--oversample', '5', '--frequencies', '100'], /not both/],
-    ['negative mstar', ['fit', 'x.csv', '--mstar', '-1'], /--mstar must be/],
+    ['negative star mass', ['fit', 'x.csv', '--star-mass=-1'], /--star-mass must be/],
+    ['value looking like an option', ['fit', 'x.csv', '--star-mass', '-1'], /--star-mass=VALUE/],
   ]
   for (const [name, argv, msg] of cases) {
     it(name, () => {
@@ -165,5 +199,13 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     expect(p.stdout).toBe('')
     expect(p.stderr.trim().split('\n')).toHaveLength(1)
     expect(p.stderr).toMatch(/cannot read/)
+  })
+
+  it('reads standard input for -', () => {
+    const table = ['time,rv,err', ...Array.from({ length: 30 }, (_, i) => `${2455000 + i * 1.3},${(10 * Math.sin(i)).toFixed(3)},1`)].join('\n')
+    const p = spawnSync('npx', ['tsx', 'scripts/cli.ts', 'periodogram', '-', '--json', '--peaks', '1'], { cwd: ROOT, encoding: 'utf8', input: table })
+    expect(p.status).toBe(0)
+    const doc = JSON.parse(p.stdout)
+    expect(doc.input).toMatchObject({ file: 'standard input', rows: 30 })
   })
 })

@@ -1,0 +1,31 @@
+// Plain-text tables and number formatting of the command line (JSON keeps full precision).
+export interface CliIo { out: (s: string) => void; err: (s: string) => void }
+
+export function fmt(v: number): string {
+  if (v === 0) return '0'
+  const a = Math.abs(v)
+  if (a >= 1e6) return v.toFixed(5)
+  if (a >= 1e-3 && a < 1e6) return Number(v.toPrecision(7)).toString()
+  return v.toExponential(3)
+}
+
+export function table(rows: Array<Array<string | number | null>>, head: string[]): string {
+  const cells = [head, ...rows.map((r) => r.map((c) => (c === null || (typeof c === 'number' && !Number.isFinite(c)) ? '—' : typeof c === 'number' ? fmt(c) : c)))]
+  const widths = head.map((_, j) => Math.max(...cells.map((r) => String(r[j]).length)))
+  return cells.map((r) => r.map((c, j) => String(c).padStart(widths[j])).join('  ')).join('\n')
+}
+
+export function finiteOrNull(v: number | undefined | null): number | null {
+  return v === undefined || v === null || !Number.isFinite(v) ? null : v
+}
+
+/** Units of the JSON fields, as strings astropy's `u.Unit` parses ('' = dimensionless). */
+export const UNITS = Object.freeze({
+  time: 'd', period: 'd', frequency: '1 / d', baselineDays: 'd', power: '', fap: '',
+  K: 'm / s', e: '', omegaDeg: 'deg', tp: 'd', tc: 'd', msiniMjup: 'jupiterMass', msiniMearth: 'earthMass', aAu: 'AU',
+  offset: 'm / s', jitter: 'm / s', rms: 'm / s', slope: 'm / (s d)', curvature: 'm / (s d2)', epoch: 'd',
+  starMass: 'solMass', timingMs: 'ms',
+})
+
+/** The caution printed where a peak or a search result is read. */
+export const PEAK_CAUTION = 'A significant peak is not yet a planet: stellar activity, rotation and the sampling can all make one.'
