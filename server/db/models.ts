@@ -104,6 +104,19 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
   declare confirmedMapping: unknown
   declare unit: string
   declare timeFormat: string
+  /** Time scale of the stored times (shared/ingest TimeScale; 'bjd_tdb' after a conversion at upload). */
+  declare timeScale: CreationOptional<string>
+  /** The N of 'JD − N' the file was written in (0 for full JD); stored times are full JD. */
+  declare timeOffset: CreationOptional<number>
+  /** Units as written per column: { rv, error, indicators: { key: unit } }. */
+  declare units: CreationOptional<Record<string, unknown>>
+  /** The conversion to BJD_TDB done at upload ({ from, site, target }), or null. */
+  declare timeConversion: CreationOptional<Record<string, unknown> | null>
+  /** Rows left out at commit ("skip problem rows"): [{ line, column?, message }]. */
+  declare skippedRows: CreationOptional<Array<{ line: number; column?: string; message: string }>>
+  /** Overlap with earlier measurements of the star and the choice made ({ count, choice, examples }), or null. */
+  declare overlap: CreationOptional<Record<string, unknown> | null>
+  declare warnings: CreationOptional<string[]>
   declare uploadedBy: number | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -205,6 +218,10 @@ export function initModels(sequelize: Sequelize): Models {
     fileSha256: { type: DataTypes.STRING, allowNull: false }, detectedMapping: DataTypes.JSONB,
     confirmedMapping: { type: DataTypes.JSONB, allowNull: false }, unit: { type: DataTypes.STRING, allowNull: false },
     timeFormat: { type: DataTypes.STRING, allowNull: false }, uploadedBy: DataTypes.INTEGER,
+    timeScale: { type: DataTypes.STRING, allowNull: false, defaultValue: 'unknown' }, timeOffset: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
+    units: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} }, timeConversion: DataTypes.JSONB,
+    skippedRows: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] }, overlap: DataTypes.JSONB,
+    warnings: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
     createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE,
   }, { ...base, modelName: 'Dataset', tableName: 'datasets' })
   Measurement.init({

@@ -1,7 +1,7 @@
 import type { Request, Response } from 'express'
 import type { ZodType } from 'zod'
 import type { Services } from '../services.ts'
-import { commitMappingsSchema, previewHintsSchema } from '../../shared/api/uploads.ts'
+import { commitMappingsSchema, commitOptionsSchema, previewHintsSchema } from '../../shared/api/uploads.ts'
 import { ValidationError } from '../errors.ts'
 import { scope, signedInUser } from '../guards.ts'
 import * as uploads from './service.ts'
@@ -30,14 +30,18 @@ function filesOf(req: Request): uploads.UploadedFile[] {
   }))
 }
 
+/** Fields: files; hints (per file name, for a first look); mappings (per file name: read with the user's mapping as it stands). */
 export async function preview(req: Request, res: Response, s: Services): Promise<void> {
   const hints = jsonField(req, 'hints', previewHintsSchema, {})
-  res.json(uploads.preview(s, filesOf(req), hints))
+  const mappings = jsonField(req, 'mappings', commitMappingsSchema, {})
+  res.json(await uploads.preview(s, scope(res).star!, filesOf(req), hints, mappings))
 }
 
+/** Fields: files; mappings (the confirmed mapping per file name); options (overlap, skipProblemRows, site). */
 export async function commit(req: Request, res: Response, s: Services): Promise<void> {
   const mappings = jsonField(req, 'mappings', commitMappingsSchema)
-  res.status(201).json(await uploads.commit(s, signedInUser(res), scope(res).star!, filesOf(req), mappings))
+  const options = jsonField(req, 'options', commitOptionsSchema, { overlap: 'cancel', skipProblemRows: false })
+  res.status(201).json(await uploads.commit(s, signedInUser(res), scope(res).star!, filesOf(req), mappings, options))
 }
 
 export async function listDatasets(_req: Request, res: Response, s: Services): Promise<void> {

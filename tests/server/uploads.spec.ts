@@ -103,7 +103,9 @@ describe('upload happy paths with the published tables', () => {
     expect(first.error).toBeCloseTo(2.55, 9)
     const ds = await t.models.Dataset.findOne({ where: { starId } })
     expect(ds!.unit).toBe('km/s')
-    expect(ds!.detectedMapping).toMatchObject({ unit: 'km/s' })
+    // the commit reads with the confirmed mapping only (no re-detection), and records the units per column
+    expect(ds!.confirmedMapping).toMatchObject({ unit: 'km/s' })
+    expect(ds!.units).toEqual({ rv: 'km/s', error: 'km/s', indicators: {} })
   })
 
   it('several files at once go in one transaction', async () => {
