@@ -78,10 +78,12 @@ export const routes: Route[] = [
   { method: 'post', path: '/api/stars/:starId/search', guards: [star('analyst')], handler: analyses.search },
 
   { method: 'post', path: '/api/models/:modelId/sampling', guards: [fitModel('analyst')], handler: sampling.start },
+  { method: 'get', path: '/api/models/:modelId/sampling/estimate', guards: [fitModel('reviewer')], handler: sampling.estimate },
   { method: 'get', path: '/api/stars/:starId/sampling', guards: [star('reviewer')], handler: sampling.list },
   { method: 'get', path: '/api/sampling/:runId', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.show },
   { method: 'get', path: '/api/sampling/:runId/events', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.events },
   { method: 'post', path: '/api/sampling/:runId/cancel', guards: [sampling.samplingRunGuard('analyst')], handler: sampling.cancel },
+  { method: 'get', path: '/api/sampling/:runId/chain.csv', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.chain },
 
   { method: 'post', path: '/api/models/:modelId/report', guards: [fitModel('analyst')], handler: reports.freeze },
   { method: 'get', path: '/api/stars/:starId/reports', guards: [star('reviewer')], handler: reports.list },

@@ -3,47 +3,37 @@ import type { Services } from '../services.ts'
 import type { Membership, Star } from '../db/models.ts'
 import { analysisScope } from '../analyses/guards.ts'
 import type { SamplingRun } from '../db/models-sampling.ts'
-import { ForbiddenError, NotFoundError } from '../errors.ts'
-import { scope, signedInUser, type Guard } from '../guards.ts'
-import { ROLE_RANK, type Role } from '../../shared/api/common.ts'
-import { SAMPLING_DONE_STATES, startSamplingRequestSchema } from '../../shared/api/sampling.ts'
+import { resource, scope, signedInUser } from '../guards.ts'
+import { SAMPLING_DONE_STATES, startSamplingRequestSchema, samplingEstimateQuerySchema } from '../../shared/api/sampling.ts'
+import { chainCsv } from './chain-csv.ts'
 import * as sampling from './service.ts'
 
 interface SamplingScope { membership: Membership; star: Star; run?: SamplingRun }
 const sscope = (res: Response) => scope(res) as unknown as SamplingScope
 
-function idOf(req: Request, name: string, what: string): number {
-  const raw = req.params[name]
-  const n = Number(raw)
-  if (!Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError(what)
-  return n
-}
-
-async function starScope(s: Services, res: Response, starId: number, min: Role, what: string): Promise<{ membership: Membership; star: Star }> {
-  const user = signedInUser(res)
-  const star = await s.models.Star.findOne({ where: { id: starId, archivedAt: null } })
-  if (!star) throw new NotFoundError(what)
-  const membership = await s.models.Membership.findOne({ where: { userId: user.id, teamId: star.teamId } })
-  if (!membership) throw new NotFoundError(what)
-  if (ROLE_RANK[membership.role] < ROLE_RANK[min]) {
-    throw new ForbiddenError(`This needs the ${min} role or higher in the team; you are ${membership.role === 'analyst' ? 'an' : 'a'} ${membership.role}.`)
-  }
-  return { membership, star }
-}
-
 /** Sampling run :runId of a star in a team where the user has at least `min`. */
-export function samplingRunGuard(min: Role): Guard {
-  return async (req, res, s) => {
-    signedInUser(res)
-    const run = await sampling.loadRun(s, idOf(req, 'runId', 'Sampling run'))
-    if (!run) throw new NotFoundError('Sampling run')
-    res.locals.scope = { ...(await starScope(s, res, run.starId, min, 'Sampling run')), run } satisfies SamplingScope
-  }
-}
+export const samplingRunGuard = resource<SamplingRun>({
+  param: 'runId', what: 'Sampling run', starIdOf: (run) => run.starId,
+  load: (s, id) => sampling.loadRun(s, id),
+  keep: (res, run) => { sscope(res).run = run },
+})
 
 export async function start(req: Request, res: Response, s: Services): Promise<void> {
   const { star } = sscope(res)
   res.status(201).json(await sampling.startRun(s, signedInUser(res), star, analysisScope(res).model!, startSamplingRequestSchema.parse(req.body ?? {})))
+}
+
+/** GET /api/models/:modelId/sampling/estimate?walkers&steps&untilConverged: free parameters and expected time before starting. */
+export async function estimate(req: Request, res: Response, s: Services): Promise<void> {
+  const { star } = sscope(res)
+  res.json(await sampling.estimateForModel(s, star, analysisScope(res).model!, samplingEstimateQuerySchema.parse(req.query ?? {})))
+}
+
+/** GET /api/sampling/:runId/chain.csv: the kept chain (every walker at every kept step) as CSV. */
+export async function chain(_req: Request, res: Response, s: Services): Promise<void> {
+  const run = await sampling.loadRunWithInput(s, sscope(res).run!.id)
+  const text = await chainCsv(s, run!)
+  res.status(200).set({ 'Content-Type': 'text/csv; charset=utf-8', 'Content-Disposition': `attachment; filename="sampling-run-${run!.id}-chain.csv"` }).send(text)
 }
 
 export async function list(_req: Request, res: Response, s: Services): Promise<void> {

@@ -8,6 +8,7 @@ import type { Services } from '../services.ts'
 import { samplingModels, type SamplingRun } from '../db/models-sampling.ts'
 import { STOP_CANCEL, STOP_SHUTDOWN, type ThreadData, type ThreadMessage } from './thread.ts'
 import type { SamplingProgress, SamplingResult } from '../../shared/api/sampling.ts'
+import type { ChainRows } from '../../shared/rv/chain-store.ts'
 
 export interface RunnerOptions {
   /** Who is working (host:pid:n), written to the row while the run is claimed. */
@@ -33,13 +34,26 @@ function threadScript(): URL {
   return new URL(ts ? './thread-boot.mjs' : './thread.js', import.meta.url)
 }
 
-const f64 = (b: Buffer | null): Float64Array => {
-  if (!b || b.length === 0) return new Float64Array(0)
-  const copy = new Uint8Array(b.length)
-  copy.set(b)
-  return new Float64Array(copy.buffer)
-}
 const bytes = (a: Float64Array): Buffer => Buffer.from(a.buffer, a.byteOffset, a.byteLength)
+
+/** Every chunk of a run's kept chain up to `upToStep`, concatenated in order, and the next chunk number. */
+export async function loadChunks(s: Services, runId: number, upToStep: number): Promise<{ rows: ChainRows; nextSeq: number }> {
+  const chunks = await s.sequelize.query<{ seq: number; steps: Buffer; chain: Buffer; lnprob: Buffer }>(
+    'SELECT seq, steps, chain, lnprob FROM sampling_chunks WHERE run_id = :id AND last_step <= :step ORDER BY seq',
+    { replacements: { id: runId, step: upToStep }, type: QueryTypes.SELECT },
+  )
+  const cat = (bufs: Buffer[]): Uint8Array => {
+    const out = new Uint8Array(bufs.reduce((n, b) => n + b.length, 0))
+    let o = 0
+    for (const b of bufs) { out.set(b, o); o += b.length }
+    return out
+  }
+  const steps = cat(chunks.map((c) => c.steps)), chain = cat(chunks.map((c) => c.chain)), lnp = cat(chunks.map((c) => c.lnprob))
+  return {
+    rows: { steps: new Int32Array(steps.buffer, 0, steps.length / 4), chain: new Float64Array(chain.buffer, 0, chain.length / 8), lnProb: new Float64Array(lnp.buffer, 0, lnp.length / 8) },
+    nextSeq: chunks.length ? chunks[chunks.length - 1]!.seq + 1 : 0,
+  }
+}
 
 /**
  * Claims run `runId` for this worker: a queued run, or a running one whose heartbeat is stale (its
@@ -74,12 +88,21 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
   const resumeStep = run.checkpoint && run.checkpointStep > 0 ? run.checkpointStep : 0
   await SamplingRun.update({ resumedFromStep: resumeStep || null }, { where: { id: runId } })
   opts.log?.(`sampling run ${runId}: started (attempt ${run.attempts}${resumeStep ? `, resuming at step ${resumeStep}` : ''})`)
+  // chunks past the checkpoint cannot exist (one transaction writes both); a fresh start has none
+  await s.sequelize.query('DELETE FROM sampling_chunks WHERE run_id = :id AND last_step > :step', { replacements: { id: runId, step: resumeStep } })
+  let seq = 0
+  let rows: ChainRows | null = null
+  if (resumeStep) {
+    const loaded = await loadChunks(s, runId, resumeStep)
+    rows = loaded.rows
+    seq = loaded.nextSeq
+  }
 
   const stopBuf = new SharedArrayBuffer(4)
   const stop = new Int32Array(stopBuf)
   const data: ThreadData = {
     input: run.input, settings: run.settings, stop: stopBuf, checkpointEvery: opts.checkpointEvery, checkpointMinMs: opts.checkpointMinMs,
-    resume: resumeStep ? { state: run.checkpoint!.state, chain: f64(run.checkpointChain), lnProb: f64(run.checkpointLnprob) } : null,
+    resume: resumeStep && rows ? { state: run.checkpoint!.state, rows } : null,
   }
   const t0 = Date.now()
   let progress: SamplingProgress = run.progress ?? { stepsDone: resumeStep, stepsTotal: run.settings.steps, tau: null, etaSeconds: null, acceptance: null, updatedAt: new Date().toISOString() }
@@ -97,22 +120,45 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
     if (rows.length === 0) { lostClaim = true; Atomics.store(stop, 0, STOP_CANCEL) }
     else if (rows[0]!.state === 'cancelled') Atomics.store(stop, 0, STOP_CANCEL)
   }
-  let pendingCheckpoint: Extract<ThreadMessage, { type: 'checkpoint' }> | null = null
-  let checkpointWrite: Promise<void> | null = null
-  const writeCheckpoints = async (): Promise<void> => {
-    while (pendingCheckpoint) {
-      const msg = pendingCheckpoint
-      pendingCheckpoint = null
-      try {
-        await SamplingRun.update({
-          checkpoint: { state: msg.state, nKept: msg.nKept, savedAt: new Date().toISOString() },
-          checkpointChain: bytes(msg.chain), checkpointLnprob: bytes(msg.lnProb), checkpointStep: msg.step,
-        }, { where: mine })
-      } catch (err) { opts.log?.(`sampling run ${runId}: checkpoint failed: ${String(err)}`) }
-    }
-    checkpointWrite = null
+  // append-only checkpoints: every chunk is written, in order, one at a time (a chunk and the
+  // run's state at its step in one transaction)
+  const appendChunk = async (msg: { step: number; rows: ChainRows; state?: Record<string, unknown> }): Promise<void> => {
+    try {
+      await s.sequelize.transaction(async (transaction) => {
+        if (msg.state) {
+          const [, n] = await s.sequelize.query(
+            `UPDATE sampling_runs SET checkpoint = :checkpoint::jsonb, checkpoint_step = :step, checkpoint_chain = NULL, checkpoint_lnprob = NULL, updated_at = now()
+              WHERE id = :id AND worker_id = :workerId`,
+            { replacements: { ...mine, step: msg.step, checkpoint: JSON.stringify({ state: msg.state, nKept: msg.rows.steps.length, savedAt: new Date().toISOString() }) }, transaction },
+          ) as unknown as [unknown, number]
+          if (!n) throw new Error('the run is no longer ours')
+        }
+        if (msg.rows.steps.length === 0) return
+        const st = msg.rows.steps
+        await s.sequelize.query(
+          `INSERT INTO sampling_chunks (run_id, seq, first_step, last_step, n_rows, steps, chain, lnprob, created_at)
+           VALUES (:id, :seq, :first, :last, :n, :steps, :chain, :lnprob, now())`,
+          {
+            replacements: {
+              id: runId, seq: seq++, first: st[0], last: st[st.length - 1], n: st.length,
+              steps: Buffer.from(st.buffer, st.byteOffset, st.byteLength), chain: bytes(msg.rows.chain), lnprob: bytes(msg.rows.lnProb),
+            },
+            transaction,
+          },
+        )
+      })
+    } catch (err) { opts.log?.(`sampling run ${runId}: checkpoint failed: ${String(err)}`) }
   }
+  let chunkWrites: Promise<void> = Promise.resolve()
+  const queueChunk = (msg: { step: number; rows: ChainRows; state?: Record<string, unknown> }) => { chunkWrites = chunkWrites.then(() => appendChunk(msg)) }
+  // cancel is read four times a second (a light query), so the thread stops within about 1/4 s + 10 steps
+  const cancelPoll = setInterval(() => {
+    void s.sequelize.query<{ state: string }>('SELECT state FROM sampling_runs WHERE id = :id', { replacements: { id: runId }, type: QueryTypes.SELECT })
+      .then((r) => { if (r[0]?.state === 'cancelled') Atomics.store(stop, 0, STOP_CANCEL) })
+      .catch(() => undefined)
+  }, 250)
   const timer = setInterval(() => serial(beat), opts.heartbeatMs ?? 1000)
+  const t0Steps = resumeStep
   const offShutdown = control.onShutdown(() => Atomics.compareExchange(stop, 0, 0, STOP_SHUTDOWN))
   if (control.shuttingDown()) Atomics.store(stop, 0, STOP_SHUTDOWN)
 
@@ -123,15 +169,17 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
     worker.on('message', (msg: ThreadMessage) => {
       if (msg.type === 'progress') {
         const elapsed = (Date.now() - t0) / 1000
-        const rate = elapsed > 0.5 ? (msg.stepsDone - resumeStep) / elapsed : 0
+        const rate = elapsed > 0.5 ? (msg.stepsDone - t0Steps) / elapsed : 0
+        const target = run.settings.untilConverged ? (msg.expectedSteps ?? msg.stepsTotal) : msg.stepsTotal
         progress = {
           stepsDone: msg.stepsDone, stepsTotal: msg.stepsTotal, tau: msg.tau, acceptance: msg.acceptance,
-          etaSeconds: rate > 0 ? (msg.stepsTotal - msg.stepsDone) / rate : null, updatedAt: new Date().toISOString(),
+          minNOverTau: msg.minNOverTau, maxRhat: msg.maxRhat, expectedSteps: msg.expectedSteps,
+          etaSeconds: rate > 0 ? Math.max(0, target - msg.stepsDone) / rate : null, updatedAt: new Date().toISOString(),
         }
       } else if (msg.type === 'checkpoint') {
-        // only the newest checkpoint matters: one write at a time, later ones replace a waiting one
-        pendingCheckpoint = msg
-        if (!checkpointWrite) checkpointWrite = writeCheckpoints()
+        queueChunk({ step: msg.step, rows: msg.rows, state: msg.state })
+      } else if (msg.type === 'rows') {
+        queueChunk({ step: msg.step, rows: msg.rows })
       } else if (msg.type === 'done') finish({ result: msg.result })
       else if (msg.type === 'error') finish({ error: msg.message })
     })
@@ -139,9 +187,10 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
     worker.on('exit', (code) => finish({ error: `the sampling thread stopped (exit code ${code})` }))
   })
   clearInterval(timer)
+  clearInterval(cancelPoll)
   offShutdown()
   await writes
-  await checkpointWrite
+  await chunkWrites
 
   const flag = Atomics.load(stop, 0)
   if (lostClaim) {
@@ -162,10 +211,10 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
     progress = { ...progress, stepsDone, etaSeconds: 0, updatedAt: now.toISOString() }
     // a cancelled run keeps its partial result (it says it was stopped); checkpoints are dropped
     const [n] = await SamplingRun.update(
-      { state: 'succeeded', result, progress, finishedAt: now, checkpoint: null, checkpointChain: null, checkpointLnprob: null },
+      { state: 'succeeded', result, progress, finishedAt: now, checkpoint: null, checkpointChain: null, checkpointLnprob: null, checkpointStep: stepsDone },
       { where: { ...mine, state: 'running' } },
     )
-    if (n === 0) await SamplingRun.update({ result, progress, finishedAt: now, checkpoint: null, checkpointChain: null, checkpointLnprob: null }, { where: { ...mine, state: 'cancelled' } })
+    if (n === 0) await SamplingRun.update({ result, progress, finishedAt: now, checkpoint: null, checkpointChain: null, checkpointLnprob: null, checkpointStep: stepsDone }, { where: { ...mine, state: 'cancelled' } })
   }
   const final = (await SamplingRun.findByPk(runId))!
   opts.log?.(`sampling run ${runId}: ${final.state}`)

@@ -12,6 +12,8 @@ import { ConflictError, ValidationError } from '../errors.ts'
 import { record } from '../audit/service.ts'
 import { createJobSender, SAMPLING_QUEUE } from '../jobs/boss.ts'
 import { createLogPosterior, type PosteriorSpec } from '../../shared/rv/posterior.ts'
+import { MIN_N_OVER_TAU } from '../../shared/rv/mcmc.ts'
+import type { PlanetParam } from '../../shared/rv/index.ts'
 import { rvDataOf } from './thread.ts'
 import { notify } from './runner.ts'
 import {
@@ -55,6 +57,12 @@ export async function loadRun(s: Services, id: number, withResult = true): Promi
     attributes: withResult ? LIGHT : { exclude: [...LIGHT.exclude, 'result'] },
     include: [{ model: s.models.User, as: 'requester', attributes: ['id', 'name'] }],
   })
+}
+
+/** A run with its frozen input (for the chain download). */
+export async function loadRunWithInput(s: Services, id: number): Promise<SamplingRun | null> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  return SamplingRun.findByPk(id, { attributes: { exclude: ['checkpoint', 'checkpointChain', 'checkpointLnprob'] } })
 }
 
 export async function listRuns(s: Services, star: Star): Promise<SamplingRunSummary[]> {
@@ -103,23 +111,53 @@ export async function inputFromVersion(s: Services, star: Star, version: FitMode
 }
 
 /**
- * Times the log-posterior of the frozen input at its fitted point and returns the number of
- * sampled parameters and the expected wall-clock seconds of `walkers × steps` evaluations
- * (plus a fixed allowance for the start-up fit and the summaries).
+ * Integrated autocorrelation time per free parameter the estimate assumes before a run has
+ * measured it, in steps: about 13 per parameter, from our runs of the one-planet models of
+ * tests/shared/rv/mcmc.spec.ts and the bench (τ ≈ 60–110 steps for 6–7 parameters, as emcee found
+ * on the fixture's model: fixtures/sampler/one-planet-emcee.json, τ 85–110). A guide only: the
+ * run measures τ and stops by the rule.
  */
-export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['result'], walkers: number | null, steps: number): { nDim: number; seconds: number } {
+export const TAU_PER_PARAMETER = 13
+
+export interface RunEstimate {
+  /** Free (sampled) parameters, their names, and the walkers the run would use. */
+  nDim: number
+  names: string[]
+  walkers: number
+  /** The budget (or fixed length) in steps and the steps expected to reach convergence (burn-in + 50 τ, τ ≈ 13 steps per parameter). */
+  steps: number
+  expectedSteps: number
+  /** Wall-clock seconds for the expected steps and for the whole budget, from a timing of the log-posterior. */
+  seconds: number
+  maxSeconds: number
+}
+
+/** The posterior a run of this input samples (its free parameters: the model's fixed ones left out). */
+export function posteriorOf(input: SamplingInput, fitVersion: FitModelVersion['result']) {
   const data = rvDataOf(input)
   const r = fitVersion!
   const spec: PosteriorSpec = {
-    planets: input.model.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp })),
+    planets: input.model.planets.map((p) => ({
+      period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp,
+      ...(p.fix?.length ? { fix: p.fix as PlanetParam[] } : {}),
+    })),
     trend: input.model.trend, epoch: input.model.epoch,
     offsets: input.data.instrumentNames.map((n) => r.instruments.find((i) => i.name === n)?.offset ?? 0),
     jitters: input.data.instrumentNames.map((n) => Math.max(r.instruments.find((i) => i.name === n)?.jitter ?? 0, 0.1)),
     slope: r.trend?.slope, curvature: r.trend?.curvature,
   }
-  const post = createLogPosterior(data, spec)
+  return createLogPosterior(data, spec)
+}
+
+/**
+ * Times the log-posterior of the frozen input at its fitted point and returns the free
+ * parameters and the expected wall-clock seconds (plus a fixed allowance for the start-up fit and
+ * the summaries): for the steps a run until convergence is expected to need, and for the budget.
+ */
+export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['result'], walkers: number | null, steps: number, untilConverged = true): RunEstimate {
+  const post = posteriorOf(input, fitVersion)
   const x = Float64Array.from(post.centre)
-  // warm up first (the optimising compiler), then time about 30 ms of evaluations
+  // warm up first (the optimising compiler), then time short batches
   const time = (ms: number, minN: number): { n: number; elapsed: number } => {
     let n = 0
     const t0 = performance.now()
@@ -134,15 +172,34 @@ export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['r
   // the quickest of five short batches: the least disturbed by other work on the machine
   let perEval = Infinity
   for (let b = 0; b < 5; b++) { const { n, elapsed } = time(6, 10); perEval = Math.min(perEval, elapsed / 1000 / n) }
-  const w = walkers ?? Math.max(SAMPLING_DEFAULTS.walkers, 2 * post.nDim + (post.nDim % 2))
-  return { nDim: post.nDim, seconds: 1.5 + 1.15 * w * steps * perEval }
+  const w = walkers ?? defaultWalkersFor(post.nDim)
+  const expectedSteps = untilConverged ? Math.min(steps, Math.ceil((MIN_N_OVER_TAU * TAU_PER_PARAMETER * post.nDim * 4) / 3 / 100) * 100) : steps
+  const secs = (n: number) => Math.round((1.5 + 1.15 * w * n * perEval) * 10) / 10
+  return { nDim: post.nDim, names: post.names, walkers: w, steps, expectedSteps, seconds: secs(expectedSteps), maxSeconds: secs(steps) }
+}
+
+/** Default walkers: max(32, 2 × free parameters), rounded up to even. */
+export function defaultWalkersFor(nDim: number): number {
+  return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim + (nDim % 2))
 }
 
 export function settingsFor(req: StartSamplingRequest, nDim: number): SamplingSettings {
-  const steps = req.steps ?? SAMPLING_DEFAULTS.steps
-  const walkers = req.walkers ?? Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim + (nDim % 2))
-  if (walkers < 2 * nDim) throw new ValidationError(`walkers: at least ${2 * nDim} are needed for the ${nDim} sampled parameters of this model (twice their number).`, 'walkers')
-  return { walkers, steps, burn: req.burn ?? Math.floor(steps / 4), thin: req.thin ?? SAMPLING_DEFAULTS.thin, seed: req.seed ?? randomInt(1, 2 ** 31) }
+  const untilConverged = req.untilConverged ?? SAMPLING_DEFAULTS.untilConverged
+  const steps = req.steps ?? (untilConverged ? SAMPLING_DEFAULTS.steps : SAMPLING_DEFAULTS.fixedSteps)
+  const walkers = req.walkers ?? defaultWalkersFor(nDim)
+  if (walkers < 2 * nDim) throw new ValidationError(`walkers: at least ${2 * nDim} are needed for the ${nDim} free parameters of this model (twice their number).`, 'walkers')
+  return { walkers, steps, burn: req.burn ?? null, thin: req.thin ?? SAMPLING_DEFAULTS.thin, seed: req.seed ?? randomInt(1, 2 ** 31), untilConverged }
+}
+
+/** GET /api/models/:modelId/sampling/estimate: what a run with these settings would sample and how long it would take. */
+export async function estimateForModel(s: Services, star: Star, model: FitModel, req: StartSamplingRequest): Promise<RunEstimate> {
+  const { FitModelVersion } = analysisModels(s.sequelize, s.models)
+  const version = await FitModelVersion.findOne({ where: { modelId: model.id, version: model.currentVersion } })
+  if (!version) throw new ConflictError('The model has no current version.')
+  const input = await inputFromVersion(s, star, version)
+  const untilConverged = req.untilConverged ?? SAMPLING_DEFAULTS.untilConverged
+  const steps = req.steps ?? (untilConverged ? SAMPLING_DEFAULTS.steps : SAMPLING_DEFAULTS.fixedSteps)
+  return estimateRun(input, version.result, req.walkers ?? null, steps, untilConverged)
 }
 
 /** Inserts a run and queues its job. */
@@ -165,13 +222,12 @@ export async function startRun(s: Services, actor: User, star: Star, model: FitM
   const version = await FitModelVersion.findOne({ where: { modelId: model.id, version: model.currentVersion } })
   if (!version) throw new ConflictError('The model has no current version.')
   const input = await inputFromVersion(s, star, version)
-  const steps = req.steps ?? SAMPLING_DEFAULTS.steps
-  const first = estimateRun(input, version.result, req.walkers ?? null, steps)
-  const settings = settingsFor(req, first.nDim)
-  const estimate = estimateRun(input, version.result, settings.walkers, settings.steps)
+  const nDim = posteriorOf(input, version.result).nDim
+  const settings = settingsFor(req, nDim)
+  const estimate = estimateRun(input, version.result, settings.walkers, settings.steps, settings.untilConverged)
   const run = await enqueueRun(s, {
     starId: star.id, modelId: model.id, modelVersionId: version.id, modelVersion: version.version,
-    settings, input, estimateSeconds: Math.round(estimate.seconds * 10) / 10, requestedBy: actor.id,
+    settings, input, estimateSeconds: estimate.seconds, requestedBy: actor.id,
   })
   await record(s, {
     teamId: star.teamId, userId: actor.id, action: 'sampling.start', entity: 'sampling', entityId: run.id,

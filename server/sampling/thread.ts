@@ -1,28 +1,40 @@
 // Worker-thread side of one sampling run: rebuilds the data and the maximum-likelihood fit from
 // the frozen input, runs samplePosterior (shared/rv/mcmc.ts) and reports to the job handler:
-// progress (every ~250 ms), checkpoints (every `checkpointEvery` steps) and the result. The
-// handler stops it through a shared flag (the sampler's loop never yields to messages).
+// progress (every ~250 ms), append-only checkpoints (the walkers' state and the kept rows since
+// the previous checkpoint, every `checkpointEvery` steps) and the result, preceded by the last
+// rows. The handler stops it through a shared flag, read every 10 steps (the sampler's loop never
+// yields to messages).
 import { parentPort, workerData } from 'node:worker_threads'
-import { fitKeplerians, type PlanetStart, type Prior, type RvData } from '../../shared/rv/index.ts'
-import { samplePosterior, type SampleOptions, type SampleResult } from '../../shared/rv/mcmc.ts'
+import { fitKeplerians, type PlanetParam, type PlanetStart, type Prior, type RvData } from '../../shared/rv/index.ts'
+import { samplePosterior, MIN_N_OVER_TAU, type SampleOptions, type SampleResult } from '../../shared/rv/mcmc.ts'
 import { stateFromJson, stateToJson } from '../../shared/rv/sampler.ts'
-import { integratedTime } from '../../shared/rv/diagnostics.ts'
+import type { ChainRows } from '../../shared/rv/chain-store.ts'
 import type { SamplingInput } from '../db/models-sampling.ts'
 import type { SamplingSettings } from '../../shared/api/sampling.ts'
 
 export interface ThreadData {
   input: SamplingInput
   settings: SamplingSettings
-  resume: { state: Record<string, unknown>; chain: Float64Array; lnProb: Float64Array } | null
+  /** The checkpoint's state and every chunk's rows up to it, in order. */
+  resume: { state: Record<string, unknown>; rows: ChainRows } | null
   /** Int32Array view: 0 = run, 1 = stop (cancelled), 2 = stop after a checkpoint (shutting down). */
   stop: SharedArrayBuffer
   checkpointEvery: number
   checkpointMinMs: number
 }
 
+export interface ThreadProgress {
+  stepsDone: number; stepsTotal: number; acceptance: number | null
+  /** Longest τ, least N/τ and largest split-R̂ of the latest convergence check (steps; null before it). */
+  tau: number | null; minNOverTau: number | null; maxRhat: number | null
+  /** Steps the run is expected to need in all (from τ: burn-in + 50 τ), null before the first check. */
+  expectedSteps: number | null
+}
+
 export type ThreadMessage =
-  | { type: 'progress'; stepsDone: number; stepsTotal: number; acceptance: number | null; tau: number | null }
-  | { type: 'checkpoint'; step: number; state: Record<string, unknown>; nKept: number; chain: Float64Array; lnProb: Float64Array }
+  | ({ type: 'progress' } & ThreadProgress)
+  | { type: 'checkpoint'; step: number; state: Record<string, unknown>; keptThin: number; rows: ChainRows }
+  | { type: 'rows'; step: number; rows: ChainRows }
   | { type: 'done'; result: unknown }
   | { type: 'error'; message: string }
 
@@ -39,67 +51,75 @@ export function rvDataOf(input: SamplingInput): RvData {
 
 /**
  * One sampling run of a frozen input: the maximum-likelihood fit from the stored fitted values
- * (deterministic, so a resumed run starts from the same fit), then samplePosterior with the run's
- * settings. The same call with `resume` continues an interrupted run exactly.
+ * (deterministic, so a resumed run starts from the same fit) with the model's fixed parameters,
+ * then samplePosterior with the run's settings (those parameters held fixed). The same call with
+ * `resume` continues an interrupted run exactly.
  */
 export function sampleInput(input: SamplingInput, settings: SamplingSettings, extra: Pick<SampleOptions, 'onProgress' | 'progressEvery' | 'resume'> = {}): SampleResult {
   const data = rvDataOf(input)
   const priors = input.model.priors as Prior[]
-  const fit = fitKeplerians(data, {
-    planets: input.model.planets as PlanetStart[], trend: input.model.trend, epoch: input.model.epoch, priors,
-  })
+  const planets = input.model.planets as PlanetStart[]
+  const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors })
   return samplePosterior(data, fit, {
-    walkers: settings.walkers, steps: settings.steps, burn: settings.burn, thin: settings.thin, seed: settings.seed,
+    walkers: settings.walkers, steps: settings.steps, burn: settings.burn ?? undefined, thin: settings.thin, seed: settings.seed,
+    untilConverged: settings.untilConverged ?? false,
+    fix: planets.map((p) => (p.fix ?? []) as PlanetParam[]),
     mstar: input.mstar ?? undefined, priors, ...extra,
   })
+}
+
+/** Progress figures of a convergence check; expected steps: a quarter burn-in plus 50 τ (the rule). */
+export function progressOf(step: number, maxSteps: number, acceptance: number, check: { tau: number[]; nOverTau: number[]; rhat: number[] } | null): ThreadProgress {
+  const fin = (v: number[]) => v.filter(Number.isFinite)
+  const tau = check && fin(check.tau).length ? Math.max(...fin(check.tau)) : null
+  const q = check && fin(check.nOverTau).length === check.nOverTau.length ? Math.min(...check.nOverTau) : null
+  const r = check && fin(check.rhat).length === check.rhat.length ? Math.max(...check.rhat) : null
+  return {
+    stepsDone: step, stepsTotal: maxSteps, acceptance: Number.isFinite(acceptance) ? acceptance : null,
+    tau, minNOverTau: q, maxRhat: r,
+    expectedSteps: tau === null ? null : Math.min(maxSteps, Math.max(step, Math.ceil((MIN_N_OVER_TAU * tau * 4) / 3))),
+  }
 }
 
 function run(port: NonNullable<typeof parentPort>, wd: ThreadData): void {
   const { input, settings } = wd
   const stop = new Int32Array(wd.stop)
-  const thin = settings.thin
-  const progressEvery = thin * Math.max(1, Math.ceil(10 / thin))
-  const checkpointEvery = thin * Math.max(1, Math.round(wd.checkpointEvery / thin))
-  let lastPost = 0, lastTau = 0
-  let tau: number | null = null
+  const checkpointEvery = Math.max(1, wd.checkpointEvery)
+  let lastPost = 0
   let lastCheckpoint = wd.resume ? Number(wd.resume.state.step) : 0
   let lastCheckpointAt = Date.now()
-  const resume = wd.resume ? { state: stateFromJson(wd.resume.state), chain: wd.resume.chain, lnProb: wd.resume.lnProb } : undefined
+  const resume = wd.resume ? { state: stateFromJson(wd.resume.state), rows: wd.resume.rows } : undefined
+  let lastStore: Parameters<NonNullable<SampleOptions['onProgress']>>[0]['store'] | null = null
+  let lastStep = 0
 
   const result = sampleInput(input, settings, {
-    progressEvery, resume,
-    onProgress: (_done, total, state, kept) => {
-      const step = state.step
+    progressEvery: 10, resume,
+    onProgress: (p) => {
+      const { step, state, store } = p
+      lastStore = store; lastStep = step
       const flag = Atomics.load(stop, 0)
       const now = Date.now()
-      const nW = state.nWalkers, nD = state.nDim
-      if (now - lastTau > 2000 && kept.nKept >= 40) {
-        lastTau = now
-        const t = integratedTime(kept.chain.subarray(0, kept.nKept * nW * nD), { nSteps: kept.nKept, nWalkers: nW, nDim: nD })
-        const finite = Array.from(t).filter(Number.isFinite)
-        tau = finite.length ? Math.max(...finite) * thin : null
-      }
       if (now - lastPost > 250 || step === settings.steps) {
         lastPost = now
-        let acc = 0
-        for (const a of state.accepted) acc += a
-        const msg: ThreadMessage = { type: 'progress', stepsDone: step, stepsTotal: settings.steps, acceptance: step > 0 ? acc / (nW * step) : null, tau }
+        const msg: ThreadMessage = { type: 'progress', ...progressOf(step, settings.steps, p.acceptance, p.check) }
         port.postMessage(msg)
       }
-      void total
       const due = (step - lastCheckpoint >= checkpointEvery && now - lastCheckpointAt >= wd.checkpointMinMs) || flag === STOP_SHUTDOWN
-      if (due && step < settings.steps && step % thin === 0) {
+      if (due && step < settings.steps) {
         lastCheckpoint = step
         lastCheckpointAt = now
-        const msg: ThreadMessage = {
-          type: 'checkpoint', step, state: stateToJson(state), nKept: kept.nKept,
-          chain: kept.chain.slice(0, kept.nKept * nW * nD), lnProb: kept.lnProb.slice(0, kept.nKept * nW),
-        }
+        const msg: ThreadMessage = { type: 'checkpoint', step, state: stateToJson(state), keptThin: store.thin, rows: store.takePending() }
         port.postMessage(msg)
       }
       return flag ? 'stop' : undefined
     },
   })
+  // the rows kept after the last checkpoint: the stored chain then ends where the result does
+  const store = lastStore as { takePending(): ChainRows } | null
+  if (store) {
+    const rows: ThreadMessage = { type: 'rows', step: Math.max(lastStep, result.settings.stepsDone), rows: store.takePending() }
+    port.postMessage(rows)
+  }
   const done: ThreadMessage = { type: 'done', result }
   port.postMessage(done)
 }

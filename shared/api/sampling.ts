@@ -8,34 +8,70 @@ export type SamplingState = z.infer<typeof samplingStateSchema>
 /** States after which a run never changes again. */
 export const SAMPLING_DONE_STATES: readonly SamplingState[] = ['succeeded', 'failed', 'cancelled']
 
-/** Defaults of a run: walkers max(32, 2 × sampled parameters), burn steps / 4, seed drawn at random (and stored). */
-export const SAMPLING_DEFAULTS = { walkers: 32, steps: 5000, thin: 1 } as const
+/**
+ * Defaults of a run: walkers max(32, 2 × free parameters), run until converged (N > 50 τ and
+ * split-R̂ < 1.01 for every free parameter) within a budget of 100 000 steps, burn-in a quarter of
+ * the steps done, seed drawn at random (and stored). A fixed-length run (`untilConverged: false`)
+ * defaults to 5000 steps.
+ */
+export const SAMPLING_DEFAULTS = { walkers: 32, steps: 100_000, fixedSteps: 5000, thin: 1, untilConverged: true } as const
+/** Limits of a request (the launcher's form takes its limits and messages from here). */
+export const SAMPLING_LIMITS = { walkersMin: 4, walkersMax: 512, stepsMin: 20, stepsMax: 200_000, thinMax: 1000, seedMax: 2 ** 32 - 1 } as const
 
 /** Body of POST /api/models/:modelId/sampling; every field optional (see SAMPLING_DEFAULTS). */
 export const startSamplingRequestSchema = z.object({
-  walkers: z.number().int().min(4).max(512).refine((v) => v % 2 === 0, 'must be even').optional(),
-  steps: z.number().int().min(20).max(200_000).optional(),
+  walkers: z.number().int().min(SAMPLING_LIMITS.walkersMin).max(SAMPLING_LIMITS.walkersMax).refine((v) => v % 2 === 0, 'must be even').optional(),
+  /** The budget when `untilConverged` (default), else the run's length. */
+  steps: z.number().int().min(SAMPLING_LIMITS.stepsMin).max(SAMPLING_LIMITS.stepsMax).optional(),
+  untilConverged: z.boolean().optional(),
   burn: z.number().int().min(0).optional(),
-  thin: z.number().int().min(1).max(1000).optional(),
-  seed: z.number().int().min(0).max(2 ** 32 - 1).optional(),
+  thin: z.number().int().min(1).max(SAMPLING_LIMITS.thinMax).optional(),
+  seed: z.number().int().min(0).max(SAMPLING_LIMITS.seedMax).optional(),
 }).superRefine((v, ctx) => {
-  const steps = v.steps ?? SAMPLING_DEFAULTS.steps
+  const steps = v.steps ?? (v.untilConverged === false ? SAMPLING_DEFAULTS.fixedSteps : SAMPLING_DEFAULTS.steps)
   const thin = v.thin ?? SAMPLING_DEFAULTS.thin
   if (v.burn !== undefined && v.burn > steps - 4 * thin) ctx.addIssue({ code: 'custom', path: ['burn'], message: `must leave at least ${4 * thin} steps after burn-in (steps ${steps})` })
   if (steps % thin !== 0) ctx.addIssue({ code: 'custom', path: ['thin'], message: 'must divide steps' })
 })
 export type StartSamplingRequest = z.input<typeof startSamplingRequestSchema>
 
+/** Query of GET /api/models/:modelId/sampling/estimate (the launcher's settings, as text). */
+export const samplingEstimateQuerySchema = z.object({
+  walkers: z.coerce.number().int().min(SAMPLING_LIMITS.walkersMin).max(SAMPLING_LIMITS.walkersMax).optional(),
+  steps: z.coerce.number().int().min(SAMPLING_LIMITS.stepsMin).max(SAMPLING_LIMITS.stepsMax).optional(),
+  untilConverged: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+})
+
+/** GET /api/models/:modelId/sampling/estimate → what a run would sample and how long it would take. */
+export const samplingEstimateSchema = z.object({
+  /** Free (sampled) parameters: the model's fixed ones are not counted. */
+  nDim: z.number().int(), names: z.array(z.string()), walkers: z.number().int(),
+  steps: z.number().int(),
+  /** Steps expected to reach convergence (burn-in + 50 τ with τ ≈ 13 steps per free parameter; a guide). */
+  expectedSteps: z.number().int(),
+  /** Seconds for the expected steps and for the whole budget. */
+  seconds: z.number(), maxSeconds: z.number(),
+})
+export type SamplingEstimate = z.infer<typeof samplingEstimateSchema>
+
 export const samplingSettingsSchema = z.object({
-  walkers: z.number().int(), steps: z.number().int(), burn: z.number().int(), thin: z.number().int(), seed: z.number().int(),
+  /** `burn` null: a quarter of the steps done. `untilConverged` absent on runs made before it existed (fixed length). */
+  walkers: z.number().int(), steps: z.number().int(), burn: z.number().int().nullable(), thin: z.number().int(), seed: z.number().int(),
+  untilConverged: z.boolean().optional(),
 })
 export type SamplingSettings = z.infer<typeof samplingSettingsSchema>
 
 export const samplingProgressSchema = z.object({
   stepsDone: z.number().int(),
+  /** The budget (or the fixed length). */
   stepsTotal: z.number().int(),
   /** Longest integrated autocorrelation time of the chain so far (steps), null until it can be estimated. */
   tau: z.number().nullable(),
+  /** Least N/τ and largest split-R̂ of the latest convergence check (the rule: > 50 and < 1.01). */
+  minNOverTau: z.number().nullable().optional(),
+  maxRhat: z.number().nullable().optional(),
+  /** Steps the run is expected to need (burn-in + 50 τ from the latest τ), null before it is known. */
+  expectedSteps: z.number().int().nullable().optional(),
   /** Seconds left at the current speed; null before the speed is known. */
   etaSeconds: z.number().nullable(),
   /** Mean acceptance fraction so far. */
@@ -46,6 +82,8 @@ export type SamplingProgress = z.infer<typeof samplingProgressSchema>
 
 export const parameterSummarySchema = z.object({
   name: z.string(), unit: z.string(), median: z.number(), lo: z.number(), hi: z.number(), mean: z.number(), sd: z.number(),
+  /** Held fixed by the model: median = lo = hi = its value. */
+  fixed: z.boolean().optional(),
 })
 export type ParameterSummary = z.infer<typeof parameterSummarySchema>
 
@@ -65,6 +103,9 @@ export const samplingResultSchema = z.object({
   settings: z.object({
     seed: z.number(), walkers: z.number().int(), steps: z.number().int(), burn: z.number().int(), thin: z.number().int(),
     stepsDone: z.number().int(), stopped: z.boolean(),
+    /** Runs made before these existed lack them. */
+    untilConverged: z.boolean().optional(), keptThin: z.number().int().optional(), keptRows: z.number().int().optional(),
+    rhatGroups: z.number().int().optional(), fixed: z.array(z.array(z.string())).optional(),
   }),
   start: z.object({ lnPosterior: z.number().nullable(), fitStatus: z.string() }),
 })

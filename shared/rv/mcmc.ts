@@ -1,55 +1,108 @@
 /**
  * Posterior sampling of a fitted RV model: the log-posterior of `posterior.ts` explored by the
  * ensemble sampler of `sampler.ts` (Goodman & Weare 2010), started in a small ball around the
- * maximum-likelihood fit scaled by its covariance errors, followed by burn-in removal, thinning,
- * convergence diagnostics (`diagnostics.ts`: autocorrelation time with the N > 50 τ rule of
- * Foreman-Mackey et al. 2013, rank-normalised split-R̂ of Vehtari et al. 2021, acceptance) and
- * summaries (median, 16th and 84th percentiles, mean, sd) of every fitted and derived quantity:
- * M sin i and a with the stellar mass drawn from its error for every draw.
+ * maximum-likelihood fit scaled by its covariance errors. Parameters the model fixes are held at
+ * their values (not sampled).
+ *
+ * By default the run stops by itself once it has converged, within a budget of steps: every
+ * sampling coordinate must have N > 50 τ (N the steps after burn-in, τ the integrated
+ * autocorrelation time; Foreman-Mackey et al. 2013, PASP 125, 306) and rank-normalised split-R̂
+ * below 1.01 (Vehtari et al. 2021, Bayesian Analysis 16, 667). The rule is checked on a bounded,
+ * thinned copy of the chain (`chain-store.ts`) at steps fixed in advance, so the work per step does
+ * not grow with the chain and a resumed run checks (and stops) exactly where an uninterrupted one
+ * would. Burn-in: a quarter of the steps done unless given.
+ *
+ * Then summaries (median, 16th and 84th percentiles, mean, sd) of every fitted and derived
+ * quantity: M sin i and a with the stellar mass drawn from its error for every draw.
  */
-import { fitKeplerians, type FitOptions, type FitResult } from './orbit-fit.ts'
+import { fitKeplerians, type FitOptions, type FitResult, type PlanetParam } from './orbit-fit.ts'
 import type { RvData } from './orbit-data.ts'
-import { nearestEpoch, tcToTp } from './model.ts'
+import { nearestEpoch, tcToTp, tpToTc } from './model.ts'
 import { minimumMass, semiMajorAxis } from './derived.ts'
-import { createLogPosterior, specFromFit, samplingScales, planetLabel, type SamplingPrior } from './posterior.ts'
+import { createLogPosterior, specFromFit, samplingScales, planetLabel, fixedInFit, type SamplingPrior, type LogPosterior } from './posterior.ts'
 import { createRandom } from '../math/random.ts'
-import { runEnsemble, type ProgressCallback, type SamplerState } from './sampler.ts'
+import { runEnsemble, type SamplerState } from './sampler.ts'
 import { integratedTime, splitRhat, acceptanceFraction } from './diagnostics.ts'
+import { ChainStore, type ChainRows } from './chain-store.ts'
 
 const DEG = Math.PI / 180
 
+/** The convergence rule: N > 50 τ for every coordinate (Foreman-Mackey et al. 2013) … */
+export const MIN_N_OVER_TAU = 50
+/** … and split-R̂ below 1.01 (Vehtari et al. 2021). */
+export const MAX_RHAT = 1.01
+/** Default budget of a run that stops when converged, and default length of a fixed-length run. */
+export const DEFAULT_MAX_STEPS = 100_000
+export const DEFAULT_FIXED_STEPS = 5000
+/** Rows of the kept, thinned copy of the chain (see chain-store.ts). */
+export const DEFAULT_KEPT_ROWS = 1024
+
+export interface ConvergenceCheck {
+  /** Step at which the check was made and the burn-in it used. */
+  step: number
+  burn: number
+  /** Integrated autocorrelation time per coordinate, steps (τ of the thinned copy × its thinning). */
+  tau: number[]
+  nOverTau: number[]
+  rhat: number[]
+  /** Every coordinate passes both parts of the rule. */
+  passed: boolean
+}
+
+/** What `onProgress` receives. */
+export interface SampleProgress {
+  /** Steps done since the start of the whole run. */
+  step: number
+  /** The budget (or the fixed length). */
+  maxSteps: number
+  /** Resumable state (a copy). */
+  state: SamplerState
+  /** Mean acceptance fraction so far. */
+  acceptance: number
+  /** The latest convergence check (null before the first). */
+  check: ConvergenceCheck | null
+  /** The kept copy of the chain: `takePending()` gives the rows kept since the last call, for a checkpoint. */
+  store: ChainStore
+}
+
 export interface SampleOptions {
-  /** Walkers (even, ≥ 2 × number of sampled parameters); default 32. */
+  /** Walkers (even, ≥ 2 × number of sampled parameters); default max(32, 2 × sampled parameters). */
   walkers?: number
-  /** Steps per walker; default 5000. */
+  /** Most steps per walker: the budget when stopping at convergence (default 100 000), else the length (default 5000). */
   steps?: number
-  /** Steps dropped at the start; default a quarter of the steps. */
+  /** Stop as soon as the convergence rule passes (default true). */
+  untilConverged?: boolean
+  /** Steps dropped at the start; default a quarter of the steps done. */
   burn?: number
-  /** Keep every thin-th step for the summaries; default 1. */
+  /** Thinning of the kept copy at the start (it doubles as the chain grows); default 1. */
   thin?: number
+  /** Rows of the kept copy (default 1024). */
+  keptRows?: number
   /** Seed of the run; default 1. */
   seed?: number
   /** Stellar mass (solar masses) and its 1σ error, for M sin i and a. */
   mstar?: { value: number; err: number }
   /** Extra priors on physical parameters (multiplied into the defaults of posterior.ts). */
   priors?: SamplingPrior[]
+  /** Parameters held fixed, per planet (default: the model's `fix` lists, or for a FitResult `fixedInFit`). */
+  fix?: ReadonlyArray<readonly PlanetParam[] | undefined>
   /** Hard upper bound on e (default 0.99). */
   eMax?: number
   /** Called every `progressEvery` steps; return 'stop' to end the run early (the result says so). */
-  onProgress?: ProgressCallback
+  onProgress?: (p: SampleProgress) => void | 'stop'
   progressEvery?: number
   /** Most rows in the kept sample for plots (default 2000). */
   maxSampleRows?: number
   /** Size of the starting ball in units of the fit's errors (default 0.1). */
   ballScale?: number
-  /** Walker groups for split-R̂ (default 4; must divide walkers). */
+  /** Walker groups for split-R̂ (default: `defaultRhatGroups(walkers)`; must divide walkers). */
   rhatGroups?: number
   /**
-   * Continue an interrupted run: the state and the kept chain (and ln p) handed to `onProgress`
-   * (copied), with the same data, model, seed and options. The result equals that of the
-   * uninterrupted run.
+   * Continue an interrupted run: the state from `onProgress` and every row the store's
+   * `takePending()` returned until then (in order), with the same data, model, seed and options.
+   * The result equals that of the uninterrupted run.
    */
-  resume?: { state: SamplerState; chain: ArrayLike<number>; lnProb: ArrayLike<number> }
+  resume?: { state: SamplerState; rows: ChainRows }
 }
 
 export interface ParameterSummary {
@@ -62,10 +115,12 @@ export interface ParameterSummary {
   hi: number
   mean: number
   sd: number
+  /** Held fixed by the model (median = lo = hi = its value, sd 0). */
+  fixed?: boolean
 }
 
 export interface SampleDiagnostics {
-  /** Sampling coordinates the diagnostics refer to (ln P b, ln K b, √e cos ω b, …). */
+  /** Sampling coordinates the diagnostics refer to (ln P b, ln K b, √e cos ω b, …): the free parameters. */
   names: string[]
   /** Integrated autocorrelation time per sampling coordinate, in steps. */
   tau: number[]
@@ -86,9 +141,55 @@ export interface SampleResult {
   /** Thinned draws for plots: every walker at evenly spaced steps after burn-in, column per name. */
   sample: { names: string[]; units: string[]; step: number[]; walker: number[]; columns: number[][] }
   diagnostics: SampleDiagnostics
-  settings: { seed: number; walkers: number; steps: number; burn: number; thin: number; stepsDone: number; stopped: boolean }
+  settings: {
+    seed: number; walkers: number; steps: number; burn: number; thin: number; stepsDone: number; stopped: boolean
+    /** Stopped by the convergence rule (true) or ran to its steps; false for a fixed-length run. */
+    untilConverged: boolean
+    /** Thinning and rows of the kept copy at the end; walker groups of split-R̂. */
+    keptThin: number; keptRows: number; rhatGroups: number
+    /** Parameters held fixed, per planet. */
+    fixed: PlanetParam[][]
+  }
   /** The maximum-likelihood fit the walkers started from. */
   start: { lnPosterior: number; fitStatus: FitResult['status'] }
+}
+
+/**
+ * Walker groups for split-R̂: the divisor of `walkers` between 2 and 8 nearest to 4 (the larger on
+ * a tie). Every even walker count has one: 34 walkers → 2 groups of 17, 30 → 5 groups of 6 (a tie
+ * with 3, the larger wins), 36 → 4 groups of 9.
+ */
+export function defaultRhatGroups(walkers: number): number {
+  if (!(Number.isInteger(walkers) && walkers >= 2)) throw new RangeError(`walkers must be an integer ≥ 2, got ${walkers}`)
+  let best = 1
+  for (let g = 2; g <= 8; g++) {
+    if (walkers % g !== 0 || walkers / g < 2) continue
+    if (best === 1 || Math.abs(g - 4) < Math.abs(best - 4) || (Math.abs(g - 4) === Math.abs(best - 4) && g > best)) best = g
+  }
+  return best
+}
+
+/**
+ * The convergence rule on the kept copy after `burn` steps: τ per coordinate from the thinned
+ * rows (× the thinning, as `get_autocorr_time(thin=k)` of Foreman-Mackey et al.'s emcee does),
+ * N/τ with N the steps done after burn-in, split-R̂ over `groups` walker groups.
+ */
+export function checkConvergence(store: ChainStore, step: number, burn: number, groups: number): ConvergenceCheck {
+  const from = store.firstRowAfter(burn)
+  const nRows = store.rows - from
+  const D = store.nDim
+  if (nRows < 8) {
+    const nan = new Array<number>(D).fill(NaN)
+    return { step, burn, tau: nan, nOverTau: nan.slice(), rhat: nan.slice(), passed: false }
+  }
+  const v = store.view(from)
+  const shape = { nSteps: nRows, nWalkers: store.nWalkers, nDim: D }
+  const tau = Array.from(integratedTime(v.chain, shape), (t) => t * store.thin)
+  const post = step - burn
+  const nOverTau = tau.map((t) => post / t)
+  const rhat = Array.from(splitRhat(v.chain, shape, { groups }))
+  const passed = nOverTau.every((q) => q > MIN_N_OVER_TAU) && rhat.every((r) => r < MAX_RHAT)
+  return { step, burn, tau, nOverTau, rhat, passed }
 }
 
 function isFitResult(v: FitResult | FitOptions): v is FitResult {
@@ -123,6 +224,11 @@ function summarise(name: string, unit: string, v: Float64Array): ParameterSummar
 
 const fmt = (v: number, d = 2): string => (Number.isFinite(v) ? v.toFixed(d) : String(v))
 
+/** Steps between convergence checks at thinning k: an eighth of the kept copy's rows. */
+function checkEvery(store: ChainStore): number {
+  return store.thin * (store.capacity / 8)
+}
+
 /**
  * Samples the posterior of the model of `model` (a fit, or fit options from which the maximum-
  * likelihood fit is computed first). Throws a RangeError naming the option on misuse; a run that
@@ -130,10 +236,15 @@ const fmt = (v: number, d = 2): string => (Number.isFinite(v) ? v.toFixed(d) : S
  * plain-language warnings.
  */
 export function samplePosterior(data: RvData, model: FitResult | FitOptions, options: SampleOptions = {}): SampleResult {
-  const steps = intOpt('steps', options.steps, 5000, 4)
+  const untilConverged = options.untilConverged ?? true
+  const steps = intOpt('steps', options.steps, untilConverged ? DEFAULT_MAX_STEPS : DEFAULT_FIXED_STEPS, 4)
   const thin = intOpt('thin', options.thin, 1, 1)
-  const burn = intOpt('burn', options.burn, Math.floor(steps / 4), 0)
-  if (burn > steps - 4 * thin) throw new RangeError(`burn must leave at least ${4 * thin} steps (steps ${steps}, thin ${thin}), got ${burn}`)
+  const keptRows = intOpt('keptRows', options.keptRows, DEFAULT_KEPT_ROWS, 8)
+  if (options.burn !== undefined) {
+    intOpt('burn', options.burn, 0, 0)
+    if (options.burn > steps - 4 * thin) throw new RangeError(`burn must leave at least ${4 * thin} steps (steps ${steps}, thin ${thin}), got ${options.burn}`)
+  }
+  const burnAt = (done: number): number => options.burn ?? Math.floor(done / 4)
   const seed = options.seed ?? 1
   if (!Number.isFinite(seed)) throw new RangeError(`seed must be a finite number, got ${seed}`)
   const maxRows = intOpt('maxSampleRows', options.maxSampleRows, 2000, 1)
@@ -143,7 +254,10 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
 
   const fit = isFitResult(model) ? model : fitKeplerians(data, model)
   const fitPriors = isFitResult(model) ? [] : (model.priors ?? [])
-  const spec = specFromFit(fit, { priors: [...fitPriors, ...(options.priors ?? [])], eMax: options.eMax })
+  const fixed: PlanetParam[][] = fit.planets.map((_, k) => [...(options.fix ? (options.fix[k] ?? []) : isFitResult(model) ? fixedInFit(fit)[k] : (model.planets[k]?.fix ?? []))])
+  // e fixed at 0 leaves ω without meaning: held too
+  fit.planets.forEach((p, k) => { if (fixed[k].includes('e') && p.e === 0 && !fixed[k].includes('omegaDeg')) fixed[k].push('omegaDeg') })
+  const spec = specFromFit(fit, { priors: [...fitPriors, ...(options.priors ?? [])], eMax: options.eMax, fix: fixed })
   // A zero ML jitter is a poor centre for ln s: start at a tenth of the typical error instead.
   let meanErr = 0
   for (let i = 0; i < data.dy.length; i++) meanErr += data.dy[i]
@@ -153,8 +267,8 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   const nDim = post.nDim
   const walkers = intOpt('walkers', options.walkers, Math.max(32, 2 * nDim + (nDim % 2)), 2)
   if (walkers < 2 * nDim || walkers % 2) throw new RangeError(`walkers must be even and ≥ 2 × ${nDim} sampled parameters, got ${walkers}`)
-  const groups = options.rhatGroups ?? 4
-  if (!(Number.isInteger(groups) && groups >= 1 && walkers % groups === 0)) throw new RangeError(`rhatGroups must divide walkers (${walkers}), got ${groups}`)
+  const groups = options.rhatGroups ?? defaultRhatGroups(walkers)
+  if (!(Number.isInteger(groups) && groups >= 2 && walkers % groups === 0)) throw new RangeError(`rhatGroups must be ≥ 2 and divide walkers (${walkers}), got ${groups}`)
 
   // ---- starting ball
   const rng = createRandom(seed)
@@ -172,90 +286,147 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     start.set(x, w * nDim)
   }
 
-  let run
+  // ---- the run: every step offered to the kept copy; the rule checked at multiples of checkEvery
+  const store = new ChainStore(walkers, nDim, { capacity: keptRows, thin })
+  let startFrom: Float64Array | SamplerState = start
   const resume = options.resume
   if (resume) {
     const st = resume.state
     if (!st || st.nWalkers !== walkers || st.nDim !== nDim) throw new RangeError(`resume.state must be ${walkers} walkers × ${nDim} parameters`)
     if (!(Number.isInteger(st.step) && st.step >= 0 && st.step <= steps)) throw new RangeError(`resume.state.step must be in [0, steps], got ${st.step}`)
-    const keptBefore = Math.floor(st.step / thin)
-    if (resume.chain.length !== keptBefore * walkers * nDim || resume.lnProb.length !== keptBefore * walkers) {
-      throw new RangeError(`resume.chain must hold the ${keptBefore} kept steps of the state (thin ${thin})`)
-    }
-    if (st.step % thin) throw new RangeError('resume.state.step must be a multiple of thin')
-    const rest = runEnsemble({
-      logProb: post.logProb, nDim, nWalkers: walkers, start: st, steps: steps - st.step, random: rng, thin,
-      onProgress: options.onProgress, progressEvery: options.progressEvery,
-    })
-    const chainAll = new Float64Array((keptBefore + rest.nKept) * walkers * nDim)
-    chainAll.set(resume.chain); chainAll.set(rest.chain, keptBefore * walkers * nDim)
-    const lnpAll = new Float64Array((keptBefore + rest.nKept) * walkers)
-    lnpAll.set(resume.lnProb); lnpAll.set(rest.lnProb, keptBefore * walkers)
-    run = { ...rest, chain: chainAll, lnProb: lnpAll, nKept: keptBefore + rest.nKept, nSteps: st.step + rest.nSteps }
-  } else {
-    run = runEnsemble({
-      logProb: post.logProb, nDim, nWalkers: walkers, start, steps, random: rng, thin,
-      onProgress: options.onProgress, progressEvery: options.progressEvery,
-    })
+    store.replay(resume.rows)
+    if (store.lastStep() > st.step) throw new RangeError('resume.rows go beyond resume.state.step')
+    startFrom = st
   }
+  const step0 = resume ? resume.state.step : 0
+  let check: ConvergenceCheck | null = null
+  let convergedStop = false
+  const every = options.progressEvery ?? Math.max(1, Math.floor(steps / 100))
+  const run = runEnsemble({
+    logProb: post.logProb, nDim, nWalkers: walkers, start: startFrom, steps: steps - step0, random: rng, keepChain: false,
+    onStep: (step, pos, lp) => {
+      store.push(step, pos, lp)
+      if (step % checkEvery(store) !== 0) return undefined
+      check = checkConvergence(store, step, burnAt(step), groups)
+      if (untilConverged && check.passed) { convergedStop = true; return 'stop' }
+      return undefined
+    },
+    progressEvery: every,
+    onProgress: options.onProgress
+      ? (_done, _total, state) => {
+          let acc = 0
+          for (let w = 0; w < walkers; w++) acc += state.accepted[w]
+          return options.onProgress!({ step: state.step, maxSteps: steps, state, acceptance: state.step > 0 ? acc / (walkers * state.step) : NaN, check, store })
+        }
+      : undefined,
+  })
+  const stepsDone = step0 + run.nSteps
+  const userStopped = run.stopped && !convergedStop
 
-  // ---- post-burn chain (kept steps are steps thin, 2·thin, …)
+  // ---- post-burn chain: the kept rows after the burn-in
   const warnings: string[] = []
-  let burnKept = Math.ceil(burn / thin)
-  if (run.stopped) warnings.push(`The run was stopped after ${run.nSteps} of ${steps} steps; the results use the steps done so far.`)
-  if (run.nKept - burnKept < 4) {
-    burnKept = Math.floor(run.nKept / 2)
-    warnings.push(`The run ended before the burn-in was over; the first half of the ${run.nSteps} steps done was dropped instead.`)
+  let burn = burnAt(stepsDone)
+  if (burn >= stepsDone || store.rows - store.firstRowAfter(burn) < 4) {
+    burn = Math.floor(stepsDone / 2)
+    warnings.push(`The run ended before the burn-in was over; the first half of the ${stepsDone} steps done was dropped instead.`)
   }
-  const nPost = run.nKept - burnKept
-  const chain = run.chain.subarray(burnKept * walkers * nDim, run.nKept * walkers * nDim)
-  const lnp = run.lnProb.subarray(burnKept * walkers, run.nKept * walkers)
-  const shape = { nSteps: nPost, nWalkers: walkers, nDim }
-  const tauKept = nPost >= 4 ? integratedTime(chain, shape) : new Float64Array(nDim).fill(NaN)
-  const tau = Array.from(tauKept, (v) => v * thin)
-  const postSteps = nPost * thin
-  const nOverTau = tau.map((v) => postSteps / v)
-  const rhat = nPost >= 4 ? Array.from(splitRhat(chain, shape, { groups })) : new Array(nDim).fill(NaN)
+  const from = store.firstRowAfter(burn)
+  const nPost = store.rows - from
+  if (nPost < 4) throw new RangeError(`steps: the run kept only ${nPost} rows after burn-in; run at least ${8 * thin} steps`)
+  const kept = store.view(from)
+  const chain = kept.chain
+  const lnp = kept.lnProb
+  const final = check !== null && (check as ConvergenceCheck).step === stepsDone && (check as ConvergenceCheck).burn === burn
+    ? (check as ConvergenceCheck)
+    : checkConvergence(store, stepsDone, burn, groups)
+  const { tau, nOverTau, rhat } = final
+  const postSteps = stepsDone - burn
   const acc = acceptanceFraction(run.acceptance)
   let accMin = Infinity, accMax = -Infinity
   for (const a of run.acceptance) { accMin = Math.min(accMin, a); accMax = Math.max(accMax, a) }
 
-  const shortOnes = post.names.filter((_, d) => !(nOverTau[d] >= 50))
+  if (userStopped) warnings.push(`The run was stopped after ${stepsDone} of ${steps} steps; the results use the steps done so far.`)
+  const shortOnes = post.names.filter((_, d) => !(nOverTau[d] > MIN_N_OVER_TAU))
   if (shortOnes.length) {
-    const worst = Math.max(...tau.filter(Number.isFinite))
+    const worst = Math.max(...tau.filter(Number.isFinite), 1)
+    const need = Math.ceil((MIN_N_OVER_TAU * worst * 4 / 3) / 100) * 100
     warnings.push(
       `The run is too short to trust: after burn-in it lasted ${postSteps} steps, only ${fmt(Math.min(...nOverTau), 0)} autocorrelation times ` +
-      `(at least 50 are needed) for ${shortOnes.join(', ')}. About ${Math.ceil((50 * worst + burn) / 100) * 100} steps would do.`,
+      `(more than ${MIN_N_OVER_TAU} are needed) for ${shortOnes.join(', ')}. About ${need} steps would do` +
+      (untilConverged && !userStopped && stepsDone >= steps ? `; the budget of ${steps} steps ran out: raise it.` : '.'),
     )
   }
-  const badRhat = post.names.filter((_, d) => !(rhat[d] < 1.01))
+  const badRhat = post.names.filter((_, d) => !(rhat[d] < MAX_RHAT))
   if (badRhat.length) {
-    warnings.push(`Groups of walkers disagree about ${badRhat.join(', ')} (split-R̂ up to ${fmt(Math.max(...rhat.filter(Number.isFinite)), 3)}; below 1.01 is expected): the walkers may sit in different modes or still be drifting.`)
+    warnings.push(`Groups of walkers disagree about ${badRhat.join(', ')} (split-R̂ up to ${fmt(Math.max(...rhat.filter(Number.isFinite)), 3)} over ${groups} groups; below ${MAX_RHAT} is expected): the walkers may sit in different modes or still be drifting.`)
   }
   const maxTau = Math.max(...tau.filter(Number.isFinite), 0)
   if (burn < 2 * maxTau) warnings.push(`The burn-in (${burn} steps) is shorter than twice the longest autocorrelation time (${fmt(maxTau, 0)} steps): the first steps kept may still remember the starting point.`)
   if (acc < 0.15) warnings.push(`Few proposed moves were accepted (${fmt(100 * acc, 0)} %); the posterior may have several separate modes or a very narrow ridge.`)
   if (acc > 0.2 && accMin < 0.05) {
-    const stuck = Array.from(run.acceptance).map((a, w) => (a < 0.05 ? w : -1)).filter((w) => w >= 0)
-    warnings.push(`Some walkers barely moved (${stuck.length} of ${walkers} accepted under 5 % of their moves); they may be stuck in a region of low probability.`)
+    const stuck = Array.from(run.acceptance).filter((a) => a < 0.05).length
+    warnings.push(`Some walkers barely moved (${stuck} of ${walkers} accepted under 5 % of their moves); they may be stuck in a region of low probability.`)
   }
-  const fixedNames = fit.planets.flatMap((p, k) => {
-    const fixedHere = isFitResult(model) ? [] : (model.planets[k]?.fix ?? [])
-    const u = p.uncertainty
-    const zero = (['period', 'K', 'e', 'omegaDeg', 'tc'] as const).filter((q) => u[q] === 0 && !(q === 'omegaDeg' && p.e === 0))
-    const all = [...new Set([...fixedHere, ...zero])]
-    return all.length ? [`${all.join(', ')} of planet ${planetLabel(k)}`] : []
-  })
-  if (fixedNames.length) warnings.push(`The fit held ${fixedNames.join('; ')} fixed; the sampler does not fix parameters and sampled them all.`)
   if (!fit.success) warnings.push(`The starting fit did not converge (${fit.message}); the walkers started from its last point.`)
-  const converged = !run.stopped && shortOnes.length === 0 && badRhat.length === 0 && acc >= 0.15 && !(acc > 0.2 && accMin < 0.05)
+  const converged = !userStopped && shortOnes.length === 0 && badRhat.length === 0 && acc >= 0.15 && !(acc > 0.2 && accMin < 0.05)
 
-  // ---- physical and derived values per draw
-  const nDraw = nPost * walkers
+  const { cols, fixedCols } = physicalColumns(data, fit, post, chain, nPost * walkers, options.mstar, seed)
+  const parameters = cols.map((c) => {
+    if (fixedCols.has(c.name)) {
+      const v = c.v[0]
+      return { name: c.name, unit: c.unit, median: v, lo: v, hi: v, mean: v, sd: 0, fixed: true }
+    }
+    const q = summarise(c.name, c.unit, c.v)
+    if (c.unit === 'deg') {
+      // report ω with its median in [0°, 360°), interval shifted with it
+      const shift = 360 * Math.floor(q.median / 360)
+      q.median -= shift; q.lo -= shift; q.hi -= shift; q.mean -= shift
+    }
+    return q
+  })
+
+  // thinned plot sample: all walkers at evenly spaced kept rows
+  const stride = Math.max(1, Math.ceil((nPost * walkers) / maxRows))
+  const stepIdx: number[] = [], walkerIdx: number[] = []
+  const rows: number[] = []
+  for (let r = 0; r < nPost; r += stride) {
+    if (rows.length + walkers > maxRows) break
+    for (let w = 0; w < walkers; w++) { rows.push(r * walkers + w); stepIdx.push(kept.steps[r]); walkerIdx.push(w) }
+  }
+  const sample = {
+    names: [...cols.map((c) => c.name), 'ln posterior'],
+    units: [...cols.map((c) => c.unit), ''],
+    step: stepIdx, walker: walkerIdx,
+    columns: [...cols.map((c) => rows.map((r) => c.v[r])), rows.map((r) => lnp[r])],
+  }
+  return {
+    parameters, sample,
+    diagnostics: { names: post.names, tau, nOverTau, rhat, acceptance: acc, acceptanceMin: accMin, acceptanceMax: accMax, converged, warnings },
+    settings: {
+      seed, walkers, steps, burn, thin, stepsDone, stopped: userStopped, untilConverged,
+      keptThin: store.thin, keptRows: store.rows, rhatGroups: groups, fixed,
+    },
+    start: { lnPosterior: fit.stats.lnPosterior, fitStatus: fit.status },
+  }
+}
+
+/**
+ * Physical and derived values per draw of `chain` (draws × coordinates): P, K, e, ω, Tc, Tp per
+ * planet (ω and Tp left out for an orbit held circular), M sin i and a when the star's mass is
+ * given (its own draw per row), offsets, jitters, trend. Parameters held fixed give constant
+ * columns, named in `fixedCols`.
+ */
+export function physicalColumns(
+  data: RvData, fit: FitResult, post: LogPosterior, chain: ArrayLike<number>, nDraw: number,
+  mst: { value: number; err: number } | undefined, seed: number,
+): { cols: Array<{ name: string; unit: string; v: Float64Array }>; fixedCols: Set<string> } {
+  const nDim = post.nDim
   const L = post.layout
   const cols: Array<{ name: string; unit: string; v: Float64Array }> = []
-  const col = (name: string, unit: string): Float64Array => { const v = new Float64Array(nDraw); cols.push({ name, unit, v }); return v }
-  const mst = options.mstar
+  const fixedCols = new Set<string>()
+  const col = (name: string, unit: string, isFixed = false): Float64Array => {
+    const v = new Float64Array(nDraw); cols.push({ name, unit, v }); if (isFixed) fixedCols.add(name); return v
+  }
   const mRng = createRandom((seed ^ 0x5bd1e995) >>> 0)
   const mDraw = new Float64Array(nDraw)
   if (mst) {
@@ -268,22 +439,36 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   for (let k = 0; k < L.nPlanets; k++) {
     const lab = planetLabel(k)
     const fp = fit.planets[k]
-    const cP = col(`P ${lab}`, 'd'), cK = col(`K ${lab}`, 'm/s'), cE = col(`e ${lab}`, ''), cW = col(`ω ${lab}`, 'deg')
-    const cTc = col(`Tc ${lab}`, 'd'), cTp = col(`Tp ${lab}`, 'd')
+    const c = L.planets[k]
+    const circular = c.h < 0 && c.e < 0 && c.omega < 0 && c.fixed.e === 0
+    const eFree = c.h >= 0 || c.e >= 0, wFree = c.h >= 0 || c.omega >= 0
+    const phaseFree = c.tc >= 0
+    const cP = col(`P ${lab}`, 'd', c.lnP < 0), cK = col(`K ${lab}`, 'm/s', c.lnK < 0), cE = col(`e ${lab}`, '', !eFree)
+    const cW = circular ? null : col(`ω ${lab}`, 'deg', !wFree)
+    const cTc = col(`Tc ${lab}`, 'd', !phaseFree && c.fixed.tp === null)
+    const cTp = circular ? null : col(`Tp ${lab}`, 'd', !phaseFree && c.fixed.tp !== null)
     const cMj = mst ? col(`M sin i ${lab}`, 'M_Jup') : null
     const cMe = mst ? col(`M sin i ${lab} (Earth masses)`, 'M_Earth') : null
     const cA = mst ? col(`a ${lab}`, 'au') : null
-    const o = 5 * k
     for (let i = 0; i < nDraw; i++) {
       const q = i * nDim
-      const P = Math.exp(chain[q + o]), K = Math.exp(chain[q + o + 1])
-      const h = chain[q + o + 2], kk = chain[q + o + 3], tc = chain[q + o + 4]
-      const e = h * h + kk * kk
-      const w = e > 0 ? Math.atan2(kk, h) : 0
+      const P = c.lnP >= 0 ? Math.exp(chain[q + c.lnP]) : c.fixed.period
+      const K = c.lnK >= 0 ? Math.exp(chain[q + c.lnK]) : c.fixed.K
+      let e = c.fixed.e, w = c.fixed.omega
+      if (c.h >= 0) {
+        const h = chain[q + c.h], kk = chain[q + c.k]
+        e = h * h + kk * kk
+        w = e > 0 ? Math.atan2(kk, h) : 0
+      } else if (c.e >= 0) e = chain[q + c.e]
+      else if (c.omega >= 0) w = chain[q + c.omega]
+      let tc: number, tp: number
+      if (c.tc >= 0) { tc = chain[q + c.tc]; tp = tcToTp(tc, P, e, w) }
+      else if (c.fixed.tp !== null) { tp = c.fixed.tp; tc = nearestEpoch(tpToTc(tp, P, e, w), P, fp.tc) }
+      else { tc = c.fixed.tc; tp = tcToTp(tc, P, e, w) }
       cP[i] = P; cK[i] = K; cE[i] = e
-      cW[i] = fp.omegaDeg + ((((w / DEG - fp.omegaDeg) % 360) + 540) % 360) - 180
+      if (cW) cW[i] = fp.omegaDeg + ((((w / DEG - fp.omegaDeg) % 360) + 540) % 360) - 180
       cTc[i] = tc
-      cTp[i] = nearestEpoch(tcToTp(tc, P, e, w), P, fp.tp)
+      if (cTp) cTp[i] = c.fixed.tp !== null && c.tc < 0 ? tp : nearestEpoch(tp, P, fp.tp)
       if (mst) {
         const m = minimumMass(P, K, e, mDraw[i])
         cMj![i] = m.msiniMjup; cMe![i] = m.msiniMearth
@@ -303,36 +488,5 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   }
   if (L.iSlope >= 0) { const c = col('slope', 'm/s/d'); for (let i = 0; i < nDraw; i++) c[i] = chain[i * nDim + L.iSlope] }
   if (L.iCurvature >= 0) { const c = col('curvature', 'm/s/d²'); for (let i = 0; i < nDraw; i++) c[i] = chain[i * nDim + L.iCurvature] }
-
-  // summaries use every thin-th step after burn-in
-  const parameters = cols.map((c) => {
-    const s = summarise(c.name, c.unit, c.v)
-    if (c.unit === 'deg') {
-      // report ω with its median in [0°, 360°), interval shifted with it
-      const shift = 360 * Math.floor(s.median / 360)
-      s.median -= shift; s.lo -= shift; s.hi -= shift; s.mean -= shift
-    }
-    return s
-  })
-
-  // thinned plot sample: all walkers at evenly spaced kept steps
-  const every = Math.max(1, Math.ceil((nPost * walkers) / maxRows))
-  const stepIdx: number[] = [], walkerIdx: number[] = []
-  const rows: number[] = []
-  for (let s = 0; s < nPost; s += every) {
-    for (let w = 0; w < walkers; w++) { rows.push(s * walkers + w); stepIdx.push((burnKept + s + 1) * thin); walkerIdx.push(w) }
-    if (rows.length + walkers > maxRows) break
-  }
-  const sample = {
-    names: [...cols.map((c) => c.name), 'ln posterior'],
-    units: [...cols.map((c) => c.unit), ''],
-    step: stepIdx, walker: walkerIdx,
-    columns: [...cols.map((c) => rows.map((r) => c.v[r])), rows.map((r) => lnp[r])],
-  }
-  return {
-    parameters, sample,
-    diagnostics: { names: post.names, tau, nOverTau, rhat, acceptance: acc, acceptanceMin: accMin, acceptanceMax: accMax, converged, warnings },
-    settings: { seed, walkers, steps, burn, thin, stepsDone: run.nSteps, stopped: run.stopped },
-    start: { lnPosterior: fit.stats.lnPosterior, fitStatus: fit.status },
-  }
+  return { cols, fixedCols }
 }

@@ -5,6 +5,11 @@
  * Sampling coordinates, in this order:
  *   per planet   ln P, ln K, √e cos ω, √e sin ω, Tc     (Ford 2006, ApJ 642, 505; Eastman, Gaudi &
  *                                                      Agol 2013, PASP 125, 83 for √e cos ω, √e sin ω)
+ *                every parameter the model fixes (`fix`, as the fitter's PlanetStart.fix) is left
+ *                out and held at its value: with e fixed the planet has ω (radians, flat on the
+ *                circle, sampled on [ω₀ − π, ω₀ + π)); with ω fixed it has e (flat on [0, eMax));
+ *                with e fixed at 0, or e and ω fixed, neither; with Tc or Tp fixed no phase
+ *                coordinate (a fixed Tp gives Tc from the current P, e, ω)
  *   per instrument  offset
  *   per instrument  ln s (only when jitters are sampled)
  *   trend        slope [, curvature]                  (about `epoch`)
@@ -31,7 +36,7 @@
  */
 import { addKeplerian, tcToTp, tpToTc, nearestEpoch, type Keplerian } from './model.ts'
 import { checkRvData, type RvData } from './orbit-data.ts'
-import { E_MAX, type TrendKind, type FitResult } from './orbit-fit.ts'
+import { E_MAX, type TrendKind, type FitResult, type PlanetParam } from './orbit-fit.ts'
 
 const TWO_PI = 2 * Math.PI
 const DEG = Math.PI / 180
@@ -55,7 +60,8 @@ export interface SamplingPrior {
 
 /** The model to sample and the point it is centred on (usually the maximum-likelihood fit). */
 export interface PosteriorSpec {
-  planets: Array<{ period: number; K: number; e?: number; omegaDeg?: number; tc?: number; tp?: number }>
+  /** Centre values of each planet; `fix` lists the parameters held at these values (not sampled). */
+  planets: Array<{ period: number; K: number; e?: number; omegaDeg?: number; tc?: number; tp?: number; fix?: readonly PlanetParam[] }>
   trend?: TrendKind
   /** Reference time of the trend (default: mean time of the data). */
   epoch?: number
@@ -71,8 +77,26 @@ export interface PosteriorSpec {
   eMax?: number
 }
 
+/** Where one planet's coordinates sit in the sampling vector (−1: held fixed or not in this mode). */
+export interface PlanetCoords {
+  lnP: number
+  lnK: number
+  /** √e cos ω and √e sin ω (e and ω both free). */
+  h: number
+  k: number
+  /** e alone (ω fixed). */
+  e: number
+  /** ω in radians alone (e fixed, not 0). */
+  omega: number
+  tc: number
+  /** Values the fixed parameters hold (ω in radians; Tp only when the phase is fixed by Tp). */
+  fixed: { period: number; K: number; e: number; omega: number; tc: number; tp: number | null }
+}
+
 export interface PosteriorLayout {
   nPlanets: number
+  /** Per planet, the index of each coordinate (−1 when it is held fixed). */
+  planets: PlanetCoords[]
   nInst: number
   /** Index of the first offset, of the first ln jitter (−1 if fixed), of the slope and curvature (−1 if absent). */
   iOffset: number
@@ -130,22 +154,39 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
 
   const names: string[] = [], units: string[] = []
   const centre: number[] = []
+  const coords: PlanetCoords[] = []
+  // ω sampled alone (e fixed) lives on [ω₀ − π, ω₀ + π): flat on the circle, one branch
+  const omegaLo = new Float64Array(nPl)
   spec.planets.forEach((p, k) => {
     const label = `planets[${k}]`
+    const fix = new Set<string>(p.fix ?? [])
+    for (const f of fix) if (!['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'].includes(f)) throw new RangeError(`${label}.fix: unknown parameter ${f}`)
     if (!(p.period > 0)) throw new RangeError(`${label}.period must be > 0, got ${p.period}`)
-    if (!(p.K > 0)) throw new RangeError(`${label}.K must be > 0 to start the sampler (ln K), got ${p.K}`)
+    if (!(p.K > 0) && !(fix.has('K') && p.K >= 0)) throw new RangeError(`${label}.K must be > 0 to start the sampler (ln K), got ${p.K}`)
     const e = p.e ?? 0
     if (!(e >= 0 && e < eMax)) throw new RangeError(`${label}.e must be in [0, eMax), got ${e}`)
     const w = (p.omegaDeg ?? 0) * DEG
+    if (!Number.isFinite(w)) throw new RangeError(`${label}.omegaDeg must be finite`)
     let tc: number
-    if (p.tc !== undefined) tc = p.tc
+    if (p.tc !== undefined && !fix.has('tp')) tc = p.tc
     else if (p.tp !== undefined) tc = tpToTc(p.tp, p.period, e, w)
-    else throw new RangeError(`${label} needs tc or tp`)
+    else throw new RangeError(`${label} needs tc or tp${fix.has('tp') ? ' (tp, to hold it fixed)' : ''}`)
     if (!Number.isFinite(tc)) throw new RangeError(`${label}.tc must be finite`)
     const L = planetLabel(k)
-    names.push(`ln P ${L}`, `ln K ${L}`, `√e cos ω ${L}`, `√e sin ω ${L}`, `Tc ${L}`)
-    units.push('ln d', 'ln m/s', '', '', 'd')
-    centre.push(Math.log(p.period), Math.log(p.K), Math.sqrt(e) * Math.cos(w), Math.sqrt(e) * Math.sin(w), nearestEpoch(tc, p.period, epoch))
+    const c: PlanetCoords = {
+      lnP: -1, lnK: -1, h: -1, k: -1, e: -1, omega: -1, tc: -1,
+      fixed: { period: p.period, K: p.K, e, omega: w, tc, tp: fix.has('tp') && !fix.has('tc') ? p.tp! : null },
+    }
+    const push = (name: string, unit: string, v: number): number => { names.push(`${name} ${L}`); units.push(unit); centre.push(v); return centre.length - 1 }
+    if (!fix.has('period')) c.lnP = push('ln P', 'ln d', Math.log(p.period))
+    if (!fix.has('K')) c.lnK = push('ln K', 'ln m/s', Math.log(p.K))
+    const fe = fix.has('e'), fw = fix.has('omegaDeg')
+    if (fe && (e === 0 || fw)) { /* no eccentricity coordinate */ }
+    else if (fe) { omegaLo[k] = w - Math.PI; c.omega = push('ω', 'rad', w) }
+    else if (fw) c.e = push('e', '', e)
+    else { c.h = push('√e cos ω', '', Math.sqrt(e) * Math.cos(w)); c.k = push('√e sin ω', '', Math.sqrt(e) * Math.sin(w)) }
+    if (!fix.has('tc') && !fix.has('tp')) c.tc = push('Tc', 'd', nearestEpoch(tc, p.period, epoch))
+    coords.push(c)
   })
   const iOffset = centre.length
   for (let k = 0; k < nInst; k++) {
@@ -202,24 +243,45 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
     for (let k = 0; k < nInst; k++) s2[k] = fixedJitter[k] ** 2
   }
   const constTerm = n * LN_2PI
-  const ex = new Float64Array(nPl), om = new Float64Array(nPl)
+  const ex = new Float64Array(nPl), om = new Float64Array(nPl), tcs = new Float64Array(nPl)
 
   /** Fills orbits / ex / om from x; returns the prior's Jacobian terms, or −Infinity outside the bounds. */
   const unpack = (x: ArrayLike<number>): number => {
     let jac = 0
     for (let k = 0; k < nPl; k++) {
-      const o = 5 * k
-      const lnP = x[o], lnK = x[o + 1], h = x[o + 2], kk = x[o + 3], tc = x[o + 4]
-      const e = h * h + kk * kk
-      if (!(e < eMax) || !Number.isFinite(lnP) || !Number.isFinite(lnK) || !Number.isFinite(tc) || lnP > 700 || lnK > 700) return -Infinity
-      const P = Math.exp(lnP)
-      if (!(P > 0)) return -Infinity
-      const w = e > 0 ? Math.atan2(kk, h) : 0
+      const c = coords[k]
+      let P = c.fixed.period, K = c.fixed.K, e = c.fixed.e, w = c.fixed.omega
+      if (c.lnP >= 0) {
+        const lnP = x[c.lnP]
+        if (!(lnP < 700 && lnP > -700)) return -Infinity
+        P = Math.exp(lnP)
+        jac += lnP
+      }
+      if (c.lnK >= 0) {
+        const lnK = x[c.lnK]
+        if (!(lnK < 700 && lnK > -700)) return -Infinity
+        K = Math.exp(lnK)
+        jac += lnK
+      }
+      if (c.h >= 0) {
+        const h = x[c.h], kk = x[c.k]
+        e = h * h + kk * kk
+        if (!(e < eMax)) return -Infinity
+        w = e > 0 ? Math.atan2(kk, h) : 0
+      } else if (c.e >= 0) {
+        e = x[c.e]
+        if (!(e >= 0 && e < eMax)) return -Infinity
+      } else if (c.omega >= 0) {
+        w = x[c.omega]
+        if (!(w >= omegaLo[k] && w < omegaLo[k] + TWO_PI)) return -Infinity
+      }
+      let tc: number
+      if (c.tc >= 0) { tc = x[c.tc]; if (!Number.isFinite(tc)) return -Infinity }
+      else tc = c.fixed.tp === null ? c.fixed.tc : tpToTc(c.fixed.tp, P, e, w)
       const orb = orbits[k]
-      orb.period = P; orb.K = Math.exp(lnK); orb.e = e; orb.omega = w
-      orb.tp = tcToTp(tc, P, e, w)
-      ex[k] = e; om[k] = w
-      jac += lnP + lnK
+      orb.period = P; orb.K = K; orb.e = e; orb.omega = w
+      orb.tp = c.fixed.tp === null ? tcToTp(tc, P, e, w) : c.fixed.tp
+      ex[k] = e; om[k] = w; tcs[k] = tc
     }
     if (iJitter >= 0) {
       for (let k = 0; k < nInst; k++) {
@@ -248,7 +310,7 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
           v = ref + ((((v - ref) % 360) + 540) % 360) - 180
           break
         }
-        case 'tc': v = x[5 * pr.index + 4]; break
+        case 'tc': v = tcs[pr.index]; break
         case 'tp': {
           const ref = pr.kind === 2 ? pr.mu : 0.5 * (pr.lo + pr.hi)
           v = nearestEpoch(orbits[pr.index].tp, orbits[pr.index].period, ref)
@@ -325,19 +387,44 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
   }
   return {
     nDim, names, units, epoch, eMax, centre: Float64Array.from(centre),
-    layout: { nPlanets: nPl, nInst, iOffset, iJitter, iSlope, iCurvature },
+    layout: { nPlanets: nPl, planets: coords, nInst, iOffset, iJitter, iSlope, iCurvature },
     logProb, logLikelihood, logPrior,
   }
 }
 
 /**
- * The centre of a posterior from a fit: planets, offsets, jitters (sampled unless every
- * instrument's jitter error is exactly 0, the fitter's mark of a fixed jitter), trend, epoch.
+ * Parameters a fit held fixed, per planet, read from the fitter's mark: an error of exactly 0
+ * (PlanetFit.uncertainty: "0 for fixed parameters"). e fixed at 0 also fixes ω (it has no meaning);
+ * a fixed phase is Tc when Tc's error is 0, else Tp when Tp's is. Use the model's own `fix` lists
+ * when you have them; this is for a bare FitResult.
  */
-export function specFromFit(fit: FitResult, extra: { priors?: SamplingPrior[]; eMax?: number; jitter?: 'fit' | number[] } = {}): PosteriorSpec {
+export function fixedInFit(fit: FitResult): PlanetParam[][] {
+  return fit.planets.map((p) => {
+    const u = p.uncertainty
+    const out: PlanetParam[] = []
+    if (u.period === 0) out.push('period')
+    if (u.K === 0) out.push('K')
+    if (u.e === 0) out.push('e')
+    if (u.omegaDeg === 0 || (u.e === 0 && p.e === 0)) out.push('omegaDeg')
+    if (u.tc === 0) out.push('tc')
+    else if (u.tp === 0) out.push('tp')
+    return out
+  })
+}
+
+/**
+ * The centre of a posterior from a fit: planets (with the parameters the model fixes, `extra.fix`
+ * or else `fixedInFit`), offsets, jitters (sampled unless every instrument's jitter error is
+ * exactly 0, the fitter's mark of a fixed jitter), trend, epoch.
+ */
+export function specFromFit(fit: FitResult, extra: { priors?: SamplingPrior[]; eMax?: number; jitter?: 'fit' | number[]; fix?: ReadonlyArray<readonly PlanetParam[] | undefined> } = {}): PosteriorSpec {
   const fixed = fit.instruments.length > 0 && fit.instruments.every((s) => s.jitterErr === 0)
+  const inferred = extra.fix ? null : fixedInFit(fit)
   return {
-    planets: fit.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })),
+    planets: fit.planets.map((p, k) => {
+      const fix = (extra.fix ? extra.fix[k] : inferred![k]) ?? []
+      return { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp, ...(fix.length ? { fix: [...fix] } : {}) }
+    }),
     trend: fit.trend?.kind ?? 'none',
     epoch: fit.epoch,
     jitter: extra.jitter ?? (fixed ? fit.instruments.map((s) => s.jitter) : 'fit'),
@@ -358,16 +445,20 @@ export function samplingScales(fit: FitResult, post: LogPosterior): Float64Array
   const sc = new Float64Array(post.nDim)
   const ok = (v: number, fb: number): number => (Number.isFinite(v) && v > 0 ? v : fb)
   fit.planets.forEach((p, k) => {
-    const o = 5 * k
+    const c = post.layout.planets[k]
     const u = p.uncertainty
-    sc[o] = ok(u.period / p.period, 1e-4)
-    sc[o + 1] = ok(u.K / p.K, 0.05)
     const se = Math.sqrt(p.e), w = p.omega
     const sw = ok(u.omegaDeg * DEG, 0.1), sE = ok(u.e, 0.02)
     const de = se > 1e-3 ? 1 / (2 * se) : 0
-    sc[o + 2] = ok(Math.hypot(Math.cos(w) * de * sE, se * Math.sin(w) * sw), 0.03)
-    sc[o + 3] = ok(Math.hypot(Math.sin(w) * de * sE, se * Math.cos(w) * sw), 0.03)
-    sc[o + 4] = ok(u.tc, 1e-3 * p.period)
+    if (c.lnP >= 0) sc[c.lnP] = ok(u.period / p.period, 1e-4)
+    if (c.lnK >= 0) sc[c.lnK] = ok(u.K / p.K, 0.05)
+    if (c.h >= 0) {
+      sc[c.h] = ok(Math.hypot(Math.cos(w) * de * sE, se * Math.sin(w) * sw), 0.03)
+      sc[c.k] = ok(Math.hypot(Math.sin(w) * de * sE, se * Math.cos(w) * sw), 0.03)
+    }
+    if (c.e >= 0) sc[c.e] = sE
+    if (c.omega >= 0) sc[c.omega] = sw
+    if (c.tc >= 0) sc[c.tc] = ok(u.tc, 1e-3 * p.period)
   })
   const L = post.layout
   fit.instruments.forEach((s, k) => {

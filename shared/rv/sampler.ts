@@ -43,7 +43,8 @@ export interface ChainSoFar {
 }
 
 /**
- * Called every `progressEvery` steps with the steps done in this call, the steps asked for, a
+ * Called every `progressEvery` steps (and after the last step, also one `onStep` ended) with the
+ * steps done in this call, the steps asked for, a
  * copy of the resumable state and the chain kept so far; return 'stop' to end the run after the
  * current step (the result then has `stopped: true`).
  */
@@ -65,6 +66,14 @@ export interface EnsembleOptions {
   a?: number
   /** Keep every `thin`-th step in the returned chain (default 1). */
   thin?: number
+  /** false: keep no chain at all (a caller with `onStep` keeps its own); default true. */
+  keepChain?: boolean
+  /**
+   * Called after every step with the step number since the start of the whole run (resumed parts
+   * included) and the walkers' positions and ln p (the sampler's buffers: copy to keep); return
+   * 'stop' to end the run after this step.
+   */
+  onStep?: (step: number, positions: Float64Array, lnProb: Float64Array) => void | 'stop'
   onProgress?: ProgressCallback
   /** Call `onProgress` every this many steps (default max(1, steps/100)). */
   progressEvery?: number
@@ -150,7 +159,8 @@ export function runEnsemble(opts: EnsembleOptions): EnsembleResult {
   }
   for (let w = 0; w < nWalkers; w++) if (!Number.isFinite(lp[w])) throw new RangeError(`start: walker ${w} has a non-finite log-probability`)
 
-  const nKeptMax = Math.floor(steps / thin)
+  const nKeptMax = opts.keepChain === false ? 0 : Math.floor(steps / thin)
+  const onStep = opts.onStep
   const chain = new Float64Array(nKeptMax * nWalkers * nDim)
   const chainLp = new Float64Array(nKeptMax * nWalkers)
   const half = nWalkers / 2
@@ -180,17 +190,19 @@ export function runEnsemble(opts: EnsembleOptions): EnsembleResult {
       }
     }
     done = s + 1
+    const stepReply = onStep ? onStep(step0 + done, pos, lp) : undefined
     if (done % thin === 0 && kept < nKeptMax) {
       chain.set(pos, kept * nWalkers * nDim)
       chainLp.set(lp, kept * nWalkers)
       kept++
     }
-    if (opts.onProgress && (done % every === 0 || done === steps)) {
+    if (opts.onProgress && (done % every === 0 || done === steps || stepReply === 'stop')) {
       const reply = opts.onProgress(done, steps, snapshot(nWalkers, nDim, pos, lp, rng, acc, step0 + done), {
         chain: chain.subarray(0, kept * nWalkers * nDim), lnProb: chainLp.subarray(0, kept * nWalkers), nKept: kept,
       })
       if (reply === 'stop') { stopped = done < steps; break }
     }
+    if (stepReply === 'stop') { stopped = done < steps; break }
   }
   const totalSteps = step0 + done
   const acceptance = new Float64Array(nWalkers)

@@ -1,10 +1,11 @@
 import { describe, it, expect } from 'vitest'
 import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
-import { samplePosterior, type SampleResult } from '../../../shared/rv/mcmc.ts'
+import { samplePosterior, defaultRhatGroups, type SampleResult } from '../../../shared/rv/mcmc.ts'
 import { fitKeplerians } from '../../../shared/rv/orbit-fit.ts'
 import { derivedPlanet } from '../../../shared/rv/derived.ts'
 import { stateToJson, stateFromJson, type SamplerState } from '../../../shared/rv/sampler.ts'
+import type { ChainRows } from '../../../shared/rv/chain-store.ts'
 import { expectClose } from '../../helpers/expect-close.ts'
 import { synth } from './orbit-fit-helpers.ts'
 
@@ -24,7 +25,7 @@ describe('posterior of a one-planet, high signal-to-noise system', () => {
   })
   const fit = fitKeplerians(data, { planets: [{ period: 21.4, K: 40, e: 0.3, omegaDeg: 115, tp: 2455010 }] })
   const mstar = { value: 0.9, err: 0.05 }
-  const res = samplePosterior(data, fit, { walkers: 32, steps: 2500, burn: 500, seed: 21, mstar })
+  const res = samplePosterior(data, fit, { walkers: 32, steps: 2500, burn: 500, seed: 21, mstar, untilConverged: false })
 
   it('mixes well (split-R̂ < 1.02, healthy acceptance); this short test run is honestly below 50 τ', () => {
     expect(fit.success).toBe(true)
@@ -75,7 +76,10 @@ describe('posterior of a one-planet, high signal-to-noise system', () => {
     expect(s.step.length).toBe(s.columns[0].length)
     expect(Math.min(...s.step)).toBeGreaterThan(500)
     expect(new Set(s.walker).size).toBe(32)
-    expect(res.settings).toMatchObject({ seed: 21, walkers: 32, steps: 2500, burn: 500, thin: 1, stepsDone: 2500, stopped: false })
+    expect(res.settings).toMatchObject({ seed: 21, walkers: 32, steps: 2500, burn: 500, thin: 1, stepsDone: 2500, stopped: false, untilConverged: false })
+    // the kept copy: 2500 steps in at most 1024 rows → every 4th step
+    expect(res.settings).toMatchObject({ keptThin: 4, keptRows: 625, rhatGroups: 4 })
+    expect(s.step.every((v) => v % 4 === 0)).toBe(true)
   })
 })
 
@@ -91,7 +95,7 @@ describe('posterior against emcee (fixtures/sampler/one-planet-emcee.json)', () 
   const tr = ref.provenance.truth
   const fit = fitKeplerians(data, { planets: [{ period: tr.P, K: tr.K, e: tr.e, omegaDeg: tr.omegaDeg, tc: tr.tc }] })
   const walkers = 32, steps = 3000, burn = 600
-  const res = samplePosterior(data, fit, { walkers, steps, burn, seed: 5 })
+  const res = samplePosterior(data, fit, { walkers, steps, burn, seed: 5, untilConverged: false })
 
   it('agrees on medians and 68 % intervals within Monte-Carlo error', () => {
     // Monte-Carlo standard errors of sample quantiles with N_eff = N/τ draws (large-sample
@@ -116,35 +120,46 @@ describe('posterior against emcee (fixtures/sampler/one-planet-emcee.json)', () 
 describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
   const { data } = synth({ seed: 9, n: 40, baseline: 300, planets: [{ period: 8.2, K: 20, e: 0.1, omega: 0.5, tp: 2455001 }] })
   const spec = { planets: [{ period: 8.2, K: 20, e: 0.1, omegaDeg: 30, tp: 2455001 }], jitter: [0] }
+  const fixed = { untilConverged: false }
 
   it('gives identical results for the same seed (from fit options, fixed jitter)', () => {
-    const a = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 8 })
-    const b = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 8 })
-    const c = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 9 })
+    const a = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 8, ...fixed })
+    const b = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 8, ...fixed })
+    const c = samplePosterior(data, spec, { walkers: 12, steps: 200, burn: 50, seed: 9, ...fixed })
     expect(a.parameters).toEqual(b.parameters)
     expect(a.sample).toEqual(b.sample)
     expect(a.parameters).not.toEqual(c.parameters)
     expect(a.diagnostics.names).not.toContain('ln jitter A')
   })
 
-  it('declares a long enough run converged, with no warnings', () => {
-    const r = samplePosterior(data, spec, { walkers: 24, steps: 5000, burn: 1000, seed: 2 })
+  it('runs until converged by default and stops there, with no warnings', () => {
+    const r = samplePosterior(data, spec, { walkers: 24, seed: 2 })
     expect(r.diagnostics.warnings).toEqual([])
     expect(r.diagnostics.converged).toBe(true)
+    expect(r.settings).toMatchObject({ untilConverged: true, steps: 100_000, stopped: false })
+    // it stopped at a check step (an eighth of the kept rows' span), long before the budget
+    expect(r.settings.stepsDone).toBeLessThan(20_000)
+    expect(r.settings.stepsDone % (r.settings.keptThin * 128)).toBe(0)
+    expect(r.settings.burn).toBe(Math.floor(r.settings.stepsDone / 4))
     for (const q of r.diagnostics.nOverTau) expect(q).toBeGreaterThan(50) // Foreman-Mackey et al. 2013 rule
+    for (const q of r.diagnostics.rhat) expect(q).toBeLessThan(1.01) // Vehtari et al. 2021
   })
 
-  it('says in plain words that a short run has not converged', () => {
-    const r = samplePosterior(data, spec, { walkers: 12, steps: 100, seed: 1 })
+  it('says in plain words that a run whose budget ran out has not converged, and how many steps would do', () => {
+    const r = samplePosterior(data, spec, { walkers: 12, steps: 400, seed: 1 })
     expect(r.diagnostics.converged).toBe(false)
-    expect(r.diagnostics.warnings.join(' ')).toMatch(/too short/)
+    expect(r.settings.stepsDone).toBe(400)
+    expect(r.diagnostics.warnings.join(' ')).toMatch(/too short.*About \d+ steps would do; the budget of 400 steps ran out: raise it/)
+    const f = samplePosterior(data, spec, { walkers: 12, steps: 100, seed: 1, ...fixed })
+    expect(f.diagnostics.converged).toBe(false)
+    expect(f.diagnostics.warnings.join(' ')).toMatch(/too short/)
   })
 
   it('stops when the progress callback asks and reports it', () => {
     const seen: number[] = []
     const r = samplePosterior(data, spec, {
       walkers: 12, steps: 1000, seed: 1, progressEvery: 50,
-      onProgress: (done) => { seen.push(done); return done >= 150 ? 'stop' : undefined },
+      onProgress: (p) => { seen.push(p.step); return p.step >= 150 ? 'stop' : undefined },
     })
     expect(seen).toEqual([50, 100, 150])
     expect(r.settings.stopped).toBe(true)
@@ -153,24 +168,67 @@ describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
     expect(r.diagnostics.warnings[0]).toMatch(/stopped after 150 of 1000 steps/)
   })
 
-  it('resumes a stopped run (state and kept chain from the progress callback) to the same result', () => {
-    const opts = { walkers: 12, steps: 300, burn: 60, seed: 4, thin: 2, progressEvery: 40 }
+  it('resumes a stopped fixed-length run (state and the rows of its checkpoints) to the same result', () => {
+    const opts = { walkers: 12, steps: 300, burn: 60, seed: 4, thin: 2, progressEvery: 40, ...fixed }
     const whole = samplePosterior(data, spec, opts)
-    let saved: { state: SamplerState; chain: Float64Array; lnProb: Float64Array } | null = null
+    let saved: { state: Record<string, unknown>; rows: { steps: number[]; chain: number[]; lnProb: number[] } } | null = null
     samplePosterior(data, spec, {
       ...opts,
-      onProgress: (done, _total, state, kept) => {
-        if (done < 120) return undefined
-        saved = JSON.parse(JSON.stringify({ state: stateToJson(state), chain: Array.from(kept.chain), lnProb: Array.from(kept.lnProb) }))
+      onProgress: (p) => {
+        if (p.step < 120) return undefined
+        const rows = p.store.takePending()
+        saved = JSON.parse(JSON.stringify({ state: stateToJson(p.state), rows: { steps: Array.from(rows.steps), chain: Array.from(rows.chain), lnProb: Array.from(rows.lnProb) } }))
         return 'stop'
       },
     })
     expect(saved).not.toBeNull()
-    const s = saved as unknown as { state: Record<string, unknown>; chain: number[]; lnProb: number[] }
-    const resumed = samplePosterior(data, spec, { ...opts, resume: { state: stateFromJson(s.state), chain: s.chain, lnProb: s.lnProb } })
+    const s = saved as unknown as { state: Record<string, unknown>; rows: { steps: number[]; chain: number[]; lnProb: number[] } }
+    const rows: ChainRows = { steps: Int32Array.from(s.rows.steps), chain: Float64Array.from(s.rows.chain), lnProb: Float64Array.from(s.rows.lnProb) }
+    const resumed = samplePosterior(data, spec, { ...opts, resume: { state: stateFromJson(s.state), rows } })
     expect(resumed.parameters).toEqual(whole.parameters)
     expect(resumed.diagnostics).toEqual(whole.diagnostics)
     expect(resumed.settings).toEqual(whole.settings)
+  })
+
+  it('resumes a run until convergence from append-only checkpoints (the kept copy thinned twice on the way) to the same result', () => {
+    const opts = { walkers: 12, seed: 6, steps: 3000, keptRows: 32, progressEvery: 20 }
+    const whole = samplePosterior(data, spec, opts)
+    expect(whole.settings.keptThin).toBeGreaterThanOrEqual(4)
+    const chunks: ChainRows[] = []
+    let state: SamplerState | null = null
+    samplePosterior(data, spec, {
+      ...opts,
+      onProgress: (p) => {
+        if (p.step % 60 === 0) chunks.push(p.store.takePending()) // a checkpoint: the rows since the last one
+        if (p.step < 240) return undefined
+        state = stateFromJson(JSON.parse(JSON.stringify(stateToJson(p.state))))
+        chunks.push(p.store.takePending())
+        return 'stop'
+      },
+    })
+    const cat = <T extends Int32Array | Float64Array>(make: (n: number) => T, parts: T[]): T => {
+      const out = make(parts.reduce((n, a) => n + a.length, 0)); let o = 0
+      for (const a of parts) { out.set(a, o); o += a.length }
+      return out
+    }
+    const rows: ChainRows = {
+      steps: cat((n) => new Int32Array(n), chunks.map((c) => c.steps)),
+      chain: cat((n) => new Float64Array(n), chunks.map((c) => c.chain)),
+      lnProb: cat((n) => new Float64Array(n), chunks.map((c) => c.lnProb)),
+    }
+    const resumed = samplePosterior(data, spec, { ...opts, resume: { state: state!, rows } })
+    expect(resumed.settings).toEqual(whole.settings)
+    expect(resumed.parameters).toEqual(whole.parameters)
+    expect(resumed.diagnostics).toEqual(whole.diagnostics)
+  })
+
+  it('works with any even walker count: split-R̂ over walker groups that divide it', () => {
+    expect([34, 36, 30, 32, 38, 2 * 17].map(defaultRhatGroups)).toEqual([2, 4, 5, 4, 2, 2])
+    // 51 Peg's default: 17 parameters → 34 walkers (the case that used to fail)
+    const r = samplePosterior(data, spec, { walkers: 34, steps: 300, seed: 3, ...fixed })
+    expect(r.settings.rhatGroups).toBe(2)
+    expect(r.diagnostics.rhat.every(Number.isFinite)).toBe(true)
+    expect(samplePosterior(data, spec, { walkers: 34, steps: 300, seed: 3, rhatGroups: 17, ...fixed }).settings.rhatGroups).toBe(17)
   })
 
   it('throws on misuse, naming the option', () => {
@@ -179,5 +237,6 @@ describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
     expect(() => samplePosterior(data, spec, { thin: 0 })).toThrow(/thin/)
     expect(() => samplePosterior(data, spec, { mstar: { value: -1, err: 0 } })).toThrow(/mstar/)
     expect(() => samplePosterior(data, spec, { walkers: 12, rhatGroups: 5 })).toThrow(/rhatGroups/)
+    expect(() => samplePosterior(data, spec, { walkers: 12, keptRows: 7 })).toThrow(/keptRows/)
   })
 })
