@@ -55,9 +55,8 @@ export class ChainStore {
 
   /** Offers the walkers' state after step `step` (the arrays are copied when kept). Returns true when kept. */
   push(step: number, positions: ArrayLike<number>, lnProb: ArrayLike<number>, record = true): boolean {
-    if (step % this.thin !== 0) return false
     if (this.rows > 0 && step <= this.steps[this.rows - 1]) throw new RangeError(`steps must increase: ${step} after ${this.steps[this.rows - 1]}`)
-    if (this.rows === this.capacity) this.decimate()
+    this.syncTo(step)
     if (step % this.thin !== 0) return false
     const W = this.nWalkers, D = this.nDim
     this.steps[this.rows] = step
@@ -70,6 +69,11 @@ export class ChainStore {
       this.pending.lnProb.push(Float64Array.from(lnProb))
     }
     return true
+  }
+
+  /** Thins the copy as it must be after step `step` (k the least thin·2^j with ⌊step/k⌋ ≤ capacity). A resumed copy calls it with the checkpoint's step. */
+  syncTo(step: number): void {
+    while (Math.floor(step / this.thin) > this.capacity) this.decimate()
   }
 
   /** Keeps the rows at even multiples of the thinning and doubles it. */
@@ -100,7 +104,7 @@ export class ChainStore {
     return out
   }
 
-  /** Rebuilds the copy from every row pending lists ever returned, in order (resume). */
+  /** Rebuilds the copy from every row pending lists ever returned, in order (resume; then `syncTo` the checkpoint's step). */
   replay(rows: ChainRows): void {
     const W = this.nWalkers, D = this.nDim
     const n = rows.steps.length

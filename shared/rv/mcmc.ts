@@ -296,6 +296,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     if (!(Number.isInteger(st.step) && st.step >= 0 && st.step <= steps)) throw new RangeError(`resume.state.step must be in [0, steps], got ${st.step}`)
     store.replay(resume.rows)
     if (store.lastStep() > st.step) throw new RangeError('resume.rows go beyond resume.state.step')
+    store.syncTo(st.step)
     startFrom = st
   }
   const step0 = resume ? resume.state.step : 0

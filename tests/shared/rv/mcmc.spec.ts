@@ -117,6 +117,74 @@ describe('posterior against emcee (fixtures/sampler/one-planet-emcee.json)', () 
   })
 })
 
+describe('fixed parameters are held fixed, against emcee (fixtures/sampler/fixed-e-emcee.json)', () => {
+  // Reference: scripts/reference/sampler_emcee.py --fixed, emcee 3.1.4 on the same likelihood with
+  // e held fixed: a circular orbit (e = 0: ln P, ln K, Tc, offset, ln s) and e = 0.3 with ω sampled
+  // alone (flat on the circle); 32 walkers × 16 000 steps.
+  const ref = JSON.parse(readFileSync(fileURLToPath(new URL('../../../fixtures/sampler/fixed-e-emcee.json', import.meta.url)), 'utf8'))
+  for (const c of ref.cases as Array<Record<string, any>>) {
+    it(`${c.name}: samples only the free parameters and agrees on medians and 68 % intervals`, () => {
+      const n = c.data.t.length
+      const data = {
+        t: Float64Array.from(c.data.t as number[]), y: Float64Array.from(c.data.y as number[]), dy: Float64Array.from(c.data.dy as number[]),
+        instrument: new Int32Array(n), instrumentNames: ['A'],
+      }
+      const tr = c.truth
+      const fit = fitKeplerians(data, { planets: [{ period: tr.P, K: tr.K, e: c.eFixed, omegaDeg: tr.omegaDeg, tc: tr.tc, fix: ['e'] }] })
+      const walkers = 32, steps = 3000, burn = 600
+      const res = samplePosterior(data, { planets: [{ period: fit.planets[0].period, K: fit.planets[0].K, e: c.eFixed, omegaDeg: fit.planets[0].omegaDeg, tc: fit.planets[0].tc, fix: ['e'] }] }, { walkers, steps, burn, seed: 12, untilConverged: false })
+      const names = res.diagnostics.names
+      expect(names.length).toBe(c.eFixed === 0 ? 5 : 6)
+      expect(names.some((q) => /√e/.test(q))).toBe(false)
+      expect(res.settings.fixed).toEqual(c.eFixed === 0 ? [['e', 'omegaDeg']] : [['e']])
+      const e = get(res, 'e b')
+      expect(e).toMatchObject({ median: c.eFixed, lo: c.eFixed, hi: c.eFixed, sd: 0, fixed: true })
+      const eCol = res.sample.columns[res.sample.names.indexOf('e b')]
+      expect(eCol.every((v) => v === c.eFixed)).toBe(true) // a circular model's posterior has e exactly 0
+      if (c.eFixed === 0) expect(res.parameters.some((p) => p.name === 'ω b' || p.name === 'Tp b')).toBe(false)
+      // Monte-Carlo error of quantiles as in the test above (4 combined standard errors)
+      const tauOurs = Math.max(...res.diagnostics.tau)
+      const nOurs = (walkers * (steps - burn)) / tauOurs
+      const nRef = c.run.draws / Math.max(...c.run.tauSteps)
+      const map: Record<string, string> = { P: 'P b', K: 'K b', omegaDeg: 'ω b', tc: 'Tc b', offset: 'offset A', jitter: 'jitter A' }
+      const col = (name: string) => res.sample.columns[res.sample.names.indexOf(name)]
+      const quantile = (v: number[], p: number) => { const x = [...v].sort((a, b) => a - b); const h = (x.length - 1) * p, i = Math.floor(h); return x[i] + (h - i) * (x[Math.min(i + 1, x.length - 1)] - x[i]) }
+      for (const key of Object.keys(c.summary)) {
+        const r = c.summary[key]
+        let q = get(res, map[key]), nQ = nOurs
+        if (key === 'tc') {
+          // our Tc is the conjunction nearest the data's mean time, emcee's the one nearest its start: the same
+          // orbit whole periods apart, so each draw is moved by its own P (from the plot sample, ≤ 2000 draws)
+          const tcs = col('Tc b'), Ps = col('P b')
+          const N = Math.round((q.median - r.median) / get(res, 'P b').median)
+          const v = tcs.map((t, i) => t - N * Ps[i])
+          const m = v.reduce((a, b) => a + b, 0) / v.length
+          q = { ...q, median: quantile(v, 0.5), lo: quantile(v, 0.16), hi: quantile(v, 0.84), sd: Math.sqrt(v.reduce((a, b) => a + (b - m) ** 2, 0) / (v.length - 1)) }
+          nQ = Math.min(nOurs, v.length)
+        }
+        const se = (k: number) => 4 * k * r.sd * Math.sqrt(1 / nQ + 1 / nRef)
+        expectClose(q.median, r.median, { atol: se(1.2533) }, `${map[key]} median`)
+        expectClose(q.lo, r.lo, { atol: se(1.93) }, `${map[key]} 16th percentile`)
+        expectClose(q.hi, r.hi, { atol: se(1.93) }, `${map[key]} 84th percentile`)
+        // sd of a sample of N_eff draws: relative standard error 1/√(2 N_eff) (normal theory, common practice); 4 of them
+        expectClose(q.sd, r.sd, { rtol: 4 * Math.sqrt(1 / (2 * nQ) + 1 / (2 * nRef)) }, `${map[key]} sd`)
+      }
+    })
+  }
+
+  it('reads the fixed parameters of a bare fit from its zero errors (P and Tp held)', () => {
+    const { data } = synth({ seed: 12, n: 50, baseline: 400, planets: [{ period: 15, K: 20, e: 0.2, omega: 1.0, tp: 2455004 }] })
+    const fit = fitKeplerians(data, { planets: [{ period: 15, K: 18, e: 0.2, omegaDeg: 57, tp: 2455004, fix: ['period', 'tp'] }] })
+    const res = samplePosterior(data, fit, { walkers: 12, steps: 200, seed: 2, untilConverged: false })
+    expect(res.settings.fixed).toEqual([['period', 'tp']])
+    expect(res.diagnostics.names).toEqual(['ln K b', '√e cos ω b', '√e sin ω b', 'offset A', 'ln jitter A'])
+    expect(get(res, 'P b')).toMatchObject({ median: 15, sd: 0, fixed: true })
+    expect(get(res, 'Tp b').fixed).toBe(true)
+    expect(get(res, 'Tp b').median).toBeCloseTo(fit.planets[0].tp, 6)
+    expect(get(res, 'Tc b').sd).toBeGreaterThan(0) // Tc moves with e and ω when Tp is held
+  })
+})
+
 describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
   const { data } = synth({ seed: 9, n: 40, baseline: 300, planets: [{ period: 8.2, K: 20, e: 0.1, omega: 0.5, tp: 2455001 }] })
   const spec = { planets: [{ period: 8.2, K: 20, e: 0.1, omegaDeg: 30, tp: 2455001 }], jitter: [0] }

@@ -27,6 +27,34 @@ describe('RV log-posterior', () => {
     expect(post.nDim).toBe(16)
   })
 
+  it('leaves out the parameters a model fixes, and gives the same ln posterior at the same point', () => {
+    const base = { period: 12.31, K: 14, e: 0.25, omegaDeg: 60, tc: 2455001 }
+    const other = { period: 94, K: 10, e: 0.35, omegaDeg: 230, tc: 2455020 }
+    const full = createLogPosterior(two.data, { planets: [base, other], offsets: [3, -6], jitters: [1.5, 2.5] })
+    const cases = [
+      { fix: ['e'] as const, names: ['ln P b', 'ln K b', 'ω b', 'Tc b'] },
+      { fix: ['omegaDeg'] as const, names: ['ln P b', 'ln K b', 'e b', 'Tc b'] },
+      { fix: ['e', 'omegaDeg', 'tc'] as const, names: ['ln P b', 'ln K b'] },
+      { fix: ['period', 'K'] as const, names: ['√e cos ω b', '√e sin ω b', 'Tc b'] },
+    ]
+    for (const c of cases) {
+      const post = createLogPosterior(two.data, { planets: [{ ...base, fix: [...c.fix] }, other], offsets: [3, -6], jitters: [1.5, 2.5] })
+      expect(post.names.slice(0, c.names.length)).toEqual(c.names)
+      expect(post.nDim).toBe(full.nDim - (5 - c.names.length))
+      // the Jacobian terms of fixed ln P, ln K are constants left out: compare the likelihoods, and the priors up to them
+      expectClose(post.logLikelihood(post.centre), full.logLikelihood(full.centre), { rtol: 1e-9 }, `ln L with ${c.fix.join(', ')} fixed`)
+    }
+    // e fixed at 0: no eccentricity coordinate at all (ω means nothing)
+    const circ = createLogPosterior(two.data, { planets: [{ ...base, e: 0, fix: ['e'] }, other] })
+    expect(circ.names.slice(0, 3)).toEqual(['ln P b', 'ln K b', 'Tc b'])
+    // ω sampled alone stays on one turn of the circle around its centre
+    const post = createLogPosterior(two.data, { planets: [{ ...base, fix: ['e'] }, other] })
+    const x = Float64Array.from(post.centre)
+    x[2] = 60 * DEG + Math.PI + 1e-6
+    expect(post.logProb(x)).toBe(-Infinity)
+    expect(() => createLogPosterior(two.data, { planets: [{ ...base, fix: ['mass' as never] }] })).toThrow(/fix: unknown parameter mass/)
+  })
+
   it('has the Ford 2006 likelihood: equals a direct evaluation with the model code', () => {
     const epoch = 2455400
     const spec = {
