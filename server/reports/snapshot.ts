@@ -52,6 +52,15 @@ function periodogramSnapshot(r: PeriodogramRun | null): SnapshotPeriodogram | nu
   }
 }
 
+/** The time scale of the fitted instruments' datasets ('unknown' when they differ or were not recorded). */
+async function fittedTimeScale(s: Services, starId: number, instruments: string[]): Promise<string> {
+  const rows = await s.sequelize.query<{ time_scale: string }>(
+    'SELECT DISTINCT time_scale FROM datasets WHERE star_id = :starId AND instrument IN (:instruments)',
+    { replacements: { starId, instruments: instruments.length ? instruments : [''] }, type: QueryTypes.SELECT },
+  )
+  return rows.length === 1 ? rows[0]!.time_scale : 'unknown'
+}
+
 /**
  * The velocity periodogram the report shows and its methods text describe: the latest run over
  * exactly the instruments of the fit; a run over another selection (a test on one instrument, say)
@@ -110,6 +119,7 @@ export async function buildSnapshot(s: Services, actor: User, star: Star, model:
   const included = points.filter((p) => p.included)
   const nowUsed = inModel.filter((r) => !r.excluded && Number.isFinite(r.time) && Number.isFinite(r.rv) && r.error > 0)
   const changedSinceFit = rvHash(nowUsed) !== result.data.hash
+  const timeScale = await fittedTimeScale(s, star.id, result.data.instruments)
   const rvRun = await periodogramOfFit(PeriodogramRun, star.id, result.data.instruments)
   const resRun = await PeriodogramRun.findOne({ where: { starId: star.id, kind: 'residuals', modelVersionId: v.id }, order: [['createdAt', 'DESC'], ['id', 'DESC']] })
   const sampling = samplingRunId !== undefined ? await samplingSnapshot(s, star, v, samplingRunId) : null
@@ -133,7 +143,7 @@ export async function buildSnapshot(s: Services, actor: User, star: Star, model:
     result,
     data: {
       hash: dataContentHash(included, exclusions), nIncluded: included.length, nExcluded: exclusions.length,
-      instruments: result.data.instruments, changedSinceFit, points, exclusions,
+      instruments: result.data.instruments, changedSinceFit, timeScale, points, exclusions,
     },
     periodogram, residualPeriodogram: periodogramSnapshot(resRun), sampling, comparison,
     settings: { fit: { trend: v.spec.trend ?? 'none', instruments: v.spec.instruments ?? null, iterations: result.stats.iterations, status: result.stats.status }, sampling: sampling?.settings ?? null },

@@ -40,7 +40,7 @@ function snapshot(): ReportSnapshot {
       stats: { chi2: 38.2, reducedChi2: 1.06, lnL: -80.1, bic: 190.2, aic: 180.1, rms: 2.3, nParams: 9, nPoints: 39, converged: true, status: 'converged', message: '', iterations: 12 },
       epoch: 2458800, residuals: [], warnings: [], data: { instruments: ['Kestrel_2', 'Osprey'], nPoints: 39, nExcluded: 1, hash: 'h', firstTime: 0, lastTime: 1, baseline: 1 },
     } as unknown as ReportSnapshot['result'],
-    data: { hash: 'a'.repeat(64), nIncluded: 39, nExcluded: 1, instruments: ['Kestrel_2', 'Osprey'], changedSinceFit: false, timeScale: 'tdb', points, exclusions: [] },
+    data: { hash: 'a'.repeat(64), nIncluded: 39, nExcluded: 1, instruments: ['Kestrel_2', 'Osprey'], changedSinceFit: false, timeScale: 'bjd_tdb', points, exclusions: [] },
     periodogram: null, residualPeriodogram: null,
     comparison: { rows: [
       { modelId: 1, name: 'one', version: 2, planets: 1, trend: 'linear', bic: 190.2, deltaBic: 0, evidence: null, preferred: true, comparable: true },

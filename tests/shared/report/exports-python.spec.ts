@@ -39,7 +39,7 @@ function snapshot(): ReportSnapshot {
       epoch: 2458800, residuals: [], warnings: [], data: { instruments: ['Kestrel_2'], nPoints: 3, nExcluded: 1, hash: 'h', firstTime: 0, lastTime: 1, baseline: 1 },
     } as unknown as ReportSnapshot['result'],
     data: {
-      hash: 'a'.repeat(64), nIncluded: 2, nExcluded: 1, instruments: ['Kestrel_2'], changedSinceFit: false, timeScale: 'tdb', points,
+      hash: 'a'.repeat(64), nIncluded: 2, nExcluded: 1, instruments: ['Kestrel_2'], changedSinceFit: false, timeScale: 'bjd_tdb', points,
       exclusions: [{ id: 3, instrument: 'Kestrel_2', time: 2458803.75, reason: '+cosmic ray, "bad" order', by: null, at: null }],
     },
     periodogram: null, residualPeriodogram: null, comparison: null,

@@ -33,7 +33,7 @@ function snapshot(planets: number, sampled: boolean): ReportSnapshot {
       stats: { chi2: 10, reducedChi2: 1, lnL: -20, bic: 50, aic: 45, rms: 2.3, nParams: 7, nPoints: 10, converged: true, status: 'converged', message: '', iterations: 12 },
       epoch: 2454000, residuals: [], warnings: [], data: { instruments: SETS, nPoints: 639, nExcluded: 0, hash: 'h', firstTime: 0, lastTime: 1, baseline: 1 },
     } as unknown as ReportSnapshot['result'],
-    data: { hash: 'c'.repeat(64), nIncluded: 639, nExcluded: 0, instruments: SETS, changedSinceFit: false, timeScale: 'tdb', points: [], exclusions: [] },
+    data: { hash: 'c'.repeat(64), nIncluded: 639, nExcluded: 0, instruments: SETS, changedSinceFit: false, timeScale: 'bjd_tdb', points: [], exclusions: [] },
     periodogram: null, residualPeriodogram: null, comparison: null,
     sampling: sampled ? {
       runId: 3, settings: { walkers: 32, steps: 2000, burn: 500, thin: 1, seed: 1 },

@@ -28,7 +28,7 @@ const snapshot = {
     trend: null, stats: { chi2: 10, reducedChi2: 1, lnL: -20, bic: 50, aic: 45, rms: 2.3, nParams: 12, nPoints: 10, converged: true, status: 'converged', message: '', iterations: 12 },
     epoch: 2458800, residuals: [], warnings: [], data: { instruments: ['Kestrel_2'], nPoints: 10, nExcluded: 0, hash: 'h', firstTime: 0, lastTime: 1, baseline: 1 },
   },
-  data: { hash: 'a'.repeat(64), nIncluded: 1, nExcluded: 0, instruments: ['Kestrel_2'], changedSinceFit: false, timeScale: 'tdb', points: [{ id: 1, instrument: 'Kestrel_2', time: 2458801, rv: 1, error: 1, included: true, model: 1, residual: 0 }], exclusions: [] },
+  data: { hash: 'a'.repeat(64), nIncluded: 1, nExcluded: 0, instruments: ['Kestrel_2'], changedSinceFit: false, timeScale: 'bjd_tdb', points: [{ id: 1, instrument: 'Kestrel_2', time: 2458801, rv: 1, error: 1, included: true, model: 1, residual: 0 }], exclusions: [] },
   periodogram: null, residualPeriodogram: null, comparison: null, sampling: null,
   settings: { fit: { trend: 'none', instruments: null, iterations: 12, status: 'converged' }, sampling: null }, methods: { text: '', references: [] },
 } as unknown as ReportSnapshot
