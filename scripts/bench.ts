@@ -4,7 +4,7 @@
  * against scipy's least_squares (scripts/reference/fit_timing.py, same data, model and start, same
  * run), a one-planet fit from the data alone and a three-planet, two-instrument search.
  *
- *   npx tsx scripts/bench.ts [--json] [--skip-periodogram] [--skip-sampler] [--skip-gp] [--skip-limits]
+ *   npx tsx scripts/bench.ts [--json] [--skip-periodogram] [--skip-sampler] [--skip-gp] [--skip-limits] [--skip-upload]
  *
  * Times are best-of-repeats wall times on this machine; speed is never asserted in tests.
  */
@@ -18,6 +18,7 @@ import { benchPeriodogram, type BenchRow } from './bench-periodogram.ts'
 import { benchSampler } from './bench-sampler.ts'
 import { benchGp } from './bench-gp.ts'
 import { benchLimits } from './bench-limits.ts'
+import { benchUpload } from './bench-upload.ts'
 import { solveKeplerArray, radialVelocity, fitKeplerians, searchPlanets, tpToTc, type RvData, type Keplerian } from '../shared/rv/index.ts'
 
 const here = dirname(fileURLToPath(import.meta.url))
@@ -148,6 +149,7 @@ async function main(): Promise<void> {
   if (!process.argv.includes('--skip-sampler')) rows.push(...(await benchSampler())) // ensemble sampler vs emcee (scripts/bench-sampler.ts)
   if (!process.argv.includes('--skip-gp')) rows.push(...benchGp()) // GP noise models: O(N) scaling, dense vs scipy cho_factor (scripts/bench-gp.ts)
   if (!process.argv.includes('--skip-limits')) rows.push(...(await benchLimits())) // injection–recovery grid, 1 and 2 workers (scripts/bench-limits.ts)
+  if (!process.argv.includes('--skip-upload')) rows.push(...(await benchUpload())) // 100 000-row upload commit on a throwaway database (scripts/bench-upload.ts)
   if (json) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
   const f = (v: number | null | undefined): string => (v === null || v === undefined ? '—' : v >= 100 ? v.toFixed(0) : v.toPrecision(3))
   for (const r of rows) {

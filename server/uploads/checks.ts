@@ -14,10 +14,14 @@ export async function findOverlap(
   s: Services, starId: number, lines: Int32Array, times: Float64Array, instrumentOf: Int32Array, names: string[], transaction?: Transaction,
 ): Promise<{ report: OverlapReport; rows: Set<number> } | null> {
   if (times.length === 0) return null
+  let lo = Infinity
+  let hi = -Infinity
+  for (const x of times) { if (x < lo) lo = x; if (x > hi) hi = x }
+  // One range scan of the (star_id, time) index, matched here (an ANY over 100 000 times is far slower).
   const found = await s.sequelize.query<{ time: number; instrument: string; file_name: string }>(
     `SELECT m.time, d.instrument, d.file_name FROM measurements m JOIN datasets d ON d.id = m.dataset_id
-      WHERE m.star_id = $1 AND m.time = ANY($2::double precision[])`,
-    { bind: [starId, Array.from(times)], type: QueryTypes.SELECT, transaction },
+      WHERE m.star_id = $1 AND m.time BETWEEN $2 AND $3`,
+    { bind: [starId, lo, hi], type: QueryTypes.SELECT, transaction },
   )
   if (found.length === 0) return null
   const earlier = new Map<string, string>()
