@@ -1,7 +1,7 @@
 import type { Request, RequestHandler, Response } from 'express'
 import multer from 'multer'
 import type { Services } from './services.ts'
-import type { Dataset, Membership, Measurement, Star, Team, User } from './db/models.ts'
+import { Star as StarModel, type Dataset, type Membership, type Measurement, type Star, type Team, type User } from './db/models.ts'
 import { ForbiddenError, NotFoundError, UnauthorizedError } from './errors.ts'
 import { ROLE_RANK, type Role } from '../shared/api/common.ts'
 
@@ -35,10 +35,15 @@ export const signedIn: Guard = (_req, res) => { signedInUser(res) }
 /** Development-only routes: absent (404) in production, and behind sign-in elsewhere. */
 export const devOnly: Guard = (_req, _res, s) => { if (!s.config.devRoutes) throw new NotFoundError('Route') }
 
-function idOf(req: Request, name: string, what: string): number {
+/**
+ * The one parser of route ids (`:teamId`, `:starId`, `:version`…): a positive safe integer written
+ * in its plain form ("12", not "012", "1e1" or "12.0"); anything else is 404 `what`, as an id
+ * that does not exist.
+ */
+export function routeId(req: Request, name: string, what: string): number {
   const raw = req.params[name]
   const n = Number(raw)
-  if (!Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError(what)
+  if (typeof raw !== 'string' || !Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError(what)
   return n
 }
 
@@ -53,55 +58,72 @@ async function membershipFor(s: Services, user: User, teamId: number, min: Role,
 
 /** The user is a member of team :teamId with at least `min`. */
 export function team(min: Role): Guard {
-  return async (req, res, s) => {
+  return withRole(min, async (req, res, s) => {
     const user = signedInUser(res)
-    const teamId = idOf(req, 'teamId', 'Team')
+    const teamId = routeId(req, 'teamId', 'Team')
     const membership = await membershipFor(s, user, teamId, min, 'Team')
     const t = await s.models.Team.findByPk(teamId)
     if (!t) throw new NotFoundError('Team')
     res.locals.scope = { membership, team: t } satisfies Scope
-  }
+  })
 }
 
-async function loadStar(s: Services, id: number): Promise<Star> {
-  const star = await s.models.Star.findOne({ where: { id, archivedAt: null } })
-  if (!star) throw new NotFoundError('Star')
-  return star
+/** A guard that requires a team role, labelled with that role (for the API description). */
+export type RoleGuard = Guard & { minRole: Role }
+function withRole(min: Role, g: Guard): RoleGuard {
+  return Object.assign(g, { minRole: min })
+}
+
+/** How to find one kind of resource of a star and where the handler finds it. */
+export interface ResourceSpec<T> {
+  /** The route parameter holding its id. */
+  param: string
+  /** Its name in the 404 message ("Model not found."). */
+  what: string
+  /** The resource, or null when it does not exist (or is archived). */
+  load: (s: Services, id: number) => Promise<T | null>
+  /** The star it belongs to: its team decides who may see it. */
+  starIdOf: (resource: T) => number
+  /** Records the resource for the handler (besides res.locals.scope's membership and star). */
+  keep?: (res: Response, resource: T) => void
+}
+
+/**
+ * The one access rule of a team resource, as a guard factory: signed in (401) → the resource
+ * exists, its star is not archived and the user is in the star's team (404 otherwise, the same
+ * answer as for an id that does not exist) → the role is at least `min` (403).
+ */
+export function resource<T>(spec: ResourceSpec<T>): (min: Role) => Guard {
+  return (min) => withRole(min, async (req, res, s) => {
+    const user = signedInUser(res)
+    const found = await spec.load(s, routeId(req, spec.param, spec.what))
+    if (!found) throw new NotFoundError(spec.what)
+    const starId = spec.starIdOf(found)
+    const st = found instanceof StarModel && found.id === starId ? found : await s.models.Star.findOne({ where: { id: starId, archivedAt: null } })
+    if (!st || st.archivedAt) throw new NotFoundError(spec.what)
+    const membership = await membershipFor(s, user, st.teamId, min, spec.what)
+    res.locals.scope = { membership, star: st } satisfies Scope
+    spec.keep?.(res, found)
+  })
 }
 
 /** Star :starId (not archived) belongs to a team where the user has at least `min`. */
-export function star(min: Role): Guard {
-  return async (req, res, s) => {
-    const user = signedInUser(res)
-    const st = await loadStar(s, idOf(req, 'starId', 'Star'))
-    const membership = await membershipFor(s, user, st.teamId, min, 'Star')
-    res.locals.scope = { membership, star: st } satisfies Scope
-  }
-}
+export const star = resource<Star>({
+  param: 'starId', what: 'Star', starIdOf: (st) => st.id,
+  load: (s, id) => s.models.Star.findOne({ where: { id, archivedAt: null } }),
+})
 
-export function dataset(min: Role): Guard {
-  return async (req, res, s) => {
-    const user = signedInUser(res)
-    const ds = await s.models.Dataset.findByPk(idOf(req, 'datasetId', 'Dataset'))
-    if (!ds) throw new NotFoundError('Dataset')
-    const st = await s.models.Star.findByPk(ds.starId)
-    if (!st || st.archivedAt) throw new NotFoundError('Dataset')
-    const membership = await membershipFor(s, user, st.teamId, min, 'Dataset')
-    res.locals.scope = { membership, star: st, dataset: ds } satisfies Scope
-  }
-}
+export const dataset = resource<Dataset>({
+  param: 'datasetId', what: 'Dataset', starIdOf: (ds) => ds.starId,
+  load: (s, id) => s.models.Dataset.findByPk(id),
+  keep: (res, ds) => { scope(res).dataset = ds },
+})
 
-export function measurement(min: Role): Guard {
-  return async (req, res, s) => {
-    const user = signedInUser(res)
-    const m = await s.models.Measurement.findByPk(idOf(req, 'measurementId', 'Measurement'))
-    if (!m) throw new NotFoundError('Measurement')
-    const st = await s.models.Star.findByPk(m.starId)
-    if (!st || st.archivedAt) throw new NotFoundError('Measurement')
-    const membership = await membershipFor(s, user, st.teamId, min, 'Measurement')
-    res.locals.scope = { membership, star: st, measurement: m } satisfies Scope
-  }
-}
+export const measurement = resource<Measurement>({
+  param: 'measurementId', what: 'Measurement', starIdOf: (m) => m.starId,
+  load: (s, id) => s.models.Measurement.findByPk(id),
+  keep: (res, m) => { scope(res).measurement = m },
+})
 
 /** Runs an Express middleware (rate limiter, multer) as a guard; it must call next(err) to refuse. */
 export function middleware(pick: (s: Services & { extras: Extras }) => RequestHandler): Guard {

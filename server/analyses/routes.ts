@@ -1,7 +1,6 @@
 import type { Request, Response } from 'express'
 import type { Services } from '../services.ts'
-import { scope, signedInUser } from '../guards.ts'
-import { NotFoundError } from '../errors.ts'
+import { routeId, scope, signedInUser } from '../guards.ts'
 import {
   createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, runPeriodogramRequestSchema,
   searchRequestSchema, updateModelRequestSchema,
@@ -37,10 +36,7 @@ export async function showModel(_req: Request, res: Response, s: Services): Prom
 }
 
 export async function showVersion(req: Request, res: Response, s: Services): Promise<void> {
-  const raw = String(req.params.version)
-  const n = Number(raw)
-  if (!Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError('Model version')
-  res.json(await analyses.getVersion(s, analysisScope(res).model!, n))
+  res.json(await analyses.getVersion(s, analysisScope(res).model!, routeId(req, 'version', 'Model version')))
 }
 
 export async function updateModel(req: Request, res: Response, s: Services): Promise<void> {

@@ -1,7 +1,6 @@
 import type { Request, Response } from 'express'
 import type { Services } from '../services.ts'
-import { scope, signedInUser } from '../guards.ts'
-import { NotFoundError } from '../errors.ts'
+import { routeId, scope, signedInUser } from '../guards.ts'
 import { analysisScope } from '../analyses/guards.ts'
 import { freezeRequestSchema, reviewRequestSchema, shareRequestSchema } from '../../shared/api/reports.ts'
 import { latexTables } from '../../shared/report/latex-solution.ts'
@@ -25,12 +24,7 @@ export async function show(_req: Request, res: Response, s: Services): Promise<v
   res.json(await reports.reportDetail(s, reportScope(res).id, signedInUser(res), scope(res).membership.role))
 }
 
-function versionOf(req: Request): number {
-  const raw = String(req.params.version)
-  const n = Number(raw)
-  if (!Number.isSafeInteger(n) || n <= 0 || String(n) !== raw) throw new NotFoundError('Report version')
-  return n
-}
+const versionOf = (req: Request): number => routeId(req, 'version', 'Report version')
 
 export async function showVersion(req: Request, res: Response, s: Services): Promise<void> {
   res.json(await reports.loadVersion(s, reportScope(res), versionOf(req)))

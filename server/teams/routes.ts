@@ -1,16 +1,10 @@
 import type { Request, Response } from 'express'
 import type { Services } from '../services.ts'
 import { createInvitationRequestSchema, createTeamRequestSchema, updateMemberRequestSchema } from '../../shared/api/teams.ts'
-import { idParam } from '../../shared/api/common.ts'
-import { NotFoundError } from '../errors.ts'
-import { scope, signedInUser } from '../guards.ts'
+import { routeId, scope, signedInUser } from '../guards.ts'
 import * as teams from './service.ts'
 
-function param(req: Request, name: string, what: string): number {
-  const r = idParam.safeParse(req.params[name])
-  if (!r.success) throw new NotFoundError(what)
-  return r.data
-}
+const param = routeId
 
 export async function list(_req: Request, res: Response, s: Services): Promise<void> {
   res.json(await teams.listTeams(s, signedInUser(res)))

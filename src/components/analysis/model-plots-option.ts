@@ -56,7 +56,7 @@ function tooltip(points: Map<number, PlotPoint>, timeScale: string) {
     formatter: (p: unknown) => {
       const params = p as { data?: Point; seriesName?: string }
       const point = params.data ? points.get(params.data[3]) : undefined
-      if (!point) return params.seriesName ?? ''
+      if (!point) return escapeHtml(params.seriesName ?? '')
       return [
         `<b>${escapeHtml(point.m.instrument)}</b>`,
         `${timeScale} ${point.m.time.toFixed(5)}`,

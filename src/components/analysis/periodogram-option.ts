@@ -2,6 +2,7 @@
 // on a log axis with the false-alarm levels, the spectral window beneath, the listed peaks marked.
 import type { EChartsOption } from 'echarts'
 import type { PeriodogramPeak, PeriodogramRun } from '@shared/api/analyses.ts'
+import { escapeHtml } from '@/components/data/velocity-chart-option.ts'
 
 export const POWER_AXIS = 'Power (normalised)'
 export const PERIOD_AXIS = 'Period [d]'
@@ -161,7 +162,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
         const lines = [`P = ${formatPeriod(value[0]!)} d`]
         for (const item of list) {
           const v = Array.isArray(item.value) ? item.value : (item.data as { value: number[] }).value
-          lines.push(`${item.seriesName}: ${v[1]!.toFixed(3)}`)
+          lines.push(`${escapeHtml(item.seriesName)}: ${v[1]!.toFixed(3)}`)
         }
         return lines.join('<br>')
       },
