@@ -3,14 +3,16 @@ import { computed, reactive, ref } from 'vue'
 import * as api from '@/api/analyses.ts'
 import { modelSpecSchema } from '@shared/api/analyses.ts'
 import type {
-  CompareResponse, ModelDetail, ModelSpecInput, ModelVersion, ModelSummary, PeriodogramRun, RunPeriodogramRequest, SearchResponse,
+  CompareResponse, ModelDetail, ModelSpecInput, ModelVersion, ModelSummary, PeriodogramRun, RunPeriodogramRequest, SearchRequest, SearchResponse,
 } from '@shared/api/analyses.ts'
 import {
   defaultModelName, planetForm, planetFormFromFit, specToForm, type ModelForm,
 } from '@/components/analysis/model-form.ts'
 import { asyncState, track, type AsyncState } from './async-state.ts'
 
-export type PeriodogramSettings = Pick<RunPeriodogramRequest, 'minPeriod' | 'maxPeriod' | 'oversample'>
+export type PeriodogramSettings = Pick<RunPeriodogramRequest, 'minPeriod' | 'maxPeriod' | 'oversample' | 'instruments'>
+/** Options of the automatic search (blank: the core's defaults, as in the CLI). */
+export type SearchSettings = Pick<SearchRequest, 'minPeriod' | 'maxPeriod' | 'maxPlanets'>
 
 /**
  * The analysis of one star: periodograms (velocities, indicators, residuals of the selected model),
@@ -24,6 +26,7 @@ export const useAnalysisStore = defineStore('analysis', () => {
   const residuals = asyncState<PeriodogramRun>()
   const indicators = reactive<Record<string, AsyncState<PeriodogramRun>>>({})
   const settings = reactive<PeriodogramSettings>({})
+  const searchSettings = reactive<SearchSettings>({})
 
   const models = asyncState<ModelSummary[]>([])
   /** The selected saved model (its current version is what the plots and results show). */
@@ -190,10 +193,10 @@ export const useAnalysisStore = defineStore('analysis', () => {
     }
   }
 
-  /** The automatic search: the server adds planets while the residual peaks are significant. */
+  /** The automatic search (the core's searchPlanets with its defaults unless set in `searchSettings`). */
   async function runSearch() {
     const id = need()
-    const found = await track(search, () => api.searchSignals(id, { trend: 'auto' }))
+    const found = await track(search, () => api.searchSignals(id, { trend: 'auto', ...searchSettings }))
     if (!found) return null
     selected.data = found.model
     editFrom(found.model)
@@ -234,7 +237,7 @@ export const useAnalysisStore = defineStore('analysis', () => {
   }
 
   return {
-    rv, residuals, indicators, settings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
+    rv, residuals, indicators, settings, searchSettings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
     versionLoad, fitted, load, loadVersion, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
   }
 })

@@ -1,10 +1,15 @@
-// Plot data of a fitted model, computed from the fitted parameters with the numerical core: the
-// model curve over time, each planet's phase-folded points with the other signals removed, and
-// its curve over one orbit. Pure: runs in the browser worker, or inline where there is no Worker.
-import { addKeplerian, type Keplerian } from '@shared/rv/index.ts'
+// Plot data of a fitted model, computed from the fitted parameters with the numerical core's
+// model-curve functions (shared/rv/model-curve.ts, the same for reports and the CLI): the model
+// over time — a regular grid when it resolves the shortest orbit, otherwise segments around the
+// measurements with breaks across the gaps — each planet's phase-folded points with the other
+// signals removed, and its curve over one orbit. Pure: runs in the browser worker, or inline.
+import {
+  addKeplerian, curveTimes, keplerianOf, modelVelocity, phaseCurve, phaseOf, type CurveTrend, type PlanetElements,
+} from '@shared/rv/index.ts'
 
-export interface CurvePlanet { period: number; K: number; e: number; omegaDeg: number; tp: number; tc: number }
-export interface CurveTrend { slope: number; curvature: number; epoch: number }
+export { phaseOf }
+export type CurvePlanet = PlanetElements
+export type { CurveTrend }
 export interface CurvePoint { id: number; time: number; residual: number; instrument: string; error: number }
 
 export interface CurvesInput {
@@ -14,7 +19,7 @@ export interface CurvesInput {
   /** Times (full JD) of the first and last point the curve spans. */
   start: number
   end: number
-  /** Samples of the time curve (default 3000). */
+  /** Fewest samples of a regular time curve (default of the core, 2000). */
   samples?: number
 }
 
@@ -27,53 +32,30 @@ export interface FoldedPlanet {
 }
 
 export interface CurvesOutput {
-  /** [time, model velocity of all planets and the trend] (no instrument offset). */
-  timeCurve: Array<[number, number]>
+  /** [time, model velocity of all planets and the trend] (no instrument offset); null breaks the line. */
+  timeCurve: Array<[number, number | null]>
+  /** 'regular' grid, or 'segments' around the measurements (the orbit is too short for a grid over the whole span). */
+  sampling: 'regular' | 'segments'
   folded: FoldedPlanet[]
 }
 
-const DEG = Math.PI / 180
-
-function orbit(p: CurvePlanet): Keplerian {
-  return { period: p.period, K: p.K, e: p.e, omega: p.omegaDeg * DEG, tp: p.tp }
-}
-
-/** Phase of `time` from the reference conjunction, in [−0.5, 0.5). */
-export function phaseOf(time: number, period: number, tc: number): number {
-  const x = (time - tc) / period
-  return x - Math.floor(x + 0.5)
-}
-
 export function computeCurves(input: CurvesInput): CurvesOutput {
-  const samples = Math.max(2, Math.min(20000, input.samples ?? 3000))
-  // The time curve must resolve the shortest orbit: at least ~40 samples a period.
-  const span = Math.max(input.end - input.start, 1e-6)
   const shortest = Math.min(...input.planets.map((p) => p.period), Infinity)
-  const n = Number.isFinite(shortest) ? Math.min(20000, Math.max(samples, Math.ceil(40 * span / shortest))) : samples
-  const t = new Float64Array(n)
-  for (let i = 0; i < n; i++) t[i] = input.start + (span * i) / (n - 1)
-  const v = new Float64Array(n)
-  for (const p of input.planets) addKeplerian(t, orbit(p), v)
-  if (input.trend) {
-    for (let i = 0; i < n; i++) {
-      const dt = t[i]! - input.trend.epoch
-      v[i] = v[i]! + input.trend.slope * dt + input.trend.curvature * dt * dt
-    }
+  const sampling = curveTimes(input.points.map((p) => p.time), input.start, input.end, shortest, input.samples ? { minSamples: input.samples } : {})
+  const v = modelVelocity(input.planets, input.trend, sampling.time)
+  const timeCurve: Array<[number, number | null]> = []
+  let last = input.start
+  for (let i = 0; i < sampling.time.length; i++) {
+    const t = sampling.time[i]!
+    if (Number.isNaN(t)) timeCurve.push([last, null])
+    else { timeCurve.push([t, v[i]!]); last = t }
   }
-  const timeCurve: Array<[number, number]> = Array.from(t, (time, i) => [time, v[i]!])
-
   const pt = Float64Array.from(input.points, (p) => p.time)
   const folded = input.planets.map((p): FoldedPlanet => {
     const own = new Float64Array(pt.length)
-    addKeplerian(pt, orbit(p), own)
+    addKeplerian(pt, keplerianOf(p), own)
     const points = input.points.map((q, i): [number, number, number, number] => [phaseOf(q.time, p.period, p.tc), own[i]! + q.residual, q.error, q.id])
-    const m = 400
-    const ct = new Float64Array(m + 1)
-    for (let i = 0; i <= m; i++) ct[i] = p.tc + p.period * (i / m - 0.5)
-    const cv = new Float64Array(m + 1)
-    addKeplerian(ct, orbit(p), cv)
-    const curve = Array.from(cv, (value, i): [number, number] => [i / m - 0.5, value])
-    return { points, curve, instruments: input.points.map((q) => q.instrument) }
+    return { points, curve: phaseCurve(p), instruments: input.points.map((q) => q.instrument) }
   })
-  return { timeCurve, folded }
+  return { timeCurve, sampling: sampling.mode, folded }
 }

@@ -2,6 +2,7 @@
 // on a log axis with the false-alarm levels, the spectral window beneath, the listed peaks marked.
 import type { EChartsOption } from 'echarts'
 import type { PeriodogramPeak, PeriodogramRun } from '@shared/api/analyses.ts'
+import { coincidences as sharedCoincidences, peakWidth, COINCIDENCE_FAP, type Coincidence } from '@shared/rv/index.ts'
 import { escapeHtml } from '@/components/data/velocity-chart-option.ts'
 
 export const POWER_AXIS = 'Power (normalised)'
@@ -51,34 +52,16 @@ export function scatterAboutMeans(points: Array<{ instrument: string; rv: number
   return n > 1 ? Math.sqrt(sum / (n - 1)) : 0
 }
 
-/** Width of a periodogram peak in frequency: about one over the baseline (common practice). */
-export function peakWidth(baseline: number): number {
-  return baseline > 0 ? 1 / baseline : Infinity
-}
-
-export interface Coincidence {
-  period: number
-  indicator: string
-  indicatorPeriod: number
-  indicatorFap: number
-}
+export { peakWidth, type Coincidence }
 
 /**
- * Velocity peaks that an activity indicator's periodogram shares: the indicator has a peak with FAP
- * below `fapLimit` within one peak width (1/baseline in frequency) of the velocity peak.
+ * Velocity peaks that an activity indicator's periodogram shares: the core's `coincidences`
+ * (shared/rv/peak-coincidence.ts) on stored periodogram runs.
  */
 export function coincidences(
-  rvPeaks: PeriodogramPeak[], indicatorRuns: Array<{ name: string; run: PeriodogramRun }>, baseline: number, fapLimit = 0.1,
+  rvPeaks: PeriodogramPeak[], indicatorRuns: Array<{ name: string; run: PeriodogramRun }>, baseline: number, fapLimit = COINCIDENCE_FAP,
 ): Coincidence[] {
-  const width = peakWidth(baseline)
-  const found: Coincidence[] = []
-  for (const peak of rvPeaks) {
-    for (const { name, run } of indicatorRuns) {
-      const match = run.result.peaks.find((q) => q.fap < fapLimit && Math.abs(q.frequency - peak.frequency) <= width)
-      if (match) found.push({ period: peak.period, indicator: name, indicatorPeriod: match.period, indicatorFap: match.fap })
-    }
-  }
-  return found
+  return sharedCoincidences(rvPeaks, indicatorRuns.map(({ name, run }) => ({ name, peaks: run.result.peaks })), baseline, fapLimit)
 }
 
 export interface PeriodogramChartInput {

@@ -13,6 +13,7 @@ describe('model curves for the plots', () => {
     const out = computeCurves({ planets: [b, c], trend, points: [], start: 2458000, end: 2459000, samples: 100 })
     expect(out.timeCurve.length).toBeGreaterThanOrEqual(Math.ceil(40 * 1000 / 12.4))
     for (const [t, v] of [out.timeCurve[0]!, out.timeCurve[777]!]) {
+      expect(out.sampling).toBe('regular')
       const dt = t - trend.epoch
       const expected = radialVelocityAt(t, { ...b, omega: b.omegaDeg * DEG }) + radialVelocityAt(t, { ...c, omega: c.omegaDeg * DEG })
         + trend.slope * dt + trend.curvature * dt * dt
@@ -38,6 +39,23 @@ describe('model curves for the plots', () => {
       expect(f.curve[f.curve.length - 1]![0]).toBe(0.5)
       expect(f.instruments).toEqual(points.map((p) => p.instrument))
     })
+  })
+
+  it('draws a 4-d orbit over 20 years in segments around the data, not as a solid block', () => {
+    const short = { period: 4, K: 50, e: 0.2, omegaDeg: 70, tp: 2450001, tc: 2450000 }
+    const points = Array.from({ length: 150 }, (_, i) => ({ id: i, time: 2450000 + i * 48.7, residual: 0, instrument: 'A', error: 1 }))
+    const out = computeCurves({ planets: [short], trend: null, points, start: 2450000, end: 2450000 + 149 * 48.7 })
+    expect(out.sampling).toBe('segments')
+    const breaks = out.timeCurve.filter(([, v]) => v === null).length
+    expect(breaks).toBe(149) // one break between the windows around consecutive, far-apart measurements
+    // within a segment, consecutive samples are at most P/8 apart: every orbit is resolved
+    for (let i = 1; i < out.timeCurve.length; i++) {
+      const [t0, v0] = out.timeCurve[i - 1]!, [t1, v1] = out.timeCurve[i]!
+      if (v0 !== null && v1 !== null) expect(t1 - t0).toBeLessThanOrEqual(4 / 8 + 1e-9)
+    }
+    // the curve passes through the model at every measurement time
+    const at = new Map(out.timeCurve.filter(([, v]) => v !== null).map(([t, v]) => [t, v!]))
+    for (const p of points) expect(at.get(p.time)).toBeCloseTo(radialVelocityAt(p.time, { ...short, omega: short.omegaDeg * DEG }), 9)
   })
 
   it('measures phase from Tc in [−0.5, 0.5)', () => {
