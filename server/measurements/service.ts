@@ -18,7 +18,7 @@ const SELECT = `SELECT m.id, m.dataset_id, d.instrument, to_jsonb(d)->>'time_sca
 
 /** A dataset's time scale: as recorded at upload; a 'bjd' time format without one means BJD_TDB; else unknown. */
 export function datasetTimeScale(scale: string | null, timeFormat: string): string {
-  if (scale) return timeScaleName(scale)
+  if (scale && timeScaleName(scale) !== 'unknown') return timeScaleName(scale)
   return timeFormat === 'bjd' ? 'bjd_tdb' : 'unknown'
 }
 

@@ -9,9 +9,10 @@ export const measurementSchema = z.object({
   time: z.number(),
   /**
    * The time scale of the dataset the point belongs to (shared/time `TimeScaleName`: 'bjd_tdb',
-   * 'jd_utc', 'hjd_utc', …, 'unknown' when the upload did not record one).
+   * 'jd_utc', 'hjd_utc', …, 'unknown' when the upload did not record one). The server always sends
+   * it; absent (hand-made objects in tests) reads as 'unknown'.
    */
-  timeScale: z.string(),
+  timeScale: z.string().optional(),
   /** m/s */
   rv: z.number(),
   /** m/s */

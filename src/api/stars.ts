@@ -1,5 +1,5 @@
 import { request } from './http.ts'
-import type { Dataset, Star, StarInput, StarSummary, UpdateStarRequest } from './types.ts'
+import type { Dataset, DatasetUsage, Star, StarInput, StarSummary, UpdateStarRequest } from './types.ts'
 
 export const listStars = (teamId: number) => request<StarSummary[]>(`/teams/${teamId}/stars`)
 export const createStar = (teamId: number, body: StarInput) =>
@@ -11,3 +11,8 @@ export const archiveStar = (starId: number) => request<void>(`/stars/${starId}`,
 export const listDatasets = (starId: number) => request<Dataset[]>(`/stars/${starId}/datasets`)
 /** Link for the browser to download an uploaded file exactly as it was sent. */
 export const datasetRawUrl = (datasetId: number) => `/api/datasets/${datasetId}/raw`
+/** What uses a dataset's measurements, and whether it may be deleted. */
+export const fetchDatasetUsage = (datasetId: number) => request<DatasetUsage>(`/datasets/${datasetId}/usage`)
+/** Deletes an unused dataset and its measurements (the raw file stays on the server). */
+export const deleteDataset = (datasetId: number, reason?: string) =>
+  request<void>(`/datasets/${datasetId}`, { method: 'DELETE', body: reason ? { reason } : {} })

@@ -8,7 +8,7 @@ export type {
   TeamSummary, Member, TeamDetail, Invitation, PublicInvitation as InvitationInfo, AcceptInvitationResponse,
 } from '@shared/api/teams.ts'
 export type { StarSummary, Star, CreateStarRequest as StarInput, UpdateStarRequest } from '@shared/api/stars.ts'
-export type { Measurement } from '@shared/api/measurements.ts'
+export type { Measurement, DatasetUsage } from '@shared/api/measurements.ts'
 export type {
   FilePreview, PreviewResponse, CommitResponse, CommitProblem, DatasetSummary as Dataset,
 } from '@shared/api/uploads.ts'

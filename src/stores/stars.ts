@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 import * as api from '@/api/stars.ts'
-import type { Dataset, Star, StarInput, StarSummary } from '@/api/types.ts'
+import type { Dataset, DatasetUsage, Star, StarInput, StarSummary } from '@/api/types.ts'
 import { asyncState, track } from './async-state.ts'
 
 /** The team's star list and the star being looked at. */
@@ -9,6 +9,10 @@ export const useStarsStore = defineStore('stars', () => {
   const star = asyncState<Star>()
   const datasets = asyncState<Dataset[]>([])
   const saving = asyncState<Star>()
+  /** The dataset being considered for deletion: what uses it. */
+  const usage = asyncState<DatasetUsage>()
+  /** Archiving the star or deleting a dataset (the error stays in the dialog). */
+  const removal = asyncState<boolean>()
 
   const loadList = (teamId: number) => track(list, () => api.listStars(teamId))
 
@@ -33,5 +37,21 @@ export const useStarsStore = defineStore('stars', () => {
     return updated
   }
 
-  return { list, star, datasets, saving, loadList, loadStar, create, update }
+  const loadUsage = (datasetId: number) => { usage.data = null; return track(usage, () => api.fetchDatasetUsage(datasetId)) }
+
+  /** Deletes an unused dataset; on success the dataset list is reloaded (the caller reloads the points). */
+  async function deleteDataset(starId: number, datasetId: number, reason?: string) {
+    const ok = await track(removal, async () => { await api.deleteDataset(datasetId, reason); return true })
+    if (ok) await track(datasets, () => api.listDatasets(starId))
+    return ok === true
+  }
+
+  /** Archives the star (owner): hidden from lists, data kept. */
+  async function archive(starId: number) {
+    const ok = await track(removal, async () => { await api.archiveStar(starId); return true })
+    if (ok && star.data?.id === starId) star.data = null
+    return ok === true
+  }
+
+  return { list, star, datasets, saving, usage, removal, loadList, loadStar, create, update, loadUsage, deleteDataset, archive }
 })

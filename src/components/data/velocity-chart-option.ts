@@ -32,9 +32,11 @@ type Point = [number, number, number, number]
 
 export interface VelocityChartInput {
   measurements: Measurement[]
-  /** Time scale of the stored dates, e.g. "BJD" or "JD". */
+  /** Time system of the stored dates, e.g. "BJD_TDB" or "JD_UTC" (shared/time `timeSystemLabel`). */
   timeScale: string
   showExcluded: boolean
+  /** Title of the velocity axis (default "RV [m/s]"; the offset-corrected view says what was removed). */
+  yName?: string
 }
 
 export interface VelocityChartModel {
@@ -160,7 +162,7 @@ export function buildVelocityChart(input: VelocityChartInput): VelocityChartMode
       nameLocation: 'middle', nameGap: 28, splitLine: { lineStyle: { color: '#eceff1' } },
     },
     yAxis: {
-      type: 'value', scale: true, name: 'RV [m/s]', nameLocation: 'middle', nameGap: 56,
+      type: 'value', scale: true, name: input.yName ?? 'RV [m/s]', nameLocation: 'middle', nameGap: 56,
       splitLine: { lineStyle: { color: '#eceff1' } },
     },
     series,

@@ -52,3 +52,33 @@ describe('StarForm', () => {
     expect(nameField.textContent).toContain('A star with this name exists in the team')
   })
 })
+
+describe('StarForm astrometry', () => {
+  it('refuses a proper motion without coordinates and one beyond the schema\'s bound, with the schema\'s words', async () => {
+    wrapper = mountWithApp(StarForm)
+    await fill(wrapper, { name: 'Fast', massMsun: '0.2', massErrMsun: '0.01', pmRaMasYr: '100', pmDecMasYr: '30000' })
+    await wrapper.find('form').trigger('submit')
+    await settle()
+    expect(wrapper.emitted('submit')).toBeUndefined()
+    expect(wrapper.text()).toContain('A proper motion needs RA and Dec')
+    expect(wrapper.text()).toContain('μδ must be within ±20 000 mas/yr')
+  })
+
+  it('emits proper motion, the epoch as a Julian date and a site from the table', async () => {
+    wrapper = mountWithApp(StarForm, { props: { initial: { defaultSite: { id: 'la-silla', name: 'La Silla (Chile)', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347 } } } })
+    await fill(wrapper, { name: 'Fast', massMsun: '0.16', massErrMsun: '0.01', raDeg: '269.4486', decDeg: '4.7392', pmRaMasYr: '-801.55', pmDecMasYr: '10362.5', epochYear: '2016.0' })
+    await wrapper.find('form').trigger('submit')
+    await settle()
+    const input = wrapper.emitted('submit')![0]![0] as Record<string, unknown>
+    expect(input).toMatchObject({ pmRaMasYr: -801.55, pmDecMasYr: 10362.5, coordEpochJd: 2457389.0, raDeg: 269.4486 })
+    expect(input.defaultSite).toMatchObject({ id: 'la-silla', lonDeg: -70.73 })
+  })
+
+  it('clears a proper motion the star had when the field is emptied', async () => {
+    wrapper = mountWithApp(StarForm, { props: { initial: { name: 'S', massMsun: 1, massErrMsun: 0.1, raDeg: 10, decDeg: 10, pmRaMasYr: 5, pmDecMasYr: 6 } } })
+    await fill(wrapper, { pmRaMasYr: '', pmDecMasYr: '' })
+    await wrapper.find('form').trigger('submit')
+    await settle()
+    expect(wrapper.emitted('submit')![0]![0]).toMatchObject({ pmRaMasYr: null, pmDecMasYr: null })
+  })
+})
