@@ -178,9 +178,9 @@ export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['r
   return { nDim: post.nDim, names: post.names, walkers: w, steps, expectedSteps, seconds: secs(expectedSteps), maxSeconds: secs(steps) }
 }
 
-/** Default walkers: max(32, 2 × free parameters), rounded up to even. */
+/** Default walkers: max(32, 2 × free parameters) (even). */
 export function defaultWalkersFor(nDim: number): number {
-  return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim + (nDim % 2))
+  return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim)
 }
 
 export function settingsFor(req: StartSamplingRequest, nDim: number): SamplingSettings {

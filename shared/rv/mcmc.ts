@@ -265,7 +265,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   spec.jitters = spec.jitters?.map((s) => Math.max(s, 0.1 * meanErr))
   const post = createLogPosterior(data, spec)
   const nDim = post.nDim
-  const walkers = intOpt('walkers', options.walkers, Math.max(32, 2 * nDim + (nDim % 2)), 2)
+  const walkers = intOpt('walkers', options.walkers, Math.max(32, 2 * nDim), 2)
   if (walkers < 2 * nDim || walkers % 2) throw new RangeError(`walkers must be even and ≥ 2 × ${nDim} sampled parameters, got ${walkers}`)
   const groups = options.rhatGroups ?? defaultRhatGroups(walkers)
   if (!(Number.isInteger(groups) && groups >= 2 && walkers % groups === 0)) throw new RangeError(`rhatGroups must be ≥ 2 and divide walkers (${walkers}), got ${groups}`)

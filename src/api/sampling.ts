@@ -2,7 +2,7 @@
 // follow its progress through the server-sent event stream.
 import { request } from './http.ts'
 import type {
-  SamplingEvent, SamplingRun, SamplingRunSummary, StartSamplingRequest,
+  SamplingEstimate, SamplingEvent, SamplingRun, SamplingRunSummary, StartSamplingRequest,
 } from '@shared/api/sampling.ts'
 
 export const startSampling = (modelId: number, body: StartSamplingRequest = {}) =>
@@ -10,6 +10,15 @@ export const startSampling = (modelId: number, body: StartSamplingRequest = {}) 
 export const listSampling = (starId: number) => request<SamplingRunSummary[]>(`/stars/${starId}/sampling`)
 export const fetchSampling = (runId: number) => request<SamplingRun>(`/sampling/${runId}`)
 export const cancelSampling = (runId: number) => request<SamplingRun>(`/sampling/${runId}/cancel`, { method: 'POST', body: {} })
+/** What a run of the model would sample (free parameters) and how long it would take. */
+export const estimateSampling = (modelId: number, q: { walkers?: number; steps?: number; untilConverged?: boolean } = {}) => {
+  const params = new URLSearchParams()
+  for (const [k, v] of Object.entries(q)) if (v !== undefined) params.set(k, String(v))
+  const qs = params.toString()
+  return request<SamplingEstimate>(`/models/${modelId}/sampling/estimate${qs ? `?${qs}` : ''}`)
+}
+/** Address of the run's kept chain as CSV (a plain download link). */
+export const samplingChainCsvUrl = (runId: number) => `/api/sampling/${runId}/chain.csv`
 
 export interface SamplingSubscription { close(): void }
 

@@ -2,7 +2,7 @@ import { defineStore } from 'pinia'
 import { ref } from 'vue'
 import * as api from '@/api/sampling.ts'
 import { SAMPLING_DONE_STATES } from '@shared/api/sampling.ts'
-import type { SamplingEvent, SamplingRun, SamplingRunSummary, StartSamplingRequest } from '@shared/api/sampling.ts'
+import type { SamplingEstimate, SamplingEvent, SamplingRun, SamplingRunSummary, StartSamplingRequest } from '@shared/api/sampling.ts'
 import { asyncState, track } from './async-state.ts'
 
 const POLL_MS = 1500
@@ -18,6 +18,9 @@ export const useSamplingStore = defineStore('sampling', () => {
   const run = asyncState<SamplingRun>()
   const starting = asyncState<SamplingRun>()
   const cancelling = asyncState<SamplingRun>()
+  /** The server's estimate for the selected fitted model (free parameters, expected steps and time). */
+  const estimate = asyncState<SamplingEstimate>()
+  let estimateFor: number | null = null
   /** How the open run is followed: 'stream', 'polling' or null (finished or none). */
   const following = ref<'stream' | 'polling' | null>(null)
 
@@ -115,5 +118,17 @@ export const useSamplingStore = defineStore('sampling', () => {
     if (r && run.data?.id === r.id) { await finish(r.id) }
   }
 
-  return { runs, run, starting, cancelling, following, load, open, start, cancel, stopFollowing }
+  /** Asks the server what a run of this model would sample and how long it would take (its defaults). */
+  async function loadEstimate(modelId: number | null) {
+    estimateFor = modelId
+    if (modelId === null) { estimate.data = null; estimate.error = null; return null }
+    const e = await track(estimate, () => api.estimateSampling(modelId))
+    if (estimateFor !== modelId) return null
+    return e
+  }
+
+  /** Address of a run's chain as CSV. */
+  const chainCsvUrl = (runId: number) => api.samplingChainCsvUrl(runId)
+
+  return { runs, run, starting, cancelling, estimate, following, load, open, start, cancel, stopFollowing, loadEstimate, chainCsvUrl }
 })

@@ -1,20 +1,28 @@
 // How sampling settings are checked and results are written on screen: defaults and limits of a
 // run, a time estimate, credible intervals "median +plus −minus unit", and the diagnostics in words.
 import type { FitResultJson } from '@shared/api/analyses.ts'
-import type { ParameterSummary, SamplingResult, SamplingRunSummary } from '@shared/api/sampling.ts'
-import { SAMPLING_DEFAULTS } from '@shared/api/sampling.ts'
+import type { ParameterSummary, SamplingEstimate, SamplingResult, SamplingRunSummary } from '@shared/api/sampling.ts'
+import { SAMPLING_DEFAULTS, SAMPLING_LIMITS } from '@shared/api/sampling.ts'
 
 /** Limits of the server's request schema (shared/api/sampling.ts). */
-export const LIMITS = { walkersMin: 4, walkersMax: 512, stepsMin: 20, stepsMax: 200_000, seedMax: 2 ** 32 - 1 } as const
+export const LIMITS = SAMPLING_LIMITS
 
 /**
- * Parameters the server samples for a fitted model: five per planet (P, K, e and ω through √e·cos ω
- * and √e·sin ω, Tc), an offset per instrument, a jitter per instrument whose jitter was fitted, and
- * the trend's slope (and curvature).
+ * Parameters the server samples for a fitted model when its estimate is not at hand: five per
+ * planet (P, K, e and ω through √e·cos ω and √e·sin ω, Tc) less those the model fixes (e fixed at 0
+ * also drops ω; a fixed Tc or Tp drops the phase), an offset per instrument, a jitter per instrument
+ * whose jitter was fitted, and the trend's slope (and curvature). Fixed parameters are those with an
+ * error of exactly 0 (the fitter's mark).
  */
 export function sampledParameterCount(result: Pick<FitResultJson, 'planets' | 'instruments' | 'trend'>): number {
   const trend = result.trend?.kind === 'quadratic' ? 2 : result.trend?.kind === 'linear' ? 1 : 0
-  return 5 * result.planets.length + result.instruments.length + result.instruments.filter((i) => i.jitter !== null).length + trend
+  let planets = 0
+  for (const p of result.planets) {
+    const u = (p as { uncertainty?: Partial<Record<'period' | 'K' | 'e' | 'omegaDeg' | 'tc' | 'tp', number | null>> }).uncertainty ?? {}
+    const eFixed = u.e === 0, wFixed = u.omegaDeg === 0 || (eFixed && p.e === 0)
+    planets += (u.period === 0 ? 0 : 1) + (u.K === 0 ? 0 : 1) + (eFixed && wFixed ? 0 : eFixed || wFixed ? 1 : 2) + (u.tc === 0 || u.tp === 0 ? 0 : 1)
+  }
+  return planets + result.instruments.length + result.instruments.filter((i) => i.jitter !== null).length + trend
 }
 
 /** At least 32 walkers and twice the number of sampled parameters (always even). */
@@ -22,8 +30,8 @@ export function defaultWalkers(nDim: number): number {
   return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim)
 }
 
-export interface LauncherInput { walkers: string; steps: string; seed: string }
-export type LauncherErrors = Partial<Record<keyof LauncherInput, string>>
+export interface LauncherInput { walkers: string; steps: string; seed: string; untilConverged: boolean }
+export type LauncherErrors = Partial<Record<'walkers' | 'steps' | 'seed', string>>
 
 const whole = (text: string): number | null => {
   const t = text.trim()
@@ -31,14 +39,14 @@ const whole = (text: string): number | null => {
   return Number(t)
 }
 
-/** Checks the launcher's fields as the server will; a blank seed means "let the server choose". */
+/** Checks the launcher's fields as the server will (limits from the shared schema); a blank seed means "let the server choose". */
 export function validateLauncher(input: LauncherInput, nDim: number): LauncherErrors {
   const errors: LauncherErrors = {}
   const walkers = whole(input.walkers)
   const need = Math.max(LIMITS.walkersMin, 2 * nDim)
   if (walkers === null) errors.walkers = 'Walkers must be a whole number'
   else if (walkers % 2 !== 0) errors.walkers = 'Walkers must be an even number'
-  else if (walkers < need) errors.walkers = `At least ${need} walkers (twice the ${nDim} sampled parameters)`
+  else if (walkers < need) errors.walkers = `At least ${need} walkers (twice the ${nDim} free parameters)`
   else if (walkers > LIMITS.walkersMax) errors.walkers = `At most ${LIMITS.walkersMax} walkers`
   const steps = whole(input.steps)
   if (steps === null || steps <= 0) errors.steps = 'Steps must be a whole number greater than 0'
@@ -49,6 +57,15 @@ export function validateLauncher(input: LauncherInput, nDim: number): LauncherEr
     if (seed === null || seed > LIMITS.seedMax) errors.seed = `Seed must be a whole number from 0 to ${LIMITS.seedMax}`
   }
   return errors
+}
+
+/**
+ * Expected seconds for `walkers × steps` from the server's estimate for the model (its time is
+ * 1.5 s of set-up plus a cost per walker-step).
+ */
+export function secondsFromEstimate(e: Pick<SamplingEstimate, 'seconds' | 'walkers' | 'expectedSteps'>, walkers: number, steps: number): number {
+  const perStep = Math.max(0, e.seconds - 1.5) / Math.max(1, e.walkers * e.expectedSteps)
+  return 1.5 + perStep * walkers * steps
 }
 
 /**
@@ -115,7 +132,7 @@ export function formatInterval(s: Pick<ParameterSummary, 'median' | 'lo' | 'hi' 
 /** Plain-words reading of the convergence diagnostics; the server's warnings come first. */
 export function convergenceNotes(d: SamplingResult['diagnostics'], settings: SamplingResult['settings']): string[] {
   const notes = [...d.warnings]
-  if (settings.stopped) notes.push(`The run was stopped after ${settings.stepsDone} of ${settings.steps} steps; these numbers come from the steps done and may change with a full run.`)
+  if (settings.stopped && !notes.some((n) => /stopped after/.test(n))) notes.push(`The run was stopped after ${settings.stepsDone} of ${settings.steps} steps; these numbers come from the steps done and may change with a full run.`)
   if (!d.converged && notes.length === 0) notes.push('The chains have not settled: run longer (more steps) before trusting these intervals.')
   return notes
 }
@@ -132,7 +149,7 @@ export function defaultCornerNames(names: string[]): string[] {
   return [`P ${first}`, `K ${first}`, `e ${first}`, `M sin i ${first}`].filter((n) => names.includes(n))
 }
 
-/** Columns that can be plotted (the sample's, without the Earth-mass copy of M sin i). */
-export function plottableNames(names: string[]): string[] {
-  return names.filter((n) => !n.endsWith('(Earth masses)'))
+/** Columns that can be plotted (the sample's, without the Earth-mass copy of M sin i and without parameters held fixed). */
+export function plottableNames(names: string[], fixed: readonly string[] = []): string[] {
+  return names.filter((n) => !n.endsWith('(Earth masses)') && !fixed.includes(n))
 }

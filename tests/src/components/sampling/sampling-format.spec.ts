@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import type { SamplingRunSummary } from '@shared/api/sampling.ts'
 import {
-  defaultCornerNames, defaultWalkers, estimateFromRuns, formatDuration, formatInterval, sampledParameterCount, validateLauncher,
+  convergenceNotes, defaultCornerNames, defaultWalkers, estimateFromRuns, formatDuration, formatInterval, plottableNames, sampledParameterCount,
+  secondsFromEstimate, validateLauncher,
 } from '@/components/sampling/sampling-format.ts'
 
 describe('formatInterval: median with its 16–84 % interval', () => {
@@ -27,14 +28,30 @@ describe('launcher settings', () => {
     const planet = {} as never
     expect(sampledParameterCount({ planets: [planet, planet], instruments: [inst(1), inst(null)], trend: { kind: 'quadratic', slope: 0, slopeErr: null, curvature: 0, curvatureErr: null, epoch: 0 } })).toBe(10 + 2 + 1 + 2)
   })
+  it('leaves out what the model fixes (errors of exactly 0): a circular orbit has 3, a fixed ω leaves e', () => {
+    const inst = { name: 'x', n: 10, offset: 0, offsetErr: 1, jitter: 1, jitterErr: 0.2, rms: 1 }
+    const u = (over: object) => ({ period: 0.1, K: 1, e: 0.02, omegaDeg: 3, tc: 0.2, tp: 0.5, ...over })
+    const circular = { e: 0, uncertainty: u({ e: 0, omegaDeg: null }) } as never
+    const wFixed = { e: 0.3, uncertainty: u({ omegaDeg: 0 }) } as never
+    expect(sampledParameterCount({ planets: [circular], instruments: [inst], trend: null })).toBe(3 + 2)
+    expect(sampledParameterCount({ planets: [wFixed], instruments: [inst], trend: null })).toBe(4 + 2)
+  })
+  it('scales the server\'s estimate to the launcher\'s walkers and steps; leaves fixed parameters out of the plots', () => {
+    expect(secondsFromEstimate({ seconds: 11.5, walkers: 32, expectedSteps: 5000 }, 64, 5000)).toBeCloseTo(21.5, 10)
+    expect(plottableNames(['P b', 'e b', 'M sin i b (Earth masses)'], ['e b'])).toEqual(['P b'])
+  })
+  it('does not repeat the server\'s "stopped" warning', () => {
+    const d = { warnings: ['The run was stopped after 10 of 20 steps; …'], converged: false } as never
+    expect(convergenceNotes(d, { stopped: true, stepsDone: 10, steps: 20 } as never)).toHaveLength(1)
+  })
   it('names what is wrong: odd or too few walkers, steps ≤ 0, a bad seed', () => {
-    expect(validateLauncher({ walkers: '32', steps: '5000', seed: '1' }, 7)).toEqual({})
-    expect(validateLauncher({ walkers: '33', steps: '5000', seed: '' }, 7).walkers).toMatch(/even/)
-    expect(validateLauncher({ walkers: '12', steps: '5000', seed: '' }, 7).walkers).toMatch(/At least 14 walkers/)
-    expect(validateLauncher({ walkers: '32', steps: '0', seed: '' }, 7).steps).toMatch(/greater than 0/)
-    expect(validateLauncher({ walkers: '32', steps: '-5', seed: '' }, 7).steps).toMatch(/greater than 0/)
-    expect(validateLauncher({ walkers: '32', steps: '10', seed: '' }, 7).steps).toMatch(/At least 20/)
-    expect(validateLauncher({ walkers: '32', steps: '100', seed: '1.5' }, 7).seed).toMatch(/whole number/)
+    expect(validateLauncher({ walkers: '32', steps: '5000', seed: '1', untilConverged: true }, 7)).toEqual({})
+    expect(validateLauncher({ walkers: '33', steps: '5000', seed: '', untilConverged: false }, 7).walkers).toMatch(/even/)
+    expect(validateLauncher({ walkers: '12', steps: '5000', seed: '', untilConverged: false }, 7).walkers).toMatch(/At least 14 walkers/)
+    expect(validateLauncher({ walkers: '32', steps: '0', seed: '', untilConverged: false }, 7).steps).toMatch(/greater than 0/)
+    expect(validateLauncher({ walkers: '32', steps: '-5', seed: '', untilConverged: false }, 7).steps).toMatch(/greater than 0/)
+    expect(validateLauncher({ walkers: '32', steps: '10', seed: '', untilConverged: false }, 7).steps).toMatch(/At least 20/)
+    expect(validateLauncher({ walkers: '32', steps: '100', seed: '1.5', untilConverged: false }, 7).seed).toMatch(/whole number/)
   })
   it('scales an earlier run\'s server estimate to the new settings', () => {
     const earlier = { estimateSeconds: 11.5, settings: { walkers: 32, steps: 5000, burn: 1250, thin: 1, seed: 1 } } as SamplingRunSummary
