@@ -15,18 +15,21 @@ export const COMMANDS: Record<string, { options: Options; help: string }> = {
   periodogram: {
     options: {
       ...INPUT, 'min-period': { type: 'string' }, 'max-period': { type: 'string' }, oversample: { type: 'string' },
-      frequencies: { type: 'string' }, peaks: { type: 'string' },
+      frequencies: { type: 'string' }, peaks: { type: 'string' }, 'gls-only': { type: 'boolean' },
     },
     help: `usage: cli.ts periodogram FILE|- [options]
 
 Generalised Lomb–Scargle periodogram of one velocity table (each instrument's weighted mean removed
-first), its highest peaks with false-alarm probabilities and aliases, and the false-alarm levels.
+first), its highest peaks with false-alarm probabilities and aliases, the false-alarm levels, and
+the Keplerian periodogram over the same range.
 
   --min-period D       shortest period, days (default 0.5 d; 0.2 d for dense nightly sampling)
   --max-period D       longest period, days (default 5 × the baseline)
   --oversample K       grid step 1/(K × baseline) (default 10)
   --frequencies M      exactly M grid frequencies instead of --oversample
   --peaks K            number of peaks listed (default 10)
+  --gls-only           skip the Keplerian periodogram (eccentric orbits, an offset per instrument
+                       fitted at every period: the search's statistic; computed by default)
 ${inputHelp()}`,
   },
   fit: {

@@ -18,6 +18,7 @@ export function runPeriodogram(p: Parsed, io: CliIo): void {
   try {
     rep = periodogramReport({
       t: data.t, y: data.y, dy: data.dy, instrument: data.instrument, minPeriod, maxPeriod, oversample, frequencies, peaks: npeaks,
+      keplerian: !p.values['gls-only'],
     })
   } catch (e) {
     if (e instanceof RangeError) throw new UsageError(`${e.message}; adjust --min-period/--max-period/--oversample/--frequencies`)
@@ -29,6 +30,7 @@ export function runPeriodogram(p: Parsed, io: CliIo): void {
     grid: { minFrequency: rep.grid.minFrequency, maxFrequency: rep.grid.maxFrequency, count: rep.grid.count, method: rep.grid.method, ...rep.settings },
     peaks: rep.peaks,
     fapLevels: rep.fapLevels,
+    keplerian: rep.keplerian ? { count: rep.keplerian.count, oversample: rep.keplerian.oversample, cells: rep.keplerian.cells, peaks: rep.keplerian.peaks } : null,
     units: UNITS,
     timingMs: { periodogram: ms },
   }
@@ -40,6 +42,12 @@ export function runPeriodogram(p: Parsed, io: CliIo): void {
     i + 1, k.period, k.frequency, k.power, k.fap, k.aliases.map((a) => `${fmt(a.period)} (${a.source})`).join('; ') || '—',
   ]), ['#', 'period [d]', 'freq [1/d]', 'power', 'FAP', 'alias partners [d]']))
   io.out('')
-  io.out(`false-alarm levels: ${rep.fapLevels.map((l) => `${l.fap * 100} % at power ${fmt(l.power)}`).join(', ')}`)
+  if (rep.keplerian) {
+    io.out('')
+    io.out(`Keplerian periodogram (e and an offset per instrument fitted at each of ${rep.keplerian.count} periods):`)
+    io.out(table(rep.keplerian.peaks.slice(0, 5).map((k, i) => [i + 1, k.period, k.power, k.dchi2, k.e]), ['#', 'period [d]', 'power', 'Δχ²', 'best e']))
+  }
+  io.out('')
+  io.out(`false-alarm levels (sinusoid): ${rep.fapLevels.map((l) => `${l.fap * 100} % at power ${fmt(l.power)}`).join(', ')}`)
   io.out(PEAK_CAUTION)
 }

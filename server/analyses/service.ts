@@ -101,7 +101,7 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
   const { settings: grid, ...result } = await pool(s).run('periodogram', {
     t: Float64Array.from(t), y: Float64Array.from(y), dy: Float64Array.from(dy),
     minPeriod: req.minPeriod, maxPeriod: req.maxPeriod, oversample: req.oversample,
-    instrument: inst ? Int32Array.from(inst) : undefined,
+    instrument: inst ? Int32Array.from(inst) : undefined, keplerian: req.kind === 'rv',
   }).catch((err: unknown) => {
     // the numerical core names the offending option (e.g. a grid too large)
     if (err instanceof ComputeError && err.remoteName === 'RangeError') {

@@ -18,12 +18,15 @@ export interface PeriodogramInput {
    * removed first, as in the CLI (`centreByInstrument`). Omit for residuals.
    */
   instrument?: Int32Array
+  /** Also the Keplerian periodogram (velocities: needs `instrument`). */
+  keplerian?: boolean
 }
 
 /** The core's periodogram report (`periodogramReport`): the same function and defaults as the CLI. */
 export function periodogramTask(inp: PeriodogramInput): PeriodogramReport {
   return periodogramReport({
     t: inp.t, y: inp.y, dy: inp.dy, instrument: inp.instrument, minPeriod: inp.minPeriod, maxPeriod: inp.maxPeriod, oversample: inp.oversample,
+    keplerian: inp.keplerian,
   })
 }
 

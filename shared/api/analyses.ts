@@ -81,6 +81,16 @@ export const periodogramResultSchema = z.object({
   /** Powers at which the FAP is 10 %, 1 %, 0.1 %. */
   fapLevels: z.array(z.object({ fap: z.number(), power: z.number() })),
   downsampling: z.string(),
+  /**
+   * The Keplerian periodogram over the same range (velocities only): Δχ²/χ²(offsets only) with
+   * e, the periastron phase and one offset per instrument fitted at every period; the search's statistic.
+   */
+  keplerian: z.object({
+    curve: curveSchema,
+    peaks: z.array(z.object({ period: z.number(), frequency: z.number(), power: z.number(), dchi2: z.number(), e: z.number() })),
+    count: z.number().int(), oversample: z.number(),
+    cells: z.array(z.object({ e: z.number(), minPeriod: z.number() })),
+  }).nullable().optional(),
 })
 export type PeriodogramResult = z.infer<typeof periodogramResultSchema>
 

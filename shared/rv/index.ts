@@ -35,7 +35,7 @@ export {
   type PlanetPrior, type PlanetSpecInput, type SpecFitOptions, meanEpoch, flattenPriors, startsFromSpec, fitSpec,
 } from './model-spec.ts'
 export {
-  type PeriodogramReportInput, type PeriodogramReport, type ReportPeak,
+  type PeriodogramReportInput, type PeriodogramReport, type ReportPeak, type KeplerianReport,
   periodogramReport, downsampleCurve, CURVE_POINTS, FAP_LEVELS, REPORT_PEAKS,
 } from './periodogram-report.ts'
 export {

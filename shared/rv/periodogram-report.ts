@@ -2,9 +2,12 @@
  * A periodogram as the product shows it, the one home for the CLI, the server and the browser:
  * instrument centring (`centring.ts`), the generalised Lomb–Scargle power (Zechmeister & Kürster
  * 2009) on the core's default grid (`GRID_DEFAULTS`), its peaks with aliases (Dawson & Fabrycky
- * 2010), Baluev (2008) false-alarm levels, the spectral window and a plot-sized copy of the curves.
+ * 2010), Baluev (2008) false-alarm levels, the spectral window and a plot-sized copy of the curves;
+ * on request the Keplerian periodogram (Zechmeister & Kürster 2009 §4; O'Toole et al. 2009) over
+ * the same range, the search's detection statistic, so the screen shows what the search sees.
  */
 import { centreByInstrument } from './centring.ts'
+import { keplerianPeriodogram, keplerianPeaks, KEPLERIAN_PERIODOGRAM_DEFAULTS } from './search/index.ts'
 import {
   periodogram, findPeaks, falseAlarmLevel, windowFunction, defaultMinPeriod, defaultMaxPeriod, GRID_DEFAULTS,
 } from './periodogram.ts'
@@ -35,6 +38,23 @@ export interface PeriodogramReportInput {
   frequencies?: number
   /** Number of peaks listed (default {@link REPORT_PEAKS}). */
   peaks?: number
+  /**
+   * Also the Keplerian periodogram (eccentric orbits, one offset per instrument fitted at every
+   * trial period; `keplerianPeriodogram`) over the same period range (needs `instrument`).
+   */
+  keplerian?: boolean
+}
+
+/** The Keplerian periodogram as the product shows it beside the GLS. */
+export interface KeplerianReport {
+  /** Plot copy of Δχ²/χ²(offsets only), 0…1, increasing period. */
+  curve: { period: number[]; power: number[] }
+  /** Highest peaks (side lobes merged): period, power, Δχ² and the best cell's eccentricity. */
+  peaks: Array<{ period: number; frequency: number; power: number; dchi2: number; e: number }>
+  count: number
+  oversample: number
+  /** Eccentricities of the cell grid and the shortest period each is tried at (d). */
+  cells: Array<{ e: number; minPeriod: number }>
 }
 
 export interface ReportPeak {
@@ -53,6 +73,7 @@ export interface PeriodogramReport {
   peaks: ReportPeak[]
   fapLevels: Array<{ fap: number; power: number }>
   downsampling: string
+  keplerian: KeplerianReport | null
 }
 
 /**
@@ -117,7 +138,24 @@ export function periodogramReport(inp: PeriodogramReportInput): PeriodogramRepor
   const fmax = grid.f0 + (grid.count - 1) * grid.df
   const peaks = findPeaks(t, y, dy, pg, { count: inp.peaks ?? REPORT_PEAKS })
   const win = windowFunction(t, grid)
+  let keplerian: KeplerianReport | null = null
+  if (inp.keplerian) {
+    if (!inp.instrument) throw new RangeError('the Keplerian periodogram needs the instrument of every point')
+    let nInst = 0
+    for (let i = 0; i < inp.instrument.length; i++) nInst = Math.max(nInst, inp.instrument[i] + 1)
+    const data = { t, y: Float64Array.from(inp.y), dy, instrument: Int32Array.from(inp.instrument), instrumentNames: Array.from({ length: nInst }, (_, k) => `#${k + 1}`) }
+    const kp = keplerianPeriodogram(data, { minPeriod, maxPeriod })
+    const chi2 = kp.chi2Null
+    keplerian = {
+      curve: downsampleCurve(kp.frequency, kp.power),
+      peaks: keplerianPeaks(kp, inp.peaks ?? REPORT_PEAKS).map((p) => ({ period: p.period, frequency: p.frequency, power: chi2 > 0 ? p.dchi2 / chi2 : 0, dchi2: p.dchi2, e: p.e })),
+      count: kp.period.length,
+      oversample: KEPLERIAN_PERIODOGRAM_DEFAULTS.oversample,
+      cells: kp.cells.map((c) => ({ e: c.e, minPeriod: c.minPeriod })),
+    }
+  }
   return {
+    keplerian,
     settings: { minPeriod, maxPeriod, oversample },
     grid: { minFrequency: grid.f0, maxFrequency: fmax, count: grid.count, method: pg.method },
     curve: downsampleCurve(pg.frequency, pg.power),

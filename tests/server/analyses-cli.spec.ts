@@ -65,6 +65,13 @@ describe('51 Peg through the CLI and through the API', () => {
       expect(p.aliases.map((x: any) => x.source)).toEqual(q.aliases.map((x) => x.source))
     })
     doc.fapLevels.forEach((l: any, i: number) => same(l.power, api.result.fapLevels[i]!.power, `FAP level ${l.fap}`))
+    // and the same Keplerian periodogram beside it
+    const kp = api.result.keplerian!
+    expect(doc.keplerian.count).toBe(kp.count)
+    doc.keplerian.peaks.forEach((p: any, i: number) => {
+      same(p.period, kp.peaks[i]!.period, `Keplerian peak ${i} period`)
+      same(p.dchi2, kp.peaks[i]!.dchi2, `Keplerian peak ${i} Δχ²`)
+    })
     // the top peak is 51 Peg b (Birkby et al. 2017: P = 4.2307869 d)
     expect(Math.abs(api.result.peaks[0]!.period - 4.2308)).toBeLessThan(0.002)
   }, 120_000)

@@ -81,13 +81,16 @@ export interface PeriodogramChartInput {
 
 /** Series name of the peak markers (clicks on them add planets). */
 export const PEAK_SERIES = 'Peaks'
+/** Series name and colour of the Keplerian periodogram drawn beside the sinusoid (GLS) power. */
+export const KEPLERIAN_SERIES = 'Keplerian (e and offsets fitted)'
+const KEPLERIAN_COLOR = '#b35806'
 
 export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOption {
   const { run, showWindow, compact } = input
   const [min, max] = input.range ?? [run.settings.minPeriod, run.settings.maxPeriod]
   const curve = run.result.curve.period.map((p, i) => [p, run.result.curve.power[i]!])
   const window = run.result.window.period.map((p, i) => [p, run.result.window.power[i]!])
-  const top = Math.max(...run.result.curve.power, ...run.result.fapLevels.map((l) => l.power), 0.05)
+  const top = Math.max(...run.result.curve.power, ...run.result.fapLevels.map((l) => l.power), ...(run.result.keplerian?.curve.power ?? []), 0.05)
   const mainHeight = showWindow ? '58%' : undefined
   const grids: NonNullable<EChartsOption['grid']> = showWindow
     ? [{ left: 72, right: 24, top: compact ? 36 : 48, height: mainHeight }, { left: 72, right: 24, bottom: 64, height: '17%' }]
@@ -123,6 +126,15 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
       label: { show: true, position: 'top', formatter: (p: unknown) => String(((p as { dataIndex: number }).dataIndex) + 1), fontSize: 11 },
     })
   }
+  const kp = run.result.keplerian
+  if (kp) {
+    // The Keplerian periodogram (Δχ²/χ² of offsets only, e and offsets fitted per period) on the
+    // same 0…1 scale: the statistic the search uses, drawn beside the sinusoid's power.
+    series.push({
+      type: 'line', name: KEPLERIAN_SERIES, data: kp.curve.period.map((p, i) => [p, kp.curve.power[i]!]), showSymbol: false,
+      xAxisIndex: 0, yAxisIndex: 0, z: 1, lineStyle: { width: 1, color: KEPLERIAN_COLOR, opacity: 0.85 }, itemStyle: { color: KEPLERIAN_COLOR },
+    })
+  }
   if (showWindow) {
     series.push({
       type: 'line', name: 'Window', data: window, showSymbol: false, xAxisIndex: 1, yAxisIndex: 1,
@@ -133,6 +145,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
     animation: false,
     textStyle: { fontFamily: 'Roboto, sans-serif' },
     title: { text: input.title, left: 72, top: 4, textStyle: { fontSize: 13, fontWeight: 500 } },
+    ...(kp ? { legend: { top: 4, right: 140, data: ['Power', KEPLERIAN_SERIES], textStyle: { fontSize: 11 } } } : {}),
     grid: grids,
     tooltip: {
       trigger: 'axis',

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import type { PeriodogramRun } from '@shared/api/analyses.ts'
 import {
-  buildPeriodogramChart, coincidences, fapLabel, formatFap, scatterAboutMeans, startAmplitude,
+  buildPeriodogramChart, coincidences, fapLabel, formatFap, scatterAboutMeans, startAmplitude, KEPLERIAN_SERIES,
 } from '@/components/analysis/periodogram-option.ts'
 import { formatWithError } from '@/components/analysis/results-format.ts'
 import { histogram } from '@/components/analysis/model-plots-option.ts'
@@ -54,6 +54,21 @@ describe('periodogram helpers', () => {
     expect(levels.map((d) => d.yAxis)).toEqual([0.09, 0.11, 0.13])
     expect(series.map((s) => s.name)).toEqual(['Power', 'Peaks', 'Window'])
     expect((option.yAxis as Array<{ name: string }>)[0]!.name).toBe('Power (normalised)')
+  })
+
+  it('draws the Keplerian periodogram beside the sinusoid power when the run has one, with a legend', () => {
+    const r = run([{ period: 10, power: 0.2, fap: 1e-5 }])
+    r.result.keplerian = {
+      curve: { period: [1, 10, 100], power: [0.1, 0.6, 0.2] }, peaks: [{ period: 10, frequency: 0.1, power: 0.6, dchi2: 300, e: 0.3 }],
+      count: 3, oversample: 3, cells: [{ e: 0, minPeriod: 0 }, { e: 0.3, minPeriod: 5 }],
+    }
+    const option = buildPeriodogramChart({ run: r, title: 't', showWindow: false })
+    const series = option.series as Array<{ name: string; data: number[][] }>
+    expect(series.map((s) => s.name)).toEqual(['Power', 'Peaks', KEPLERIAN_SERIES])
+    expect(series[2]!.data).toEqual([[1, 0.1], [10, 0.6], [100, 0.2]])
+    expect((option.legend as { data: string[] }).data).toEqual(['Power', KEPLERIAN_SERIES])
+    // the power axis makes room for the taller Keplerian curve
+    expect((option.yAxis as Array<{ max: number }>)[0]!.max).toBeGreaterThanOrEqual(0.6)
   })
 
   it('writes FAP and fitted values for the screen', () => {
