@@ -13,6 +13,8 @@ import * as analyses from './analyses/routes.ts'
 import { fitModel, periodogramRun } from './analyses/guards.ts'
 import * as reports from './reports/routes.ts'
 import { report } from './reports/guards.ts'
+import * as limits from './limits/routes.ts'
+import * as plan from './plan/routes.ts'
 
 export type Handler = (req: Request, res: Response, s: Services) => Promise<void> | void
 export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: string; guards: Guard[]; handler: Handler }
@@ -84,6 +86,13 @@ export const routes: Route[] = [
   { method: 'get', path: '/api/sampling/:runId/events', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.events },
   { method: 'post', path: '/api/sampling/:runId/cancel', guards: [sampling.samplingRunGuard('analyst')], handler: sampling.cancel },
   { method: 'get', path: '/api/sampling/:runId/chain.csv', guards: [sampling.samplingRunGuard('reviewer')], handler: sampling.chain },
+
+  { method: 'post', path: '/api/models/:modelId/limits', guards: [fitModel('analyst')], handler: limits.start },
+  { method: 'get', path: '/api/stars/:starId/limits', guards: [star('reviewer')], handler: limits.list },
+  { method: 'get', path: '/api/limits/:runId', guards: [limits.limitsRunGuard('reviewer')], handler: limits.show },
+  { method: 'post', path: '/api/limits/:runId/cancel', guards: [limits.limitsRunGuard('analyst')], handler: limits.cancel },
+  { method: 'post', path: '/api/limits/:runId/resume', guards: [limits.limitsRunGuard('analyst')], handler: limits.resume },
+  { method: 'post', path: '/api/stars/:starId/plan', guards: [star('reviewer')], handler: plan.plan },
 
   { method: 'post', path: '/api/models/:modelId/report', guards: [fitModel('analyst')], handler: reports.freeze },
   { method: 'get', path: '/api/stars/:starId/reports', guards: [star('reviewer')], handler: reports.list },

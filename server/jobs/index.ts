@@ -7,6 +7,7 @@ import type { Services } from '../services.ts'
 import { SAMPLING_QUEUE, startBoss } from './boss.ts'
 import { runSamplingJob, type RunControl } from '../sampling/runner.ts'
 import { reapStaleRuns } from '../sampling/service.ts'
+import { registerLimitWorkers } from '../limits/worker.ts'
 
 export interface JobWorkerOptions {
   /** Sampling runs worked on at once by this process (each takes one core). */
@@ -54,6 +55,7 @@ export async function startJobWorkers(s: Services, opts: JobWorkerOptions = {}):
       return runSamplingJob(s, job.data.runId, job.id, { workerId: `${workerId}:${i}`, checkpointEvery, checkpointMinMs: opts.checkpointMinMs ?? cfg.checkpointMinMs, staleSeconds, log }, control)
     })
   }
+  await registerLimitWorkers(s, boss, { concurrency, staleSeconds, workerId, pollingIntervalSeconds: opts.pollingIntervalSeconds ?? cfg.pollingIntervalSeconds, log }) // detection-limit chunks (server/limits)
   // runs whose worker died (no heartbeat): fail their jobs so pg-boss retries them (they resume)
   const reaper = setInterval(() => {
     reapStaleRuns(s, boss, staleSeconds).catch((err) => log(`stale-run check failed: ${String(err)}`))

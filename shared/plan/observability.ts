@@ -45,7 +45,13 @@ export interface SlotGrid {
 
 /** Limits with defaults filled in and checked; throws a RangeError naming the field. */
 export function resolveLimits(limits: ObservingLimits = {}): Required<ObservingLimits> & { effectiveMinAltDeg: number } {
-  const l = { ...OBSERVING_DEFAULTS, ...limits }
+  // a field given as undefined takes its default (a plain spread would keep the undefined)
+  const l: Required<ObservingLimits> = {
+    sunMaxAltDeg: limits.sunMaxAltDeg ?? OBSERVING_DEFAULTS.sunMaxAltDeg,
+    minAltDeg: limits.minAltDeg ?? OBSERVING_DEFAULTS.minAltDeg,
+    maxAirmass: limits.maxAirmass ?? OBSERVING_DEFAULTS.maxAirmass,
+    minMoonSeparationDeg: limits.minMoonSeparationDeg ?? OBSERVING_DEFAULTS.minMoonSeparationDeg,
+  }
   const check = (name: keyof ObservingLimits, lo: number, hi: number): void => {
     const v = l[name]
     if (!(Number.isFinite(v) && v >= lo && v <= hi)) throw new RangeError(`${name} must be in [${lo}, ${hi}], got ${v}`)

@@ -83,3 +83,12 @@ describe('the plan', () => {
     expect(icsEscape('a,b;c\\d\ne')).toBe('a\\,b\\;c\\\\d\\ne')
   })
 })
+
+describe('observing limits', () => {
+  it('fills defaults for fields given as undefined and refuses out-of-range ones, naming them', async () => {
+    const { resolveLimits } = await import('../../../shared/plan/index.ts')
+    expect(resolveLimits({ sunMaxAltDeg: undefined, minAltDeg: 40 })).toMatchObject({ sunMaxAltDeg: -18, minAltDeg: 40, maxAirmass: 2, minMoonSeparationDeg: 30 })
+    expect(resolveLimits({ minAltDeg: 10, maxAirmass: 1.5 }).effectiveMinAltDeg).toBeGreaterThan(41) // air mass 1.5 is the stricter
+    expect(() => resolveLimits({ minMoonSeparationDeg: 200 })).toThrow(/minMoonSeparationDeg/)
+  })
+})
