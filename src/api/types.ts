@@ -10,9 +10,9 @@ export type {
 export type { StarSummary, Star, CreateStarRequest as StarInput, UpdateStarRequest } from '@shared/api/stars.ts'
 export type { Measurement, DatasetUsage } from '@shared/api/measurements.ts'
 export type {
-  FilePreview, PreviewResponse, CommitResponse, CommitProblem, DatasetSummary as Dataset,
+  FilePreview, PreviewResponse, CommitResponse, CommitProblem, CommitOptions, OverlapReport, DatasetSummary as Dataset,
 } from '@shared/api/uploads.ts'
 export type {
   ColumnMapping, ColumnRole, DateSplit, Delimiter, DetectHints, Detection, ParsedRow, RowProblem,
-  TableMapping, TimeFormat, VelocityUnit,
+  TableMapping, TimeFormat, TimeScale, Question, VelocityUnit,
 } from '@shared/ingest/types.ts'

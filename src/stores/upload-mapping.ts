@@ -1,35 +1,7 @@
-import type { ColumnMapping, ColumnRole, DetectHints, TableMapping } from '@/api/types.ts'
+import type { ColumnMapping, ColumnRole, Question, TableMapping } from '@/api/types.ts'
 
 /** Roles a table may give to one column only. */
 export const SINGLE_ROLES: ColumnRole[] = ['time', 'rv', 'error', 'instrument']
-
-const ref1 = (columns: ColumnMapping[], role: ColumnRole) => {
-  const column = columns.find((c) => c.role === role)
-  return column ? column.index + 1 : undefined
-}
-
-/**
- * Turns the mapping the user corrected into hints for a new preview: the chosen columns by their
- * 1-based position, "no such column" as null, and every setting the user can change.
- */
-export function mappingToHints(mapping: TableMapping): DetectHints {
-  const hints: DetectHints = {
-    delimiter: mapping.delimiter,
-    hasHeader: mapping.hasHeader,
-    time: ref1(mapping.columns, 'time'),
-    rv: ref1(mapping.columns, 'rv'),
-    error: ref1(mapping.columns, 'error') ?? null,
-    instrument: ref1(mapping.columns, 'instrument') ?? null,
-    unit: mapping.unit,
-    timeFormat: mapping.timeFormat,
-  }
-  if (hints.time === undefined) delete hints.time
-  if (hints.rv === undefined) delete hints.rv
-  if (mapping.defaultError !== undefined) hints.defaultError = mapping.defaultError
-  if (mapping.instrument) hints.instrumentName = mapping.instrument
-  if (mapping.splitDates?.length) hints.splitDates = mapping.splitDates
-  return hints
-}
 
 /**
  * Gives `role` to one column; a single-use role taken from another column leaves that one ignored,
@@ -41,6 +13,8 @@ export function assignRole(mapping: TableMapping, index: number, role: ColumnRol
       const next: ColumnMapping = { ...c, role }
       if (role === 'indicator' && !next.indicator) next.indicator = c.name
       if (role !== 'indicator') delete next.indicator
+      if (role === 'flag' && !next.keep) next.keep = []
+      if (role !== 'flag') delete next.keep
       return next
     }
     if (SINGLE_ROLES.includes(role) && c.role === role) return { ...c, role: 'ignore' as const }
@@ -52,15 +26,30 @@ export function assignRole(mapping: TableMapping, index: number, role: ColumnRol
   return next
 }
 
-/** After a new preview, keeps the user's indicator/ignore choices on columns the hints cannot carry. */
-export function keepSideRoles(fresh: TableMapping, edited: TableMapping | undefined): TableMapping {
-  if (!edited) return fresh
-  const columns = fresh.columns.map((c) => {
-    const before = edited.columns.find((e) => e.index === c.index)
-    if (!before || SINGLE_ROLES.includes(c.role) || SINGLE_ROLES.includes(before.role)) return c
-    return { ...c, role: before.role, indicator: before.indicator, unit: before.unit }
-  })
-  return { ...fresh, columns }
+/** Sets one column's fields (unit, keep, indicator name …). */
+export function patchColumn(mapping: TableMapping, index: number, patch: Partial<ColumnMapping>): TableMapping {
+  return {
+    ...mapping,
+    columns: mapping.columns.map((c) => {
+      if (c.index !== index) return c
+      const next: ColumnMapping = { ...c, ...patch }
+      for (const k of Object.keys(patch) as Array<keyof ColumnMapping>) if (patch[k] === undefined) delete next[k]
+      return next
+    }),
+  }
+}
+
+/**
+ * Answers an open question: sets the mapping field it names (timeFormat, timeScale) to the chosen
+ * value and removes the question; a flag question is answered by editing the flag column's kept values.
+ */
+export function answer(mapping: TableMapping, question: Question, value: string): TableMapping {
+  const rest = (mapping.questions ?? []).filter((q) => q !== question && q.message !== question.message)
+  const next: TableMapping = { ...mapping, questions: rest }
+  if (question.field === 'timeFormat') next.timeFormat = value as TableMapping['timeFormat']
+  if (question.field === 'timeScale') next.timeScale = value as TableMapping['timeScale']
+  if (!rest.length) delete next.questions
+  return next
 }
 
 /** What is still missing before a file can be saved, in words for the screen. */
@@ -72,5 +61,6 @@ export function mappingGaps(mapping: TableMapping): string[] {
   if (!has('error') && !(mapping.defaultError !== undefined && mapping.defaultError > 0)) {
     gaps.push('Choose the error column, or give one error for all rows.')
   }
+  for (const q of mapping.questions ?? []) gaps.push(`Answer: ${q.message}`)
   return gaps
 }

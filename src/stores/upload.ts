@@ -1,8 +1,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import * as api from '@/api/uploads.ts'
-import type { CommitProblem, CommitResponse, FilePreview, PreviewResponse, TableMapping } from '@/api/types.ts'
-import { keepSideRoles, mappingToHints } from './upload-mapping.ts'
+import type { CommitOptions, CommitProblem, CommitResponse, FilePreview, PreviewResponse, TableMapping } from '@/api/types.ts'
 import { asyncState, track } from './async-state.ts'
 
 /**
@@ -14,11 +13,14 @@ export const useUploadStore = defineStore('upload', () => {
   const files = ref<File[]>([])
   const preview = asyncState<PreviewResponse>()
   const mappings = ref<Record<string, TableMapping>>({})
+  /** Choices for the save: rows already stored (skip / keep / cancel), skip problem rows, the observatory. */
+  const options = ref<CommitOptions>({ overlap: 'cancel', skipProblemRows: false })
   const commit = asyncState<CommitResponse>()
 
   const previews = computed<FilePreview[]>(() => preview.data?.files ?? [])
   const totalProblems = computed(() => previews.value.reduce((n, f) => n + f.problemCount, 0))
-  const totalRows = computed(() => previews.value.reduce((n, f) => n + f.detection.rowCount, 0))
+  const totalRows = computed(() => previews.value.reduce((n, f) => n + f.rowCount, 0))
+  const totalOverlap = computed(() => previews.value.reduce((n, f) => n + (f.overlap?.count ?? 0), 0))
   /** Row problems the server listed when a save was refused. */
   const commitProblems = computed<CommitProblem[]>(() => {
     const details = commit.apiError?.details as { problems?: CommitProblem[] } | undefined
@@ -31,6 +33,7 @@ export const useUploadStore = defineStore('upload', () => {
     preview.data = null
     preview.error = null
     mappings.value = {}
+    options.value = { overlap: 'cancel', skipProblemRows: false }
     commit.data = null
     commit.error = null
     commit.apiError = null
@@ -43,12 +46,11 @@ export const useUploadStore = defineStore('upload', () => {
     mappings.value = {}
   }
 
-  function adoptDetections(result: PreviewResponse | null, edited?: Record<string, TableMapping>) {
+  /** The mapping each file was read with (the detected one first, then the user's as sent). */
+  function adopt(result: PreviewResponse | null) {
     if (!result) return
     const next: Record<string, TableMapping> = {}
-    for (const file of result.files) {
-      next[file.fileName] = keepSideRoles(plainCopy(file.detection.mapping), edited?.[file.fileName])
-    }
+    for (const file of result.files) next[file.fileName] = plainCopy(file.mapping)
     mappings.value = next
   }
 
@@ -56,26 +58,25 @@ export const useUploadStore = defineStore('upload', () => {
   async function detect() {
     if (starId.value === null) throw new Error('upload store: starId is not set (call reset first)')
     const id = starId.value
-    adoptDetections(await track(preview, () => api.previewUpload(id, files.value)))
+    adopt(await track(preview, () => api.previewUpload(id, files.value)))
   }
 
-  /** Parses again with the user's corrected mappings. */
+  /** Reads the files again with the user's corrected mappings, exactly as they stand. */
   async function recheck() {
     if (starId.value === null) throw new Error('upload store: starId is not set (call reset first)')
     const id = starId.value
     const edited = plainCopy(mappings.value)
-    const hints = Object.fromEntries(Object.entries(edited).map(([name, m]) => [name, mappingToHints(m)]))
-    adoptDetections(await track(preview, () => api.previewUpload(id, files.value, hints)), edited)
+    adopt(await track(preview, () => api.previewUpload(id, files.value, undefined, edited)))
   }
 
   async function save() {
     if (starId.value === null) throw new Error('upload store: starId is not set (call reset first)')
     const id = starId.value
-    return track(commit, () => api.commitUpload(id, files.value, plainCopy(mappings.value)))
+    return track(commit, () => api.commitUpload(id, files.value, plainCopy(mappings.value), plainCopy(options.value)))
   }
 
   return {
-    starId, files, preview, mappings, commit, previews, totalProblems, totalRows, commitProblems,
+    starId, files, preview, mappings, options, commit, previews, totalProblems, totalRows, totalOverlap, commitProblems,
     reset, setFiles, detect, recheck, save,
   }
 })

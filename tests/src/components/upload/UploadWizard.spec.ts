@@ -24,10 +24,11 @@ function detected(
   }
   return {
     files: [{
-      fileName: 'night.txt', size: 120, rowCount: 2, problemCount: problems.length, problems, mappingError,
+      fileName: 'night.txt', size: 120, rowCount: 2, problemCount: problems.length, problems, mappingError, mapping,
+      warnings: [], warningCount: 0, flaggedCount: 0, duplicateOf: null, overlap: null, notices: [],
       instruments: [{ name: 'unnamed', count: 2 }],
       detection: {
-        mapping, headerNames: ['jd', 'vrad', 'sig'], headerFromComment: false, headerLine: 1, columnCount: 3,
+        mapping, format: 'delimited', headerNames: ['jd', 'vrad', 'sig'], headerFromComment: false, headerLine: 1, columnCount: 3,
         rowCount: 2, commentLines: 0, notes: ['Read "vrad" as velocity in km/s.'],
         preview: [{ line: 2, cells: ['2455000.1', '1.234', '0.002'] }, { line: 3, cells: ['2455001.2', '1.240', '0.003'] }],
       },
@@ -36,6 +37,7 @@ function detected(
         { line: 3, time: 2455001.2, rv: 1240, error: 3, instrument: 'unnamed', indicators: {} },
       ],
     }],
+    descriptions: [],
   }
 }
 
@@ -63,7 +65,7 @@ describe('UploadWizard, correcting the detected columns', () => {
     expect(w.find('[data-test="to-rows"]').attributes('disabled')).toBeDefined()
   })
 
-  it('sends the corrected column roles as hints when reading again, and adopts the new detection', async () => {
+  it('sends the corrected mapping as it stands when reading again (no hints round trip), and adopts the mapping read with', async () => {
     const w = await openColumnsStep(detected())
     const roleSelect = w.findComponent('[data-test="role-2"]') as VueWrapper
     await roleSelect.setValue('error')
@@ -81,8 +83,10 @@ describe('UploadWizard, correcting the detected columns', () => {
     await w.find('[data-test="recheck"]').trigger('click')
     await settle()
     expect(api.previewUpload).toHaveBeenCalledTimes(2)
-    const hints = vi.mocked(api.previewUpload).mock.calls[1]![2]!
-    expect(hints['night.txt']).toMatchObject({ time: 1, rv: 2, error: 3, instrument: null, unit: 'km/s', timeFormat: 'jd', hasHeader: true })
+    const [, , hints, sent] = vi.mocked(api.previewUpload).mock.calls[1]!
+    expect(hints).toBeUndefined()
+    expect(sent!['night.txt']!.columns.map((c) => c.role)).toEqual(['time', 'rv', 'error'])
+    expect(sent!['night.txt']).toMatchObject({ unit: 'km/s', timeFormat: 'jd', hasHeader: true, instrument: 'unnamed' })
     expect(store.mappings['night.txt']!.columns.map((c) => c.role)).toEqual(['time', 'rv', 'error'])
     expect(w.find('[data-test="to-rows"]').attributes('disabled')).toBeUndefined()
   })
@@ -116,5 +120,51 @@ describe('UploadWizard, correcting the detected columns', () => {
     expect(w.find('[data-test="commit-error"]').text()).toContain('line 3: error must be positive')
     expect(w.text()).toContain('night.txt line 3, sig: error must be positive')
     expect(w.emitted('saved')).toBeUndefined()
+  })
+})
+
+describe('UploadWizard, questions, units and save choices (issue 10)', () => {
+  const question = { field: 'timeFormat' as const, message: 'Times near 59346: are they MJD (JD − 2400000.5) or JD − 2400000?', choices: [{ value: 'jd-2400000', label: 'JD − 2400000' }, { value: 'mjd', label: 'MJD' }] }
+
+  it('an open question blocks the rows step until answered; the answer sets the time format', async () => {
+    const w = await openColumnsStep(detected({ timeFormat: 'jd-2400000', questions: [question],
+      columns: [{ index: 0, name: 'jd', role: 'time' }, { index: 1, name: 'vrad', role: 'rv' }, { index: 2, name: 'sig', role: 'error' }] }))
+    expect(w.find('[data-test="question"]').text()).toContain('MJD (JD − 2400000.5) or JD − 2400000?')
+    expect(w.find('[data-test="to-rows"]').attributes('disabled')).toBeDefined()
+    await w.find('[data-test="answer-mjd"] input').setValue(true)
+    await settle()
+    const m = useUploadStore().mappings['night.txt']!
+    expect(m.timeFormat).toBe('mjd')
+    expect(m.questions).toBeUndefined()
+    expect(w.find('[data-test="to-rows"]').attributes('disabled')).toBeUndefined()
+    expect(w.find('[data-test="time-label"]').text()).toBe('MJD')
+  })
+
+  it('each velocity column has its own unit; the error column can be m/s under a km/s velocity', async () => {
+    const w = await openColumnsStep(detected({ columns: [{ index: 0, name: 'jd', role: 'time' }, { index: 1, name: 'vrad', role: 'rv' }, { index: 2, name: 'sig', role: 'error' }] }))
+    await (w.findComponent('[data-test="unit-2"]') as VueWrapper).setValue('m/s')
+    await settle()
+    expect(useUploadStore().mappings['night.txt']!.columns[2]).toMatchObject({ role: 'error', unit: 'm/s' })
+    await (w.findComponent('[data-test="unit-2"]') as VueWrapper).setValue('furlongs')
+    await settle()
+    expect(useUploadStore().mappings['night.txt']!.columns[2]!.unit).toBe('m/s')
+  })
+
+  it('sends "skip problem rows" and the overlap choice with the save', async () => {
+    const first = detected({ columns: [{ index: 0, name: 'jd', role: 'time' }, { index: 1, name: 'vrad', role: 'rv' }, { index: 2, name: 'sig', role: 'error' }] },
+      [{ line: 3, column: 'sig', message: 'error must be positive' }])
+    first.files[0]!.overlap = { count: 1, examples: [{ line: 2, time: 2455000.1, instrument: 'unnamed', earlierFile: 'old.txt' }] }
+    const w = await openColumnsStep(first)
+    await w.find('[data-test="to-rows"]').trigger('click')
+    await settle()
+    await w.find('[data-test="to-save"]').trigger('click')
+    await settle()
+    await w.find('[data-test="skip-problems"] input').setValue(true)
+    await w.find('[data-test="overlap-choice"] input[value="skip"]').setValue(true)
+    await settle()
+    vi.mocked(api.commitUpload).mockResolvedValueOnce({ datasets: [], measurementsCreated: 1, skipped: [], notices: [] })
+    await w.find('[data-test="commit"]').trigger('click')
+    await settle()
+    expect(vi.mocked(api.commitUpload).mock.calls[0]![3]).toEqual({ overlap: 'skip', skipProblemRows: true })
   })
 })
