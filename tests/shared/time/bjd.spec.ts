@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs'
 import { describe, it, expect } from 'vitest'
 import { expectClose } from '../../helpers/expect-close.ts'
 import {
-  toBjdTdb, toBjdTdbDirect, utcToTt, tdbMinusTt, ttToTdb, taiMinusUtc, conversionWarnings, julianDay, SITES, findSite,
+  toBjdTdb, toBjdTdbDirect, directEphemeris, interpolatedEphemeris, utcToTt, tdbMinusTt, ttToTdb, taiMinusUtc, conversionWarnings, julianDay, SITES, findSite,
   type Site, type Target,
 } from '../../../shared/time/index.ts'
 
@@ -98,6 +98,19 @@ describe('toBjdTdb: fast path, misuse and doubts', () => {
     for (const c of doc.cases.slice(0, 6)) {
       expectClose(toBjdTdb(full(c.jdUtc), 'utc', c.star, c.site), toBjdTdbDirect(full(c.jdUtc), 'utc', c.star, c.site), { atol: 1e-4 / 86400, rtol: 0 })
     }
+  })
+
+  it('the interpolated observer position stays within 10 km of the direct one (1995–2030, every 3.1 d)', () => {
+    const site = findSite('mauna-kea')!
+    const direct = directEphemeris(site), fast = interpolatedEphemeris(site)
+    let worstKm = 0
+    for (let i = 0; i < 4000; i++) {
+      const t = 2449718.5 + i * 3.1234567
+      const p = direct(t), q = fast(t)
+      worstKm = Math.max(worstKm, Math.hypot(p.observer[0] - q.observer[0], p.observer[1] - q.observer[1], p.observer[2] - q.observer[2]) * 149597870.7)
+      worstKm = Math.max(worstKm, Math.hypot(p.sun[0] - q.sun[0], p.sun[1] - q.sun[1], p.sun[2] - q.sun[2]) * 149597870.7)
+    }
+    expect(worstKm).toBeLessThan(10)
   })
 
   it('returns barycentric TDB input unchanged, as a copy', () => {
