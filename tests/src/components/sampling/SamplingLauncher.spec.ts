@@ -1,13 +1,14 @@
 // @vitest-environment happy-dom
 import { afterEach, describe, expect, it } from 'vitest'
 import type { VueWrapper } from '@vue/test-utils'
+import type { SamplingEstimate } from '@shared/api/sampling.ts'
 import SamplingLauncher from '@/components/sampling/SamplingLauncher.vue'
 import { mountWithApp, settle } from '../../mount.ts'
 
 let wrapper: VueWrapper | undefined
 afterEach(() => { wrapper?.unmount(); wrapper = undefined; document.body.innerHTML = '' })
 
-function mountLauncher(props: Partial<{ nDim: number; canStart: boolean; estimate: unknown }> = {}) {
+function mountLauncher(props: Partial<{ nDim: number; canStart: boolean; estimate: SamplingEstimate }> = {}) {
   wrapper = mountWithApp(SamplingLauncher, { props: { nDim: 12, modelLabel: '2 planets, version 3', canStart: true, ...props } })
   return wrapper
 }
