@@ -214,7 +214,7 @@ export async function findOpenInvitation(s: Services, token: string): Promise<In
 export async function publicInvitation(s: Services, token: string): Promise<PublicInvitation> {
   const inv = await findOpenInvitation(s, token)
   if (!inv) throw new NotFoundError('Invitation')
-  return { teamName: inv.team!.name, role: inv.role, email: inv.email, expiresAt: inv.expiresAt.toISOString() }
+  return { teamId: inv.teamId, teamName: inv.team!.name, role: inv.role, email: inv.email, expiresAt: inv.expiresAt.toISOString() }
 }
 
 export async function acceptInvitationInTx(s: Services, inv: Invitation, user: User, transaction: Transaction): Promise<AcceptInvitationResponse> {

@@ -29,7 +29,7 @@ export const invitationSchema = z.object({
 export type Invitation = z.infer<typeof invitationSchema>
 export const invitationListResponseSchema = z.array(invitationSchema)
 
-export const publicInvitationSchema = z.object({ teamName: z.string(), role: roleSchema, email: z.string(), expiresAt: z.string() })
+export const publicInvitationSchema = z.object({ teamId: z.number().int(), teamName: z.string(), role: roleSchema, email: z.string(), expiresAt: z.string() })
 export type PublicInvitation = z.infer<typeof publicInvitationSchema>
 
 export const acceptInvitationResponseSchema = z.object({ teamId: z.number().int(), role: roleSchema })

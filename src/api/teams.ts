@@ -11,6 +11,8 @@ export const removeMember = (teamId: number, userId: number) =>
 export const listInvitations = (teamId: number) => request<Invitation[]>(`/teams/${teamId}/invitations`)
 export const createInvitation = (teamId: number, body: { email: string; role: Role }) =>
   request<Invitation>(`/teams/${teamId}/invitations`, { method: 'POST', body })
+export const approveInvitation = (teamId: number, id: number) =>
+  request<Invitation>(`/teams/${teamId}/invitations/${id}/approve`, { method: 'POST' })
 export const deleteInvitation = (teamId: number, id: number) =>
   request<void>(`/teams/${teamId}/invitations/${id}`, { method: 'DELETE' })
 export const fetchInvitation = (token: string) => request<InvitationInfo>(`/invitations/${encodeURIComponent(token)}`)

@@ -28,10 +28,14 @@ export const useTeamsStore = defineStore('teams', () => {
     await load(teamId, true)
     return result
   }
+  async function approveInvitation(teamId: number, id: number) {
+    await track(action, () => api.approveInvitation(teamId, id))
+    await load(teamId, true)
+  }
   async function cancelInvitation(teamId: number, id: number) {
     await track(action, () => api.deleteInvitation(teamId, id))
     await load(teamId, true)
   }
 
-  return { team, invitations, action, load, changeRole, removeMember, invite, cancelInvitation }
+  return { team, invitations, action, load, changeRole, removeMember, invite, approveInvitation, cancelInvitation }
 })
