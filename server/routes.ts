@@ -13,6 +13,7 @@ import * as analyses from './analyses/routes.ts'
 import { fitModel, periodogramRun } from './analyses/guards.ts'
 import * as reports from './reports/routes.ts'
 import { report } from './reports/guards.ts'
+import * as openapi from './openapi/routes.ts'
 import * as limits from './limits/routes.ts'
 import * as plan from './plan/routes.ts'
 
@@ -26,6 +27,8 @@ export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: stri
 export const routes: Route[] = [
   { method: 'get', path: '/api/health', guards: [], handler: dev.health },
   { method: 'get', path: '/api/health/ready', guards: [], handler: dev.ready },
+  { method: 'get', path: '/api/openapi.json', guards: [], handler: (req, res) => openapi.openApiJson(req, res) },
+  { method: 'get', path: '/api/docs', guards: [], handler: (req, res) => openapi.docsPage(req, res) },
 
   { method: 'post', path: '/api/auth/register', guards: [], handler: auth.register },
   { method: 'post', path: '/api/auth/login', guards: [loginAddressLimit, loginLimit], handler: auth.login },

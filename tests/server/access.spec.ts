@@ -71,6 +71,8 @@ async function spareDataset(): Promise<number> {
 const cases: Case[] = [
   { method: 'get', route: '/api/health', path: '/api/health', expect: anyone(200) },
   { method: 'get', route: '/api/health/ready', path: '/api/health/ready', expect: anyone(200) },
+  { method: 'get', route: '/api/openapi.json', path: '/api/openapi.json', expect: anyone(200) },
+  { method: 'get', route: '/api/docs', path: '/api/docs', expect: anyone(200) },
   { method: 'post', route: '/api/auth/register', path: '/api/auth/register', expect: anyone(201),
     body: () => ({ email: `new-${unique()}@example.test`, password: 'long enough pw', name: 'New' }) },
   { method: 'post', route: '/api/auth/login', path: '/api/auth/login', expect: anyone(200),
