@@ -24,7 +24,7 @@ import { invertSymmetric } from './linalg.ts'
 import type { PlanetStart, TrendKind } from './orbit-fit-types.ts'
 import { checkKernelShape, kernelValue, rotationTerms, type KernelShape } from './gp/kernels.ts'
 import { denseFactor, denseSolve } from './gp/dense.ts'
-import { semiseparableFactor, semiseparableSolve } from './gp/semiseparable.ts'
+import { semiseparableGram } from './gp/semiseparable.ts'
 import { gpActivityAtData, gpFactor, type GpNoiseModel } from './gp/noise-model.ts'
 import { nelderMead } from './gp/nelder-mead.ts'
 
@@ -218,30 +218,37 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
     }
     const kern = kernelOf(u)
     checkKernelShape(kern)
-    let solve: (v: Float64Array) => Float64Array, logDet: number
+    // Inner products with C⁻¹: [r0, A_0 … A_m] — one fused O(N) pass on the fast path.
+    const M = new Float64Array(nLin * nLin), bv = new Float64Array(nLin)
+    let rr: number, logDet: number
     if (kern.kind === 'rotation') {
-      const f = semiseparableFactor(t, scale, noise, rotationTerms(kern))
-      solve = (v) => semiseparableSolve(f, v); logDet = f.logDet
+      const g = semiseparableGram(t, scale, noise, rotationTerms(kern), [r0, ...A])
+      const R = nLin + 1
+      logDet = g.logDet; rr = g.gram[0]
+      for (let p = 0; p < nLin; p++) {
+        bv[p] = g.gram[p + 1]
+        for (let q = 0; q < nLin; q++) M[p * nLin + q] = g.gram[(p + 1) * R + q + 1]
+      }
     } else {
       const f = denseFactor(t, scale, noise, (tau) => kernelValue(tau, kern))
-      solve = (v) => denseSolve(f, v); logDet = f.logDet
-    }
-    const cr = solve(r0)
-    const CA = A.map(solve)
-    const M = new Float64Array(nLin * nLin), bv = new Float64Array(nLin)
-    for (let p = 0; p < nLin; p++) {
-      for (let i = 0; i < n; i++) bv[p] += A[p][i] * cr[i]
-      for (let q = 0; q <= p; q++) {
-        let s = 0
-        for (let i = 0; i < n; i++) s += A[p][i] * CA[q][i]
-        M[p * nLin + q] = s; M[q * nLin + p] = s
+      logDet = f.logDet
+      const cr = denseSolve(f, r0)
+      rr = 0
+      for (let i = 0; i < n; i++) rr += r0[i] * cr[i]
+      const CA = A.map((col) => denseSolve(f, col))
+      for (let p = 0; p < nLin; p++) {
+        for (let i = 0; i < n; i++) bv[p] += A[p][i] * cr[i]
+        for (let q = 0; q <= p; q++) {
+          let sum = 0
+          for (let i = 0; i < n; i++) sum += A[p][i] * CA[q][i]
+          M[p * nLin + q] = sum; M[q * nLin + p] = sum
+        }
       }
     }
     const { inv } = invertSymmetric(M, nLin)
     const theta = new Float64Array(nLin)
     for (let p = 0; p < nLin; p++) for (let q = 0; q < nLin; q++) theta[p] += inv[p * nLin + q] * bv[q]
-    let quad = 0
-    for (let i = 0; i < n; i++) quad += r0[i] * cr[i]
+    let quad = rr
     for (let p = 0; p < nLin; p++) quad -= theta[p] * bv[p]
     const lnL = -0.5 * (quad + logDet + n * Math.log(2 * Math.PI))
     let resid: Float64Array | null = null

@@ -7,7 +7,7 @@ export {
   type DenseFactor, denseCovariance, denseFactor, denseSolve, denseLogLikelihood, densePredict,
 } from './dense.ts'
 export {
-  type SemiseparableFactor, semiseparableLogLikelihood, semiseparableFactor, semiseparableSolve,
+  type SemiseparableFactor, semiseparableLogLikelihood, semiseparableGram, semiseparableFactor, semiseparableSolve,
   semiseparableFactorLogLikelihood, semiseparablePredict,
 } from './semiseparable.ts'
 export {

@@ -3,7 +3,7 @@ import { expectClose } from '../../../helpers/expect-close.ts'
 import { createRandom } from '../../../../shared/math/random.ts'
 import {
   rotation, rotationTerms, termsValue, denseFactor, denseLogLikelihood, denseSolve, densePredict,
-  semiseparableFactor, semiseparableLogLikelihood, semiseparableSolve, semiseparablePredict, semiseparableFactorLogLikelihood,
+  semiseparableFactor, semiseparableLogLikelihood, semiseparableGram, semiseparableSolve, semiseparablePredict, semiseparableFactorLogLikelihood,
   gpLogLikelihood, gpFactor, gpActivityAtData, gpSolve, type RotationShape, type GpNoiseModel,
 } from '../../../../shared/rv/index.ts'
 
@@ -59,6 +59,22 @@ describe.each(CASES)('semiseparable solver against its dense covariance (%s)', (
     const want = denseSolve(dense, c.y)
     const big = Math.max(...Array.from(want, Math.abs))
     expectClose(semiseparableSolve(fast, c.y), want, { rtol: 1e-9, atol: 1e-10 * big }, 'C⁻¹y')
+  })
+
+  it('one-pass Gram matrix vᵀC⁻¹w and ln det equal the dense ones', () => {
+    const ones = new Float64Array(c.t.length).fill(1)
+    const ramp = Float64Array.from(c.t, (v) => v - c.t[0])
+    const rhs = [c.y, ones, ramp]
+    const g = semiseparableGram(c.t, c.scale, c.noise, terms, rhs)
+    expectClose(g.logDet, dense.logDet, { rtol: 1e-10 }, 'ln det')
+    for (let p = 0; p < 3; p++) {
+      const x = denseSolve(dense, rhs[p])
+      for (let q = 0; q < 3; q++) {
+        let want = 0
+        for (let i = 0; i < x.length; i++) want += rhs[q][i] * x[i]
+        expectClose(g.gram[p * 3 + q], want, { rtol: 1e-9, atol: 1e-12 }, `G[${p}][${q}]`)
+      }
+    }
   })
 
   it('predictive mean and variance (test times inside, between, on and outside the data)', () => {
