@@ -2,6 +2,8 @@
 # Runs Starsway on the demo data: installs what is missing, starts a private PostgreSQL on
 # 127.0.0.1, migrates, seeds the demo (only into an empty database), builds the client, starts
 # the local mail server and the API. Ctrl-C stops everything it started.
+# The API and the mail server run under scripts/supervise.sh: when one dies it is restarted (with a
+# message); after 5 deaths within 60 s the whole stack stops with a message and exit status 1.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -20,7 +22,8 @@ cleanup() {
   bash scripts/pg.sh stop pg
   echo "Starsway stopped."
 }
-trap cleanup INT TERM EXIT
+trap 'cleanup; exit 0' INT TERM
+trap cleanup EXIT
 
 export DATABASE_URL=$(bash scripts/pg.sh url pg "$PG_PORT" "$DB")
 ADMIN_URL=$(bash scripts/pg.sh url pg "$PG_PORT" postgres) DB="$DB" node -e "
@@ -41,8 +44,8 @@ echo "== seeding the demo (skipped when the database already has users)"; node -
 echo "== building the client"; npx vite build --logLevel warn
 
 # node --import tsx (not npx): one process each, so a signal reaches the server itself
-node --import tsx scripts/dev-mail.ts --port "$MAIL_PORT" --dir "$MAIL_DIR" & pids+=($!)
-node --import tsx server/index.ts & pids+=($!)
+bash scripts/supervise.sh "mail server" 5 60 -- node --import tsx scripts/dev-mail.ts --port "$MAIL_PORT" --dir "$MAIL_DIR" & pids+=($!)
+bash scripts/supervise.sh API 5 60 -- node --import tsx server/index.ts & pids+=($!)
 
 node -e "
 const url = 'http://127.0.0.1:$PORT/api/health'
@@ -62,4 +65,10 @@ cat <<TXT
   Press Ctrl-C to stop.
 
 TXT
-wait -n "${pids[@]}" || true
+# a supervisor returns only when its process keeps dying (or on Ctrl-C): then everything stops
+status=0
+wait -n "${pids[@]}" || status=$?
+if [ "$status" != 0 ]; then
+  echo "Starsway: stopping everything because a part of it cannot be kept running (see above)." >&2
+  exit "$status"
+fi

@@ -2,6 +2,7 @@ import { pino } from 'pino'
 import type { Server } from 'node:http'
 import { loadConfig } from './config.ts'
 import { createApp } from './app.ts'
+import { errorForLog } from './errors.ts'
 import { createSequelize, initModels } from './db/index.ts'
 import { createMailer } from './mail/mailer.ts'
 import { startJobWorkers, type JobWorkers } from './jobs/index.ts'
@@ -9,7 +10,17 @@ import { startJobWorkers, type JobWorkers } from './jobs/index.ts'
 const config = loadConfig()
 const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' })
 const sequelize = createSequelize(config.databaseUrl)
-await sequelize.authenticate()
+try {
+  await sequelize.authenticate()
+} catch (err) {
+  const where = (() => { try { const u = new URL(config.databaseUrl); return `${u.hostname}:${u.port || 5432}${u.pathname}` } catch { return 'DATABASE_URL' } })()
+  logger.fatal(`Cannot reach the database at ${where}: ${(err as Error).message}. Start PostgreSQL (npm start does) or fix DATABASE_URL.`)
+  process.exit(1)
+}
+// a crash is logged and ends the process with status 1: scripts/start.sh (or systemd, a container
+// runtime) starts it again; never keep serving in an unknown state
+process.on('uncaughtException', (err) => { logger.fatal({ err: errorForLog(err) }, 'uncaught exception: exiting'); process.exit(1) })
+process.on('unhandledRejection', (err) => { logger.fatal({ err: errorForLog(err) }, 'unhandled promise rejection: exiting'); process.exit(1) })
 const models = initModels(sequelize)
 const mailer = createMailer(config.smtp)
 const app = createApp({ config, sequelize, models, mailer, logger })
