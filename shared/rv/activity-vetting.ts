@@ -14,6 +14,7 @@
  * secondary peak gives a caution and no label.
  */
 import type { RvData } from './orbit-data.ts'
+import { radialVelocity, type Keplerian } from './model.ts'
 import { baseline } from './orbit-data.ts'
 import { correlate, type Correlation } from './correlation.ts'
 import { centrePerInstrument, indicatorDiagnostics, type IndicatorColumn, type IndicatorDiagnostics, type IndicatorOptions, type IndicatorPeak } from './activity-indicators.ts'
@@ -155,4 +156,18 @@ export function activityVetting(data: RvData, candidates: readonly VettingCandid
     return { period: cand.period, activity: matches.length > 0, matches, cautions: notes }
   })
   return { candidates: out, indicators: diags, cautions, settings: { peakFap, correlationP, minAbsR, baseline: span } }
+}
+
+/**
+ * Vets fitted orbits (a search's or a model's planets): each orbit's velocity curve is the candidate's
+ * signal, so both the period match and the correlation test apply. `planets` and `activity` list the
+ * indices of the orbits kept as planets and of those labelled activity candidates.
+ */
+export function vetOrbits(data: RvData, orbits: readonly Keplerian[], indicators: readonly IndicatorColumn[], opts: VettingOptions = {}):
+  ActivityVetting & { planets: number[]; activity: number[] } {
+  const candidates = orbits.map((o) => ({ period: o.period, signal: radialVelocity(data.t, [o]) }))
+  const v = activityVetting(data, candidates, indicators, opts)
+  const planets: number[] = [], activity: number[] = []
+  v.candidates.forEach((c, k) => (c.activity ? activity : planets).push(k))
+  return { ...v, planets, activity }
 }

@@ -50,7 +50,7 @@ export {
 } from './activity-indicators.ts'
 export {
   type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
-  VETTING_DEFAULTS, periodRelation, activityVetting,
+  VETTING_DEFAULTS, periodRelation, activityVetting, vetOrbits,
 } from './activity-vetting.ts'
 export {
   type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, fitWithGp, trainGpOnIndicator,
