@@ -58,3 +58,24 @@ describe('planets + GP on a spotted star', () => {
     expect(() => fitWithGp(star.data, { planets: [start], gp: { kernel: 'rotation', period: { value: 23 }, decayTime: { value: 5 } } })).toThrow(/gp.decayTime.value must exceed half/)
   })
 })
+
+describe('planets + GP: the dense quasi-periodic path and per-instrument amplitudes', () => {
+  const star = spottedStar(1, 70, 300, true)
+  const start = { period: 12.3, K: 6, e: 0.05, omegaDeg: 60, tc: 2459003 }
+
+  it('fits with the quasi-periodic kernel (dense Cholesky) and states Γ\'s prior', () => {
+    const g = fitWithGp(star.data, { planets: [start], gp: { kernel: 'quasi-periodic', period: { value: 23.5, sigma: 2 }, decayTime: { value: 60 } } })
+    expect(g.success, g.message).toBe(true)
+    expect(g.noise.kernel.kind).toBe('quasi-periodic')
+    expect(g.priors.join(' ')).toMatch(/Γ flat in ln/)
+    expect(Math.abs(g.planets[0].K - STAR.planet.K)).toBeLessThan(3 * g.planets[0].uncertainty.K)
+  })
+
+  it('gives each instrument its own amplitude when asked', () => {
+    const g = fitWithGp(star.data, { planets: [start], gp: { kernel: 'rotation', period: { value: 23.5 }, amplitude: { perInstrument: true } } })
+    expect(g.success, g.message).toBe(true)
+    expect(g.noise.amplitude).toHaveLength(2)
+    expect(g.instruments.map((i) => i.name)).toEqual(['North', 'South'])
+    expect(g.noiseUncertainty.amplitude).toHaveLength(2)
+  })
+})
