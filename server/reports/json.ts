@@ -13,6 +13,7 @@ export function reportJson(s: ReportSnapshot, reportId: number, version: number)
     ...s.sampling,
     parameters: s.sampling.parameters.map((p) => ({ ...p, unit: astropyUnit(p.unit) })),
     corner: { ...s.sampling.corner, units: s.sampling.corner.units.map(astropyUnit) },
+    ...(s.sampling.samples ? { samples: { ...s.sampling.samples, units: s.sampling.samples.units.map(astropyUnit) } } : {}),
   }
   return {
     reportId, version, ...s, sampling,

@@ -72,7 +72,29 @@ async function periodogramOfFit(PeriodogramRun: ReturnType<typeof analysisModels
   return runs.find((r) => [...(r.data?.instruments ?? [])].sort().join('\u0000') === want) ?? null
 }
 
-interface SamplingRow { id: number; star_id: number; model_version_id: number | null; state: string; settings: SnapshotSampling['settings']; result: null | { parameters: SnapshotSampling['parameters']; diagnostics: { converged: boolean; acceptance: number; warnings: string[] }; sample: { names: string[]; units: string[]; columns: Array<Array<number | null>> } }; finished_at: Date | null }
+interface SamplingRow { id: number; star_id: number; model_version_id: number | null; state: string; settings: Omit<SnapshotSampling['settings'], 'burn'> & { burn: number | null; untilConverged?: boolean }; result: null | { parameters: Array<SnapshotSampling['parameters'][number] & { fixed?: boolean }>; settings?: { steps: number; stepsDone: number; burn: number; thin: number; keptThin?: number; untilConverged?: boolean }; diagnostics: { converged: boolean; acceptance: number; warnings: string[] }; sample: { names: string[]; units: string[]; step: number[]; walker: number[]; columns: Array<Array<number | null>> } }; finished_at: Date | null }
+
+/** Every sampled or derived parameter's thinned draws (the run's plot sample), without the columns the model held fixed. */
+function posteriorSamples(result: NonNullable<SamplingRow['result']>): NonNullable<SnapshotSampling['samples']> {
+  const sample = result.sample
+  const fixed = result.parameters.filter((p) => p.fixed).map((p) => p.name)
+  const keep = sample.names.map((n, j) => ({ n, j })).filter(({ n }) => !fixed.includes(n))
+  return {
+    names: keep.map((k) => k.n), units: keep.map((k) => sample.units[k.j] ?? ''), step: sample.step ?? [], walker: sample.walker ?? [],
+    columns: keep.map((k) => (sample.columns[k.j] ?? []).map((x) => x ?? Number.NaN)), fixed,
+  }
+}
+
+/** The run's settings as it went: steps done, the burn-in and thinning used (a run until converged chose them itself). */
+function settingsAsRun(run: SamplingRow): SnapshotSampling['settings'] {
+  const r = run.result?.settings
+  const base = { walkers: run.settings.walkers, seed: run.settings.seed }
+  if (!r) return { ...base, steps: run.settings.steps, burn: run.settings.burn ?? Math.floor(run.settings.steps / 4), thin: run.settings.thin }
+  return {
+    ...base, steps: r.stepsDone, burn: r.burn, thin: r.keptThin ?? r.thin,
+    ...(r.untilConverged ? { untilConverged: true, budget: r.steps } : {}),
+  }
+}
 
 /** A succeeded sampling run of this model version (400 naming samplingRunId otherwise). */
 async function samplingSnapshot(s: Services, star: Star, v: FitModelVersion, runId: number): Promise<SnapshotSampling> {
@@ -90,9 +112,10 @@ async function samplingSnapshot(s: Services, star: Star, v: FitModelVersion, run
   const step = Math.max(1, Math.ceil(nRows / 1500))
   const pick = (col: Array<number | null>) => col.filter((_, i) => i % step === 0).map((x) => x ?? Number.NaN)
   return {
-    runId: run.id, settings: run.settings, parameters: run.result.parameters,
+    runId: run.id, settings: settingsAsRun(run), parameters: run.result.parameters,
     diagnostics: { converged: run.result.diagnostics.converged, acceptance: run.result.diagnostics.acceptance, warnings: run.result.diagnostics.warnings },
     corner: { names: wanted.map((w) => w.n), units: wanted.map((w) => sample.units[w.j] ?? ''), columns: wanted.map((w) => pick(sample.columns[w.j] ?? [])) },
+    samples: posteriorSamples(run.result),
     finishedAt: run.finished_at ? new Date(run.finished_at).toISOString() : null,
   }
 }

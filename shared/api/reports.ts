@@ -55,12 +55,23 @@ export interface SnapshotPeriodogram {
 }
 /** A posterior summary (median and 16th/84th percentiles), as the sampling results give it. */
 export interface PosteriorSummary { name: string; unit: string; median: number; lo: number; hi: number; mean: number; sd: number }
-export interface SamplingSettingsSnapshot { walkers: number; steps: number; burn: number; thin: number; seed: number }
+/**
+ * The run as it went: `steps` done, the burn-in and thinning it used; `untilConverged` and the step
+ * `budget` when it ran until converged (absent on older versions).
+ */
+export interface SamplingSettingsSnapshot { walkers: number; steps: number; burn: number; thin: number; seed: number; untilConverged?: boolean; budget?: number }
 export interface SnapshotSampling {
   runId: number; settings: SamplingSettingsSnapshot; parameters: PosteriorSummary[]
   diagnostics: { converged: boolean; acceptance: number; warnings: string[] }
   /** Thinned draws (≤ 1500) of the planets' P, K, e for the corner plot: names[j] ↔ columns[j]. */
   corner: { names: string[]; units: string[]; columns: number[][] }
+  /**
+   * The posterior itself: thinned draws (≤ 2000 rows: every walker at evenly spaced steps after
+   * burn-in) of every parameter the run sampled or derived, and ln posterior; row i is walker[i]
+   * at step[i]; names[j] ↔ columns[j]. Parameters the model held fixed are listed in `fixed`, not
+   * in the columns. Absent on versions frozen before it was kept.
+   */
+  samples?: { names: string[]; units: string[]; step: number[]; walker: number[]; columns: number[][]; fixed: string[] }
   finishedAt: string | null
 }
 export interface ReportSnapshot {

@@ -127,8 +127,15 @@ export const useSamplingStore = defineStore('sampling', () => {
     return e
   }
 
+  /** Only the star's runs (e.g. to choose one for a report), without opening one. */
+  async function loadRuns(id: number) {
+    if (starId !== id) { stopFollowing(); run.data = null; run.error = null }
+    starId = id
+    return track(runs, () => api.listSampling(id))
+  }
+
   /** Address of a run's chain as CSV. */
   const chainCsvUrl = (runId: number) => api.samplingChainCsvUrl(runId)
 
-  return { runs, run, starting, cancelling, estimate, following, load, open, start, cancel, stopFollowing, loadEstimate, chainCsvUrl }
+  return { runs, run, starting, cancelling, estimate, following, load, loadRuns, open, start, cancel, stopFollowing, loadEstimate, chainCsvUrl }
 })

@@ -66,6 +66,18 @@ describe('sampling jobs', { timeout: 60_000 }, () => {
     expect(mail.subject).toMatch(/finished/)
     const audit = await w.owner.get(`/api/teams/${w.teamId}/audit`).expect(200)
     expect(audit.body.some((a: { action: string; entityId: number }) => a.action === 'sampling.start' && a.entityId === run.id)).toBe(true)
+    // a report frozen with this run carries the posterior: every parameter's thinned draws, in its JSON too
+    const frozen = await w.analyst.post(`/api/models/${w.modelId}/report`, { samplingRunId: run.id }).expect(201)
+    const json = (await w.reviewer.get(`/api/reports/${frozen.body.id}/versions/1/json`).expect(200)).body
+    const samples = json.sampling.samples
+    const summaries = run.result!.parameters.filter((p) => !p.fixed).map((p) => p.name)
+    for (const name of summaries) expect(samples.names, name).toContain(name)
+    expect(samples.names).toContain('ln posterior')
+    expect(samples.columns.length).toBe(samples.names.length)
+    expect(samples.columns[0].length).toBe(samples.step.length)
+    expect(samples.columns[0].length).toBeGreaterThan(500)
+    expect(samples.units[samples.names.indexOf('K b')]).toBe('m / s') // astropy's spelling in the JSON
+    expect(json.sampling.settings).toMatchObject({ walkers: 16, steps: 600, burn: 150, seed: 11 })
     console.log(`[jobs] 16 × 600 run done in ${Date.now() - t0} ms (estimate ${res.body.estimateSeconds} s)`)
   })
 
