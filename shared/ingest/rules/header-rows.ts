@@ -1,13 +1,14 @@
 import { IngestError } from '../errors.ts'
 import { readName } from '../names.ts'
 import { isMissing } from '../text.ts'
+import { isVelocityUnit } from '../units.ts'
 import { mode, type DetectContext, type Rule } from './context.ts'
 
 /** In a whitespace-split header, fold unit tokens ("[m/s]", "(km/s)", "m/s") into the name before them. */
 export function mergeUnitTokens(tokens: string[]): string[] {
   const out: string[] = []
   for (const t of tokens) {
-    const isUnit = /^[[(].*[\])]$/.test(t) || /^[[(]/.test(t) || /^(?:k?m\/s|km\s?s-1|m\s?s-1|d|days?)$/i.test(t)
+    const isUnit = /^[[(].*[\])]$/.test(t) || /^[[(]/.test(t) || /^(?:d|days?)$/i.test(t) || (/\//.test(t) && isVelocityUnit(t))
     if (isUnit && out.length > 0) out[out.length - 1] += ` ${t}`
     else if (out.length > 0 && /^[[(][^\])]*$/.test(out[out.length - 1]!.split(' ').pop()!)) out[out.length - 1] += ` ${t}`
     else out.push(t)
