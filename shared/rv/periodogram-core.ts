@@ -10,7 +10,7 @@
 import FFT from 'fft.js'
 
 export interface PeriodogramOptions {
-  /** Shortest period on the grid, days (default {@link defaultMinPeriod}: 0.5, or 0.2 for dense intra-night sampling). */
+  /** Shortest period on the grid, days (default {@link defaultMinPeriod}: 0.5, or 0.2 for visits spread within many nights). */
   minPeriod?: number
   /** Longest period on the grid, days (default {@link GRID_DEFAULTS}.maxPeriodBaselines × the baseline tmax − tmin). */
   maxPeriod?: number
@@ -71,22 +71,32 @@ export function baselineOf(t: Float64Array): { tmin: number; tmax: number; basel
  * Defaults of the period grid, the one home for the CLI, the server and the browser:
  * - `minPeriod` 0.5 d: ultra-short-period planets (P < 1 d) exist and their daily aliases near
  *   1–3 d must be on the grid to be told apart (Dawson & Fabrycky 2010, ApJ 722, 937, §5); with
- *   dense intra-night sampling (≥ 1/4 of consecutive spacings below 0.1 d) the data can tell periods
- *   down to `minPeriodDense` 0.2 d (a few hours between visits sample a 0.2-d cycle at least twice).
+ *   visits spread within many nights (see {@link defaultMinPeriod}) the data can tell periods down
+ *   to `minPeriodDense` 0.2 d.
  * - `maxPeriodBaselines` 5: companions with periods beyond the baseline are found from a partial
  *   orbit (common practice; their period is then poorly constrained and the search says so).
  * - `oversample` 10: ~10 grid points across every peak of width 1/baseline (VanderPlas 2018 §7.1).
  */
 export const GRID_DEFAULTS = Object.freeze({ minPeriod: 0.5, minPeriodDense: 0.2, maxPeriodBaselines: 5, oversample: 10 })
 
-/** Default shortest period for these times: {@link GRID_DEFAULTS} `minPeriod`, or `minPeriodDense` for dense intra-night sampling. */
+/**
+ * Default shortest period for these times: {@link GRID_DEFAULTS} `minPeriod` (0.5 d), or
+ * `minPeriodDense` (0.2 d) when at least a quarter of the nights (visits chained by gaps < 0.5 d)
+ * have visits spread over ≥ 0.1 d — half a 0.2-d cycle seen within the night. Repeated exposures
+ * minutes apart do not count: they sample one phase.
+ */
 export function defaultMinPeriod(t: ArrayLike<number>): number {
   const n = t.length
   if (n < 8) return GRID_DEFAULTS.minPeriod
   const s = Float64Array.from(t).sort()
-  let close = 0
-  for (let i = 1; i < n; i++) if (s[i] - s[i - 1] < 0.1) close++
-  return close >= (n - 1) / 4 ? GRID_DEFAULTS.minPeriodDense : GRID_DEFAULTS.minPeriod
+  let nights = 0, spread = 0, first = s[0], last = s[0]
+  for (let i = 1; i <= n; i++) {
+    if (i < n && s[i] - last < 0.5) { last = s[i]; continue }
+    nights++
+    if (last - first >= 0.1) spread++
+    if (i < n) { first = s[i]; last = s[i] }
+  }
+  return spread >= nights / 4 ? GRID_DEFAULTS.minPeriodDense : GRID_DEFAULTS.minPeriod
 }
 
 /** Default longest period: {@link GRID_DEFAULTS} `maxPeriodBaselines` × the baseline (days). */

@@ -16,6 +16,8 @@ export const SEARCH_DEFAULTS = Object.freeze({
    * on the scale of Kass & Raftery 1995). The same bar applies to each extra trend term.
    */
   bicThreshold: 10,
+  /** A new planet's likelihood gain must have a false-alarm probability over the periods searched below this (./significance.ts). */
+  falseAlarm: 1e-3,
   /** Largest number of planets tried in 'auto' mode. */
   maxPlanets: 5,
   /** Keplerian-periodogram peaks refined by the non-linear fit at each step (multi-start). */
@@ -24,6 +26,10 @@ export const SEARCH_DEFAULTS = Object.freeze({
   sinusoidPeaks: 3,
   /** Starts per candidate period from the exact (e, phase) scan. */
   startsPerPeriod: 2,
+  /** Starts refined by the non-linear fit at each step (best by the scan's χ², plus the strongest Keplerian cell). */
+  refineStarts: 6,
+  /** Alias partners fitted in full at each step (the most promising by their exact scan). */
+  aliasFits: 3,
   /** Oversampling of the Keplerian periodogram's period grid. */
   keplerianOversample: 3,
   /** Screening jitter of an instrument is capped at this many times its median quoted error. */

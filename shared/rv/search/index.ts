@@ -4,8 +4,9 @@ export {
   type EccentricityCell, type KeplerianPeriodogramOptions, type KeplerianPeriodogramResult, type KeplerianPeak,
   KEPLERIAN_PERIODOGRAM_DEFAULTS, keplerianPeriodogram, keplerianPeriodogramDirect, keplerianPeaks,
 } from './keplerian-periodogram.ts'
+export { independentFrequencies, keplerianFap } from './significance.ts'
 export { type AliasPartner, aliasPartners } from './aliases.ts'
-export { type SignalFlag, type SignalFlagKind, type InstrumentShare, instrumentShares, rejections, warnings } from './warrant.ts'
+export { type SignalFlag, type SignalFlagKind, type InstrumentShare, instrumentShares, carryingPoints, rejections, warnings, E_SPIKE, E_HIGH, SHORT_SPAN_SHARE, CONFIRM_LNL, MIN_CARRYING_POINTS } from './warrant.ts'
 export {
   type SearchOptions, type SearchStep, type SearchResult, type SignalReport, type AliasTrial, type AlternativeModel, searchPlanets,
 } from './search.ts'

@@ -55,8 +55,8 @@ export const KEPLERIAN_PERIODOGRAM_DEFAULTS = Object.freeze({
   cells: Object.freeze([
     { e: 0, phases: 1, minPeriod: 0, substeps: 1 },
     { e: 0.3, phases: 8, minPeriod: 5, substeps: 1 },
-    { e: 0.6, phases: 16, minPeriod: 10, substeps: 2 },
-    { e: 0.85, phases: 32, minPeriod: 10, substeps: 4 },
+    { e: 0.6, phases: 16, minPeriod: 10, substeps: 1 },
+    { e: 0.85, phases: 32, minPeriod: 10, substeps: 1 },
   ] as EccentricityCell[]),
 })
 

@@ -9,15 +9,18 @@
  *    by the planet itself and would hide it. The sinusoid (GLS) peaks of the same residuals are
  *    added as candidates; their Baluev FAP is reported, it is no longer the gate.
  * 2. Global step: the best distinct Keplerian-periodogram cells (long periods, high e, several
- *    offsets included) and GLS peaks each seed an exact (e, phase) scan, and the best starts are
- *    all refined by the non-linear fit of the whole model with the jitters free (multi-start).
- * 3. Aliases: the best new signal's daily, sidereal, yearly and harmonic partners are each fitted
- *    (Dawson & Fabrycky 2010, ApJ 722, 937); the best by likelihood is kept, the runner-up and its
- *    ΔlnL are reported.
+ *    offsets included) and GLS peaks each seed an exact (e, phase) scan, and the best starts by
+ *    that scan's χ² (`refineStarts`, plus the strongest Keplerian cell) are refined by the
+ *    non-linear fit of the whole model with the jitters free (multi-start).
+ * 3. Aliases: the best new signal's daily, sidereal, yearly and harmonic partners are each scanned
+ *    exactly and the `aliasFits` most promising are fitted in its place (Dawson & Fabrycky 2010,
+ *    ApJ 722, 937); the best by likelihood is kept, the runner-up and its ΔlnL are reported.
  * 4. Trends: the new model is refitted with no, linear and quadratic trend.
  * 5. Decision (the stated BIC rule, Schwarz 1978): the (k+1)-planet model is kept when its BIC is
  *    at least `bicThreshold` (10, "very strong", Kass & Raftery 1995) below the k-planet model's
- *    and the new signal has a warrant (./warrant.ts: converged, constrained, not carried by one
+ *    and the false-alarm probability of its likelihood gain over the periods searched is below
+ *    `falseAlarm` (0.001; Cumming 2004, ./significance.ts), and the new signal has a warrant
+ *    (./warrant.ts: converged, constrained, not a spike through a few points, not carried by one
  *    instrument over fewer than three cycles). Among trends a linear term must lower BIC by the
  *    same 10, and a quadratic one by 10 more.
  * Finally the kept model's signals get their warnings, and a trend is compared with a long-period
@@ -33,6 +36,7 @@ import { keplerianPeriodogram, keplerianPeaks, type KeplerianPeriodogramResult }
 import { aliasPartners } from './aliases.ts'
 import { rejections, warnings, type SignalFlag } from './warrant.ts'
 import { SEARCH_DEFAULTS } from './defaults.ts'
+import { independentFrequencies, keplerianFap } from './significance.ts'
 
 export interface SearchOptions {
   /** 'auto' (default): by the BIC rule and the warrant checks; a number: exactly that many planets. */
@@ -40,6 +44,8 @@ export interface SearchOptions {
   trend?: TrendKind | 'auto'
   /** An extra planet (or trend term) must lower BIC by at least this (default 10). */
   bicThreshold?: number
+  /** A new planet's likelihood gain must also have a false-alarm probability below this (default 1e-3; ./significance.ts). */
+  falseAlarm?: number
   /** Largest number of planets tried in 'auto' mode (default {@link SEARCH_DEFAULTS}.maxPlanets). */
   maxPlanets?: number
   /** Period range searched (d); defaults as the periodogram grid (0.5 d or 0.2 d, to 5× the baseline). */
@@ -75,6 +81,10 @@ export interface SearchStep {
   nextPeakPeriod: number | null
   /** Best Keplerian-periodogram cell of this model's residuals: period (d), e, Δχ² (screening weights). */
   nextKeplerian: { period: number; e: number; dchi2: number } | null
+  /** lnL gain over the previous step's model (null for 0 planets). */
+  deltaLnL: number | null
+  /** False-alarm probability of that gain over the periods searched (./significance.ts; null for 0 planets). */
+  falseAlarm: number | null
 }
 
 /** What the search knows about one kept signal. */
@@ -101,7 +111,7 @@ export interface SearchResult {
   flags: SignalFlag[]
   alternatives: AlternativeModel[]
   /** The options the search ran with, defaults filled in. */
-  settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; maxPlanets: number; trend: TrendKind | 'auto'; planets: number | 'auto' }
+  settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; falseAlarm: number; maxPlanets: number; trend: TrendKind | 'auto'; planets: number | 'auto' }
   /** Keplerian periodogram of each step's residuals (only with `keepPeriodograms`). */
   periodograms?: KeplerianPeriodogramResult[]
 }
@@ -140,6 +150,7 @@ function screeningJitter(data: RvData, fit: FitResult, cap: number): number[] {
 interface Ctx {
   data: RvData; epoch: number; minPeriod: number; maxPeriod: number; baseline: number
   trends: TrendKind[]; oversample?: number; kPeaks: number; sPeaks: number; startsPerPeriod: number
+  refine: number; aliasFits: number
 }
 
 /** Fit of the model from starts with the jitters free; never throws for a bad start. */
@@ -183,8 +194,13 @@ function nextPlanet(ctx: Ctx, cur: FitResult, curTrend: TrendKind, cap: number, 
     seen.push(P)
     starts.push(...planetStarts(data, P, { others, jitter: jit, trend: curTrend, epoch: ctx.epoch, count: ctx.startsPerPeriod }))
   }
+  // refine the best starts by their exact screening χ² (the strongest Keplerian cell always)
+  const first = starts[0]
+  starts.sort((a, b) => a.chi2 - b.chi2)
+  const refine = starts.slice(0, ctx.refine)
+  if (first && !refine.includes(first)) refine.push(first)
   let best: FitResult | null = null
-  for (const s of starts) {
+  for (const s of refine) {
     const { chi2, ...start } = s
     void chi2
     const f = fitFrom(ctx, [...curStarts, start], curTrend, jStart, true)
@@ -195,10 +211,14 @@ function nextPlanet(ctx: Ctx, cur: FitResult, curTrend: TrendKind, cap: number, 
   const newP = best.planets[best.planets.length - 1]
   const trials: AliasTrial[] = [{ period: newP.period, relation: 'detected', lnL: best.stats.lnL, converged: best.status === 'converged' }]
   const partnerOthers = best.planets.slice(0, -1)
-  for (const a of aliasPartners(newP.period, { minPeriod: ctx.minPeriod, maxPeriod: ctx.maxPeriod, minSeparation: 0.5 / ctx.baseline })) {
-    const ps = planetStarts(data, a.period, { others: partnerOthers.map(toOrbit), jitter: jit, trend: curTrend, epoch: ctx.epoch, count: 1 })
-    if (!ps.length) continue
-    const { chi2, ...start } = ps[0]
+  // every partner is screened exactly; the `aliasFits` most promising are fitted in full
+  const partners = aliasPartners(newP.period, { minPeriod: ctx.minPeriod, maxPeriod: ctx.maxPeriod, minSeparation: 0.5 / ctx.baseline })
+    .map((a) => ({ a, s: planetStarts(data, a.period, { others: partnerOthers.map(toOrbit), jitter: jit, trend: curTrend, epoch: ctx.epoch, count: 1 })[0] }))
+    .filter((x) => x.s !== undefined)
+    .sort((u, v) => u.s.chi2 - v.s.chi2)
+    .slice(0, ctx.aliasFits)
+  for (const { a, s: ps } of partners) {
+    const { chi2, ...start } = ps
     void chi2
     const f = fitFrom(ctx, [...partnerOthers.map(toStart), start], curTrend, best.instruments.map((i) => i.jitter), true)
     if (!usable(f)) continue
@@ -236,7 +256,11 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const ctx: Ctx = {
     data, epoch, minPeriod, maxPeriod, baseline, trends, oversample: opts.oversample,
     kPeaks: opts.keplerianPeaks ?? D.keplerianPeaks, sPeaks: opts.sinusoidPeaks ?? D.sinusoidPeaks, startsPerPeriod: D.startsPerPeriod,
+    refine: D.refineStarts, aliasFits: D.aliasFits,
   }
+  const falseAlarm = opts.falseAlarm ?? D.falseAlarm
+  if (!(falseAlarm > 0 && falseAlarm <= 1)) throw new RangeError(`falseAlarm must be in (0, 1], got ${falseAlarm}`)
+  const nFreq = independentFrequencies(baseline, minPeriod, maxPeriod)
   const flags: SignalFlag[] = []
   if (opts.fapThreshold !== undefined) {
     flags.push({ kind: 'fap-threshold-unused', severity: 'info', period: null, instrument: null, message: 'fapThreshold was given but is no longer used: a signal is kept by the BIC of its Keplerian fit and its warrant checks, not by the sinusoid FAP.' })
@@ -253,7 +277,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const first = chooseTrend(fitAll([], undefined), bicThreshold)
   if (!first) throw new RangeError('the data cannot be fitted even without planets (too few points per instrument?)')
   chosenAt.push(first)
-  steps.push({ planets: 0, trend: first[0], bic: first[1].stats.bic, lnL: first[1].stats.lnL, nextPeakFap: null, nextPeakPeriod: null, nextKeplerian: null })
+  steps.push({ planets: 0, trend: first[0], bic: first[1].stats.bic, lnL: first[1].stats.lnL, nextPeakFap: null, nextPeakPeriod: null, nextKeplerian: null, deltaLnL: null, falseAlarm: null })
   let chosen = 0
   for (let k = 0; k < maxPlanets; k++) {
     const [curTrend, cur] = chosenAt[k]
@@ -267,9 +291,19 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     if (!next) break
     chosenAt.push(next)
     signalsAt.push(found.aliases)
-    steps.push({ planets: k + 1, trend: next[0], bic: next[1].stats.bic, lnL: next[1].stats.lnL, nextPeakFap: null, nextPeakPeriod: null, nextKeplerian: null })
+    const dLnL = next[1].stats.lnL - chosenAt[k][1].stats.lnL
+    const fa = keplerianFap(dLnL, nFreq)
+    steps.push({ planets: k + 1, trend: next[0], bic: next[1].stats.bic, lnL: next[1].stats.lnL, nextPeakFap: null, nextPeakPeriod: null, nextKeplerian: null, deltaLnL: dLnL, falseAlarm: fa })
     if (mode !== 'auto') { chosen = k + 1; continue }
     if (!(next[1].stats.bic <= chosenAt[k][1].stats.bic - bicThreshold)) break
+    if (!(fa <= falseAlarm)) {
+      const p = next[1].planets[k]
+      flags.push({
+        kind: 'false-alarm', severity: 'rejection', period: p.period, instrument: null,
+        message: `The ${p.period.toPrecision(4)}-d signal was not kept: its likelihood gain (ΔlnL = ${dLnL.toFixed(1)}) has a false-alarm probability of ${fa.toPrecision(2)} over the ${Math.round(nFreq)} independent periods searched (above ${falseAlarm}).`,
+      })
+      break
+    }
     const rej = rejections(data, next[1], k, D.oneInstrumentShare) // the new planet is the last one
     if (rej.length) { flags.push(...rej); break }
     chosen = k + 1
@@ -296,7 +330,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const alternatives = trendAlternatives(ctx, fit, trend, bicThreshold, flags)
   return {
     fit, planets: chosen, trend, steps, signals, flags, alternatives,
-    settings: { minPeriod, maxPeriod, bicThreshold, maxPlanets, trend: trendOpt, planets: mode },
+    settings: { minPeriod, maxPeriod, bicThreshold, falseAlarm, maxPlanets, trend: trendOpt, planets: mode },
     ...(keep ? { periodograms: keep } : {}),
   }
 }

@@ -3,11 +3,16 @@
  * keep it, and flags that travel with it to every screen. Plain data with readable messages.
  *
  * - rejection: the fit of the model with the signal did not converge, or the signal's errors are
- *   unconstrained (σK ≥ K or σP ≥ P, or not finite: the data do not pin the orbit down);
+ *   unconstrained (σK ≥ K or σP ≥ P, or not finite: the data do not pin the orbit down); its
+ *   eccentricity is at the fitter's limit (> 0.95) or its gain rests on fewer than about four
+ *   measurements (a periastron spike through outliers);
  *   or it is carried by one instrument (≥ `oneInstrumentShare` of its likelihood gain) whose
  *   span covers fewer than three of its cycles (that instrument alone cannot tell a period from a
- *   drift of its zero point, and no other instrument confirms it).
- * - warning: carried by one instrument (otherwise); period longer than the span of the instrument
+ *   drift of its zero point), or ≥ 60 % of it comes from one instrument whose data span less than
+ *   a quarter of the baseline — in both cases only when the other instruments do not confirm it
+ *   (their own gain ΔlnL < 10 at the signal's period).
+ * - warning: e ≥ 0.8 (an orbit that rests on its periastron passages: check how many points and
+ *   passages sample them); carried by one instrument (otherwise); period longer than the span of the instrument
  *   that carries it; period beyond the baseline ("period poorly constrained": only a partial orbit
  *   is seen); one instrument's jitter far above its peers' (something unmodelled in that
  *   instrument, or a signal absorbed by its jitter).
@@ -19,8 +24,8 @@ import type { RvData } from '../orbit-data.ts'
 import type { FitResult, PlanetFit } from '../orbit-fit.ts'
 
 export type SignalFlagKind =
-  | 'not-converged' | 'unconstrained' | 'one-instrument-short-span'
-  | 'one-instrument' | 'longer-than-instrument-span' | 'period-beyond-baseline' | 'jitter-above-peers'
+  | 'not-converged' | 'unconstrained' | 'one-instrument-short-span' | 'eccentricity-at-limit' | 'few-points' | 'false-alarm'
+  | 'one-instrument' | 'high-eccentricity' | 'longer-than-instrument-span' | 'period-beyond-baseline' | 'jitter-above-peers'
   | 'alias-runner-up' | 'trend-or-long-orbit' | 'fap-threshold-unused'
 
 export interface SignalFlag {
@@ -62,6 +67,43 @@ export function instrumentShares(data: RvData, fit: FitResult, index: number): I
   }))
 }
 
+/**
+ * Effective number of measurements carrying planet `index`: the participation ratio
+ * (Σ g_i)² / Σ g_i² of the positive per-point likelihood gains g_i (the same comparison as
+ * {@link instrumentShares}, point by point). About N/2 for a sinusoid seen by N points; 1–3 for a
+ * periastron spike fitted through one or two outliers.
+ */
+export function carryingPoints(data: RvData, fit: FitResult, index: number): number {
+  const p = fit.planets[index]
+  const n = data.t.length
+  const kep = new Float64Array(n)
+  addKeplerian(data.t, { period: p.period, K: p.K, e: p.e, omega: p.omega, tp: p.tp }, kep)
+  let s1 = 0, s2 = 0
+  for (let i = 0; i < n; i++) {
+    const s = fit.instruments[data.instrument[i]].jitter
+    const V = data.dy[i] ** 2 + s * s
+    const r = fit.residuals[i], r0 = r + kep[i]
+    const g = 0.5 * (r0 * r0 - r * r) / V
+    if (g > 0) { s1 += g; s2 += g * g }
+  }
+  return s2 > 0 ? s1 * s1 / s2 : 0
+}
+
+/** Share of the gain from one instrument spanning under a quarter of the baseline that rejects an unconfirmed signal. */
+export const SHORT_SPAN_SHARE = 0.6
+/**
+ * The other instruments confirm a signal when their own likelihood gain at its period reaches this:
+ * for 4 parameters at a known period P(χ²₄ > 20) = 11 e⁻¹⁰ ≈ 5e-4.
+ */
+export const CONFIRM_LNL = 10
+/** Eccentricity from which a kept orbit is flagged for its periastron coverage. */
+export const E_HIGH = 0.8
+
+/** Eccentricity above which a fitted orbit is taken as a spike at the fitter's limit (E_MAX = 0.99). */
+export const E_SPIKE = 0.95
+/** Fewest effective measurements ({@link carryingPoints}) a kept signal must rest on. */
+export const MIN_CARRYING_POINTS = 4
+
 const fmtP = (p: number): string => (p >= 100 ? p.toFixed(0) : p >= 10 ? p.toFixed(1) : p.toFixed(3))
 
 /** Rejections of a newly added planet (empty: it may be kept). */
@@ -79,13 +121,29 @@ export function rejections(data: RvData, fit: FitResult, index: number, oneInstr
       message: `The ${fmtP(p.period)}-d signal was not kept: its errors are unconstrained (K = ${p.K.toFixed(2)} ± ${u.K.toPrecision(3)} m/s, P = ${fmtP(p.period)} ± ${u.period.toPrecision(3)} d).`,
     })
   }
+  if (p.e > E_SPIKE) {
+    out.push({ ...base, kind: 'eccentricity-at-limit', message: `The ${fmtP(p.period)}-d signal was not kept: its eccentricity ${p.e.toFixed(3)} is at the limit of the fit (> ${E_SPIKE}), the mark of a spike fitted through a few points.` })
+  }
+  const carrying = carryingPoints(data, fit, index)
+  if (carrying < MIN_CARRYING_POINTS) {
+    out.push({ ...base, kind: 'few-points', message: `The ${fmtP(p.period)}-d signal was not kept: its likelihood gain rests on about ${carrying.toFixed(1)} measurements (fewer than ${MIN_CARRYING_POINTS}); outliers can do that.` })
+  }
   if (data.instrumentNames.length > 1) {
     const shares = instrumentShares(data, fit, index)
     const top = shares.reduce((a, b) => (b.share > a.share ? b : a))
-    if (top.share >= oneInstrumentShare && top.span < 3 * p.period) {
+    let tmin = Infinity, tmax = -Infinity
+    for (const t of data.t) { tmin = Math.min(tmin, t); tmax = Math.max(tmax, t) }
+    let others = 0
+    for (const sh of shares) if (sh !== top) others += sh.dLnL
+    const unconfirmed = others < CONFIRM_LNL
+    const fewCycles = unconfirmed && top.share >= oneInstrumentShare && top.span < 3 * p.period
+    const shortSpan = unconfirmed && top.share >= SHORT_SPAN_SHARE && top.span < (tmax - tmin) / 4
+    if (fewCycles || shortSpan) {
       out.push({
         ...base, kind: 'one-instrument-short-span', instrument: top.name,
-        message: `The ${fmtP(p.period)}-d signal was not kept: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name} alone, whose ${top.span.toFixed(0)}-d span covers fewer than three cycles; no other instrument confirms it.`,
+        message: fewCycles
+          ? `The ${fmtP(p.period)}-d signal was not kept: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name} alone, whose ${top.span.toFixed(0)}-d span covers fewer than three cycles; the other instruments do not confirm it (their ΔlnL ${others.toFixed(1)} < ${CONFIRM_LNL}).`
+          : `The ${fmtP(p.period)}-d signal was not kept: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name}, whose data span only ${top.span.toFixed(0)} of the ${(tmax - tmin).toFixed(0)} days; the instruments covering the rest do not confirm it (their ΔlnL ${others.toFixed(1)} < ${CONFIRM_LNL}).`,
       })
     }
   }
@@ -104,6 +162,21 @@ export function warnings(data: RvData, fit: FitResult, opts: { oneInstrumentShar
       out.push({
         ...base, kind: 'period-beyond-baseline', instrument: null,
         message: `Period poorly constrained: ${fmtP(p.period)} d is longer than the ${baseline.toFixed(0)}-d baseline, so only part of one orbit is seen (P ± ${p.uncertainty.period.toPrecision(3)} d).`,
+      })
+    }
+    if (p.e >= E_HIGH) {
+      // points within the periastron passage: |M| < the time the star spends within ±90° of periastron's anomaly
+      const win = (1 - p.e) ** 1.5 / Math.sqrt(1 + p.e) / 2
+      const passages = new Set<number>()
+      let inside = 0
+      for (const t of data.t) {
+        const ph = (t - p.tp) / p.period
+        const c = Math.round(ph)
+        if (Math.abs(ph - c) < win) { inside++; passages.add(c) }
+      }
+      out.push({
+        ...base, kind: 'high-eccentricity', instrument: null,
+        message: `The ${fmtP(p.period)}-d orbit is highly eccentric (e = ${p.e.toFixed(2)}): it rests on ${inside} measurement${inside === 1 ? '' : 's'} near periastron in ${passages.size} passage${passages.size === 1 ? '' : 's'}. Check that they are not outliers or an instrument's drift.`,
       })
     }
     if (data.instrumentNames.length > 1) {
