@@ -49,4 +49,10 @@ describe('velocity chart option', () => {
     expect((option.xAxis as { name: string }).name).toBe('BJD − 2\u2009450\u2009000 [d]')
     expect((option.yAxis as { name: string }).name).toBe('RV [m/s]')
   })
+
+  it('titles the axes with the time system and, in the corrected view, what was removed', () => {
+    const { option } = buildVelocityChart({ measurements: [m(1, 'A', 2459000.5)], timeScale: 'BJD_TDB', showExcluded: true, yName: 'RV − instrument median [m/s]' })
+    expect((option.xAxis as { name: string }).name).toBe('BJD_TDB − 2\u2009450\u2009000 [d]')
+    expect((option.yAxis as { name: string }).name).toBe('RV − instrument median [m/s]')
+  })
 })
