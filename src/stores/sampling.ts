@@ -6,6 +6,8 @@ import type { SamplingEstimate, SamplingEvent, SamplingRun, SamplingRunSummary, 
 import { asyncState, track } from './async-state.ts'
 
 const POLL_MS = 1500
+/** After cancelling a running run: how often to look for its partial result (20 tries). */
+const PARTIAL_POLL_MS = 500
 
 /**
  * Posterior sampling of one star: its runs, the run on screen (followed live through the event
@@ -114,8 +116,17 @@ export const useSamplingStore = defineStore('sampling', () => {
   async function cancel() {
     const current = run.data
     if (!current) return
+    const wasRunning = current.state === 'running'
     const r = await track(cancelling, () => api.cancelSampling(current.id))
-    if (r && run.data?.id === r.id) { await finish(r.id) }
+    if (r && run.data?.id === r.id) {
+      await finish(r.id)
+      // a running sampler stores its partial result within about a second of the cancel: wait for it
+      for (let i = 0; wasRunning && i < 20 && run.data?.id === r.id && !run.data.result; i++) {
+        await new Promise((res) => setTimeout(res, PARTIAL_POLL_MS))
+        if (run.data?.id !== r.id) break
+        try { run.data = await api.fetchSampling(r.id) } catch { break }
+      }
+    }
   }
 
   /** Asks the server what a run of this model would sample and how long it would take (its defaults). */

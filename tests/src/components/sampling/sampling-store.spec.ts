@@ -7,6 +7,8 @@ import { makeResult } from './fixture.ts'
 
 const calls: string[] = []
 let polls = 0
+/** 'cancel-running': the run is running; after the cancel its partial result arrives on the third read. */
+let mode: 'normal' | 'cancel-running' = 'normal'
 function run(state: SamplingRun['state'], stepsDone: number, withResult = false): SamplingRun {
   return {
     id: 7, starId: 1, modelId: 2, modelVersionId: 3, modelVersion: 1, settings: { walkers: 32, steps: 300, burn: 75, thin: 1, seed: 4 },
@@ -20,11 +22,15 @@ vi.mock('@/api/sampling.ts', () => ({
   followSampling: () => null,
   listSampling: async () => { calls.push('list'); return [] },
   startSampling: async (modelId: number, body: unknown) => { calls.push(`start ${modelId} ${JSON.stringify(body)}`); return run('queued', 0) },
-  fetchSampling: async () => { polls++; calls.push('fetch'); return polls < 3 ? run('running', 100 * polls) : run('succeeded', 300, true) },
+  fetchSampling: async () => {
+    polls++; calls.push('fetch')
+    if (mode === 'cancel-running') return polls < 4 ? run(polls === 1 ? 'running' : 'cancelled', 100) : run('cancelled', 120, true)
+    return polls < 3 ? run('running', 100 * polls) : run('succeeded', 300, true)
+  },
   cancelSampling: async () => { calls.push('cancel'); return run('cancelled', 100) },
 }))
 
-beforeEach(() => { setActivePinia(createPinia()); calls.length = 0; polls = 0; vi.useFakeTimers() })
+beforeEach(() => { setActivePinia(createPinia()); calls.length = 0; polls = 0; mode = 'normal'; vi.useFakeTimers() })
 afterEach(() => { vi.useRealTimers() })
 
 describe('sampling store', () => {
@@ -56,5 +62,22 @@ describe('sampling store', () => {
     await store.cancel()
     expect(calls).toContain('cancel')
     expect(store.following).toBeNull()
+  })
+
+  it('after cancelling a running run, waits for its partial result (stored within about a second)', async () => {
+    mode = 'cancel-running'
+    const { useSamplingStore } = await import('@/stores/sampling.ts')
+    const store = useSamplingStore()
+    await store.load(1)
+    await store.open(7)
+    expect(store.run.data?.state).toBe('running')
+    const done = store.cancel()
+    await vi.advanceTimersByTimeAsync(3000)
+    await done
+    expect(store.run.data?.state).toBe('cancelled')
+    expect(store.run.data?.result).not.toBeNull()
+    const fetches = calls.filter((c) => c === 'fetch').length
+    await vi.advanceTimersByTimeAsync(5000)
+    expect(calls.filter((c) => c === 'fetch').length).toBe(fetches)
   })
 })
