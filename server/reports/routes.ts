@@ -8,7 +8,7 @@ import { reportScope } from './guards.ts'
 import * as reports from './service.ts'
 import { reportCsv, reportEcsv } from './csv.ts'
 import { reportJson } from './json.ts'
-import { reportPdf } from './pdf.ts'
+import { pdfOffLoop } from './pdf-off-loop.ts'
 
 export async function freeze(req: Request, res: Response, s: Services): Promise<void> {
   const input = freezeRequestSchema.parse(req.body ?? {})
@@ -38,7 +38,7 @@ export async function pdf(req: Request, res: Response, s: Services): Promise<voi
   const v = await reports.loadVersion(s, report, versionOf(req))
   const detail = await reports.reportDetail(s, report.id, signedInUser(res), scope(res).membership.role)
   const approvals = detail.versions.find((x) => x.version === v.version)?.approvals ?? []
-  const bytes = await reportPdf({ reportId: report.id, version: v.version, snapshot: v.snapshot, approvals, link: reports.reportLink(s, report.id) })
+  const bytes = await pdfOffLoop({ reportId: report.id, version: v.version, snapshot: v.snapshot, approvals, link: reports.reportLink(s, report.id) })
   res.type('application/pdf').set('Content-Disposition', `inline; filename="${fileName(report.title, v.version, 'pdf')}"`).send(bytes)
 }
 

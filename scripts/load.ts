@@ -1,0 +1,196 @@
+// Load test: N signed-in users on loopback against a running API, a realistic mix of reads and
+// computations for a bounded time; prints p50/p95/p99 per request kind, the errors, and the API's
+// memory (RSS) before, right after, and a minute after the load.
+//
+//   node --import tsx scripts/load.ts [--url http://127.0.0.1:3000] [--users 50] [--duration 120]
+//        [--pid API_PID] [--settle 60] [--password starsway-demo]
+//
+// The users are sessions of the demo team's analyst, owner and reviewer (scripts/seed.ts): each
+// session is one browser. Reviewers only read. Loopback only: the URL must be 127.0.0.1/localhost.
+// Targets (issue 11, 2-core machine, 50 users): reads p99 ≤ 300 ms, periodogram/fit p99 ≤ 2 s,
+// health p99 ≤ 50 ms, RSS a minute after ≤ 1.2 × before, 0 errors. Speed lives here, never in tests.
+import { readFileSync } from 'node:fs'
+import { parseArgs } from 'node:util'
+
+const { values: args } = parseArgs({
+  options: {
+    url: { type: 'string', default: 'http://127.0.0.1:3000' },
+    users: { type: 'string', default: '50' },
+    duration: { type: 'string', default: '120' },
+    settle: { type: 'string', default: '60' },
+    pid: { type: 'string' },
+    password: { type: 'string', default: 'starsway-demo' },
+    seed: { type: 'string', default: '11' },
+  },
+})
+const BASE = args.url!.replace(/\/$/, '')
+if (!/^https?:\/\/(127\.0\.0\.1|localhost|\[::1\])(:\d+)?$/.test(BASE)) throw new Error(`--url must be on loopback, not ${BASE}`)
+const USERS = Number(args.users)
+const DURATION_MS = Number(args.duration) * 1000
+const SETTLE_MS = Number(args.settle) * 1000
+const ACCOUNTS = [
+  { email: 'tomas.analyst@lanternfield.test', writes: true },
+  { email: 'nadia.owner@lanternfield.test', writes: true },
+  { email: 'ines.reviewer@lanternfield.test', writes: false },
+]
+
+/** Mulberry32: a small seeded generator, so two runs make the same choices (common practice). */
+function random(seed: number): () => number {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+const rand = random(Number(args.seed))
+
+class Session {
+  private cookies = new Map<string, string>()
+  constructor(readonly email: string, readonly writes: boolean) {}
+  private cookieHeader(): string { return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ') }
+  async call(method: string, path: string, body?: unknown): Promise<{ status: number; body: unknown }> {
+    const headers: Record<string, string> = { cookie: this.cookieHeader() }
+    if (body !== undefined) headers['content-type'] = 'application/json'
+    const csrf = this.cookies.get('starsway_csrf')
+    if (csrf && method !== 'GET') headers['x-csrf-token'] = decodeURIComponent(csrf)
+    const res = await fetch(`${BASE}${path}`, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+    for (const c of res.headers.getSetCookie()) {
+      const [pair] = c.split(';')
+      const i = pair!.indexOf('=')
+      this.cookies.set(pair!.slice(0, i), pair!.slice(i + 1))
+    }
+    const text = await res.text()
+    let parsed: unknown = text
+    try { parsed = JSON.parse(text) } catch { /* PDF, CSV */ }
+    return { status: res.status, body: parsed }
+  }
+}
+
+// --- measurements -------------------------------------------------------------------------------
+const samples = new Map<string, number[]>()
+const errors = new Map<string, number>()
+const errorExamples: string[] = []
+async function timed(kind: string, fn: () => Promise<{ status: number; body: unknown }>, ok: (status: number) => boolean = (s) => s < 400): Promise<unknown> {
+  const t0 = performance.now()
+  try {
+    const r = await fn()
+    const ms = performance.now() - t0
+    if (!samples.has(kind)) samples.set(kind, [])
+    samples.get(kind)!.push(ms)
+    if (!ok(r.status)) {
+      errors.set(kind, (errors.get(kind) ?? 0) + 1)
+      if (errorExamples.length < 10) errorExamples.push(`${kind}: ${r.status} ${JSON.stringify(r.body).slice(0, 200)}`)
+    }
+    return r.body
+  } catch (err) {
+    errors.set(kind, (errors.get(kind) ?? 0) + 1)
+    if (errorExamples.length < 10) errorExamples.push(`${kind}: ${(err as Error).message}`)
+    return null
+  }
+}
+function quantile(sorted: number[], q: number): number {
+  if (sorted.length === 0) return NaN
+  const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil(q * sorted.length) - 1)) // nearest rank
+  return sorted[i]!
+}
+function rssMb(pid: string | undefined): number | null {
+  if (!pid) return null
+  try {
+    const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'))
+    return m ? Number(m[1]) / 1024 : null
+  } catch { return null }
+}
+
+// --- the mix ------------------------------------------------------------------------------------
+interface World { teamId: number; starIds: number[]; modelIds: Map<number, number> }
+type Action = { kind: string; weight: number; writes?: boolean; run: (s: Session, w: World) => Promise<unknown> }
+const pick = <T>(xs: T[]): T => xs[Math.floor(rand() * xs.length)]!
+
+const ACTIONS: Action[] = [
+  { kind: 'health', weight: 8, run: (s) => timed('health', () => s.call('GET', '/api/health')) },
+  { kind: 'list stars', weight: 20, run: (s, w) => timed('list stars', () => s.call('GET', `/api/teams/${w.teamId}/stars`)) },
+  { kind: 'star', weight: 10, run: (s, w) => timed('star', () => s.call('GET', `/api/stars/${pick(w.starIds)}`)) },
+  { kind: 'measurements', weight: 18, run: (s, w) => timed('measurements', () => s.call('GET', `/api/stars/${pick(w.starIds)}/measurements`)) },
+  { kind: 'models', weight: 8, run: (s, w) => timed('models', () => s.call('GET', `/api/stars/${pick(w.starIds)}/models`)) },
+  { kind: 'periodograms', weight: 6, run: (s, w) => timed('periodograms', () => s.call('GET', `/api/stars/${pick(w.starIds)}/periodograms`)) },
+  { kind: 'me', weight: 6, run: (s) => timed('me', () => s.call('GET', '/api/auth/me')) },
+  { kind: 'periodogram', weight: 5, writes: true, run: (s, w) => timed('periodogram', () => s.call('POST', `/api/stars/${pick(w.starIds)}/periodograms`, { kind: 'rv' })) },
+  { kind: 'fit', weight: 3, writes: true, run: (s, w) => {
+    const starId = pick([...w.modelIds.keys()])
+    return timed('fit', () => s.call('POST', `/api/models/${w.modelIds.get(starId)}/fit`, {}))
+  } },
+]
+
+async function setUp(): Promise<{ sessions: Session[]; world: World }> {
+  const sessions: Session[] = []
+  for (let i = 0; i < USERS; i++) {
+    const a = ACCOUNTS[i % ACCOUNTS.length]!
+    const s = new Session(a.email, a.writes)
+    const r = await s.call('POST', '/api/auth/login', { email: a.email, password: args.password })
+    if (r.status !== 200) throw new Error(`sign-in of ${a.email} failed (${r.status}): is the demo seeded? ${JSON.stringify(r.body)}`)
+    sessions.push(s)
+  }
+  const analyst = sessions[0]!
+  const me = (await analyst.call('GET', '/api/auth/me')).body as { memberships: Array<{ teamId: number }> }
+  const teamId = me.memberships[0]!.teamId
+  const stars = (await analyst.call('GET', `/api/teams/${teamId}/stars`)).body as Array<{ id: number; name: string }>
+  const starIds = stars.map((x) => x.id)
+  // one model per star to fit repeatedly: a planet at the top periodogram peak
+  const modelIds = new Map<number, number>()
+  for (const starId of starIds) {
+    const pg = await analyst.call('POST', `/api/stars/${starId}/periodograms`, { kind: 'rv' })
+    const peak = (pg.body as { result?: { peaks?: Array<{ period: number }> } }).result?.peaks?.[0]
+    if (pg.status !== 201 || !peak) continue
+    const m = await analyst.call('POST', `/api/stars/${starId}/models`, { name: `Load test ${Date.now()}`, spec: { planets: [{ period: peak.period }], trend: 'none' } })
+    if (m.status === 201) modelIds.set(starId, (m.body as { id: number }).id)
+  }
+  if (starIds.length === 0 || modelIds.size === 0) throw new Error('no stars with data: seed the demo first (npm start seeds an empty database)')
+  return { sessions, world: { teamId, starIds, modelIds } }
+}
+
+async function user(s: Session, w: World, until: number): Promise<void> {
+  const actions = ACTIONS.filter((a) => !a.writes || s.writes)
+  const total = actions.reduce((t, a) => t + a.weight, 0)
+  while (Date.now() < until) {
+    let r = rand() * total
+    const a = actions.find((x) => (r -= x.weight) < 0) ?? actions[0]!
+    await a.run(s, w)
+    await new Promise((res) => setTimeout(res, 300 + rand() * 1200)) // think time 0.3–1.5 s
+  }
+}
+
+const READS = new Set(['list stars', 'star', 'measurements', 'models', 'periodograms', 'me'])
+function report(before: number | null, after: number | null, settled: number | null): void {
+  const rows = [...samples].map(([kind, xs]) => {
+    const s = [...xs].sort((a, b) => a - b)
+    return { kind, n: s.length, p50: quantile(s, 0.5), p95: quantile(s, 0.95), p99: quantile(s, 0.99), errors: errors.get(kind) ?? 0 }
+  }).sort((a, b) => a.kind.localeCompare(b.kind))
+  const f = (x: number) => (Number.isFinite(x) ? x.toFixed(0).padStart(7) : '      -')
+  console.log(`\n${USERS} users, ${args.duration} s on ${BASE}`)
+  console.log('kind              n      p50 ms  p95 ms  p99 ms  errors  target p99')
+  for (const r of rows) {
+    const target = r.kind === 'health' ? 50 : READS.has(r.kind) ? 300 : 2000
+    console.log(`${r.kind.padEnd(16)} ${String(r.n).padStart(5)} ${f(r.p50)} ${f(r.p95)} ${f(r.p99)} ${String(r.errors).padStart(7)}  ${String(target).padStart(6)} ${r.p99 <= target ? 'ok' : 'MISSED'}`)
+  }
+  const errs = [...errors.values()].reduce((a, b) => a + b, 0)
+  console.log(`errors: ${errs}${errorExamples.length ? `\n  ${errorExamples.join('\n  ')}` : ''}`)
+  if (before !== null) {
+    const ratio = settled !== null ? settled / before : NaN
+    console.log(`API RSS: before ${before.toFixed(0)} MB, right after ${after?.toFixed(0) ?? '?'} MB, ${args.settle} s later ${settled?.toFixed(0) ?? '?'} MB (${ratio.toFixed(2)} × before; target ≤ 1.2 ${ratio <= 1.2 ? 'ok' : 'MISSED'})`)
+  } else {
+    console.log('API RSS: pass --pid to read it from /proc')
+  }
+}
+
+const { sessions, world } = await setUp()
+const before = rssMb(args.pid)
+const until = Date.now() + DURATION_MS
+console.log(`${sessions.length} sessions signed in; ${world.starIds.length} stars, ${world.modelIds.size} models to fit; running ${args.duration} s…`)
+await Promise.all(sessions.map((s) => user(s, world, until)))
+const after = rssMb(args.pid)
+if (args.pid) await new Promise((r) => setTimeout(r, SETTLE_MS))
+report(before, after, rssMb(args.pid))
+process.exit([...errors.values()].some((n) => n > 0) ? 1 : 0)
