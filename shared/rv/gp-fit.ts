@@ -33,8 +33,8 @@ const E_LIMIT = 0.95
 
 export interface GpHyperSpec {
   kernel: 'rotation' | 'quasi-periodic'
-  /** Rotation period: prior centre (d), its 1σ (default 10 %), where the value came from (for reports). */
-  period: { value: number; sigma?: number; fixed?: boolean; source?: string }
+  /** Rotation period: prior centre (d), its 1σ (default 10 %), where the value came from (for reports), the start (default the centre). */
+  period: { value: number; sigma?: number; fixed?: boolean; source?: string; start?: number }
   /** Decay time (d): start (default 2 × period) or fixed value. */
   decayTime?: { value?: number; fixed?: boolean }
   /** Rotation kernel f ∈ [0, 1] (default start 0.5) or quasi-periodic Γ (default start 1). */
@@ -50,6 +50,8 @@ export interface GpFitOptions {
   epoch?: number
   /** 'fit' (default) or fixed jitters per instrument (m/s). */
   jitter?: 'fit' | number[]
+  /** Starting jitters per instrument when they are fitted (default 0.1 × the median error). */
+  jitterStart?: number[]
   /** Largest number of likelihood evaluations per simplex run (default 4000 × free parameters). */
   maxEvaluations?: number
   /** Skip the Hessian (errors NaN; for screening). */
@@ -107,19 +109,21 @@ function checkSpec(o: GpFitOptions, nInst: number): void {
   if (g.kernel !== 'rotation' && g.kernel !== 'quasi-periodic') throw new RangeError(`gp.kernel must be 'rotation' or 'quasi-periodic' (got ${g.kernel})`)
   if (!(g.period && g.period.value > 0)) throw new RangeError(`gp.period.value must be > 0 (got ${g.period?.value})`)
   if (g.period.sigma !== undefined && !(g.period.sigma > 0)) throw new RangeError(`gp.period.sigma must be > 0 (got ${g.period.sigma})`)
+  if (g.period.start !== undefined && !(g.period.start > 0)) throw new RangeError(`gp.period.start must be > 0 (got ${g.period.start})`)
   const d = g.decayTime?.value
   if (d !== undefined && !(d > g.period.value / 2)) throw new RangeError(`gp.decayTime.value must exceed half the rotation period (${g.period.value / 2} d), got ${d}`)
   const a = g.amplitude?.value
   if (a && (a.length !== 1 && a.length !== nInst)) throw new RangeError(`gp.amplitude.value must have 1 or ${nInst} values`)
   if (Array.isArray(o.jitter) && o.jitter.length !== nInst) throw new RangeError(`jitter must have ${nInst} values (one per instrument)`)
+  if (o.jitterStart && o.jitterStart.length !== nInst) throw new RangeError(`jitterStart must have ${nInst} values (one per instrument)`)
   o.planets.forEach((p, k) => {
     if (!(p.period > 0)) throw new RangeError(`planets[${k}].period must be > 0`)
     if (p.tc === undefined && p.tp === undefined) throw new RangeError(`planets[${k}] needs tc or tp`)
   })
 }
 
-/** Fits Keplerians + offsets + trend with a GP noise model; see the module comment. */
-export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
+/** The posterior of the "planets + GP" model over its free coordinates (see the module comment). */
+function buildPosterior(data: RvData, opts: GpFitOptions) {
   checkRvData(data)
   const nInst = data.instrumentNames.length
   checkSpec(opts, nInst)
@@ -155,7 +159,7 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
   const ampStart = g.amplitude?.value ?? [Math.max(medErr, 1)]
   const shapeStart = g.shape?.value ?? (g.kernel === 'rotation' ? 0.5 : 1)
   const decayStart = g.decayTime?.value ?? 2 * g.period.value
-  const jitStart = Array.isArray(opts.jitter) ? opts.jitter : new Array<number>(nInst).fill(Math.max(0.1 * medErr, 0.01))
+  const jitStart = Array.isArray(opts.jitter) ? opts.jitter : opts.jitterStart ?? new Array<number>(nInst).fill(Math.max(0.1 * medErr, 0.01))
   const periodSigma = g.period.sigma ?? 0.1 * g.period.value
   const x0: number[] = []
   const step: number[] = []
@@ -167,8 +171,8 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
   }
   if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { x0.push(Math.log(ampStart.length === 1 ? ampStart[0] : ampStart[k])); step.push(0.3) }
   if (L.freeDecay) { x0.push(Math.log(decayStart)); step.push(0.3) }
-  if (L.freePeriod) { x0.push(Math.log(g.period.value)); step.push(Math.min(0.05, periodSigma / g.period.value)) }
-  if (L.freeShape) { x0.push(g.kernel === 'rotation' ? Math.min(0.95, Math.max(0.05, shapeStart)) : Math.log(shapeStart)); step.push(g.kernel === 'rotation' ? 0.1 : 0.3) }
+  if (L.freePeriod) { x0.push(Math.log(g.period.start ?? g.period.value)); step.push(Math.min(0.05, periodSigma / g.period.value)) }
+  if (L.freeShape) { x0.push(g.kernel === 'rotation' ? shapeStart : Math.log(shapeStart)); step.push(g.kernel === 'rotation' ? 0.1 : 0.3) }
   if (L.freeJitter) for (let k = 0; k < nInst; k++) { x0.push(Math.log(Math.max(jitStart[k], 0.01))); step.push(0.5) }
 
   interface Unpacked { orbits: Keplerian[]; amp: number[]; decay: number; period: number; shape: number; jit: number[]; lnPrior: number; ok: boolean }
@@ -269,6 +273,12 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
     }
   }
 
+  return { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost }
+}
+
+/** Fits Keplerians + offsets + trend with a GP noise model; see the module comment. */
+export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
+  const { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost } = buildPosterior(data, opts)
   const priors = describePriors(g, periodSigma, span, jitterFree)
   const maxEval = opts.maxEvaluations ?? 4000 * Math.max(1, L.nFree)
   let x = Float64Array.from(x0), evaluations = 0, converged = true
@@ -416,4 +426,32 @@ export function trainGpOnIndicator(
   fit.activity = fit.activity.map(back)
   fit.priors = fit.priors.map((p) => p.replace('m/s', 'indicator standard deviations').replace('flat in ln on [0.01, 1000]', 'flat in ln on [0.01, 1000] indicator standard deviations'))
   return fit
+}
+
+/** What an ensemble sampler needs to sample the "planets + GP" posterior. */
+export interface GpPosterior {
+  /** ln L + ln prior (profiled over offsets and trend) at a free vector; −Infinity outside the priors. */
+  logProb: (x: Float64Array) => number
+  /** Free coordinates: per planet ln P, ln K, √e cos ω, √e sin ω, Tc; then ln amplitude(s), ln decay, ln P_rot, shape, ln jitter(s) (the free ones). */
+  names: string[]
+  /** The starting vector from the options, and a scale per coordinate for spreading walkers. */
+  start: Float64Array
+  scales: Float64Array
+}
+
+/**
+ * The "planets + GP" log-posterior for a sampler (the same function `fitWithGp` maximises; offsets and
+ * trend profiled out). Start a sampler around `fitWithGp`'s optimum by passing its values as the options'
+ * starts.
+ */
+export function gpLogPosterior(data: RvData, opts: GpFitOptions): GpPosterior {
+  const { g, L, nInst, x0, step, cost } = buildPosterior(data, opts)
+  const names: string[] = []
+  for (let k = 0; k < L.np; k++) names.push(`ln P${k + 1}`, `ln K${k + 1}`, `√e cos ω${k + 1}`, `√e sin ω${k + 1}`, `Tc${k + 1}`)
+  if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) names.push(L.nAmp > 1 ? `ln amplitude ${data.instrumentNames[k]}` : 'ln amplitude')
+  if (L.freeDecay) names.push('ln decay time')
+  if (L.freePeriod) names.push('ln rotation period')
+  if (L.freeShape) names.push(g.kernel === 'rotation' ? 'shape' : 'ln Γ')
+  if (L.freeJitter) for (let k = 0; k < nInst; k++) names.push(`ln jitter ${data.instrumentNames[k]}`)
+  return { logProb: (x) => -cost(x), names, start: Float64Array.from(x0), scales: Float64Array.from(step) }
 }

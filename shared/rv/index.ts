@@ -53,6 +53,6 @@ export {
   VETTING_DEFAULTS, periodRelation, activityVetting, vetOrbits,
 } from './activity-vetting.ts'
 export {
-  type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, fitWithGp, trainGpOnIndicator,
+  type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, type GpPosterior, fitWithGp, trainGpOnIndicator, gpLogPosterior,
 } from './gp-fit.ts'
 export { type SearchSummary, searchSummary } from './search-summary.ts'

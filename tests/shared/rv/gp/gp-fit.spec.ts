@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest'
-import { fitKeplerians, fitWithGp, trainGpOnIndicator, indicatorDiagnostics } from '../../../../shared/rv/index.ts'
+import { fitKeplerians, fitWithGp, gpLogPosterior, trainGpOnIndicator, indicatorDiagnostics } from '../../../../shared/rv/index.ts'
 import { spottedStar, STAR } from './spotted-star.ts'
 
 // The seeded synthetic spotted star (./spotted-star.ts): a 12.3-d planet (K = 7 m/s) and rotational
@@ -77,5 +77,27 @@ describe('planets + GP: the dense quasi-periodic path and per-instrument amplitu
     expect(g.noise.amplitude).toHaveLength(2)
     expect(g.instruments.map((i) => i.name)).toEqual(['North', 'South'])
     expect(g.noiseUncertainty.amplitude).toHaveLength(2)
+  })
+})
+
+describe('the planets + GP posterior for a sampler', () => {
+  const star = spottedStar(1, 100, 300, false)
+  const gp = { kernel: 'rotation' as const, period: { value: 23.5 } }
+  const fit = fitWithGp(star.data, { planets: [{ period: 12.3, K: 6, e: 0.05, omegaDeg: 60, tc: 2459003 }], gp })
+
+  it('equals the fit\'s ln posterior at the fit\'s optimum, and is −∞ outside the priors', () => {
+    const p = fit.planets[0]
+    const k = fit.noise.kernel
+    if (k.kind !== 'rotation') throw new Error('rotation kernel expected')
+    const post = gpLogPosterior(star.data, {
+      planets: [{ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc }],
+      gp: { ...gp, period: { ...gp.period, start: k.period }, decayTime: { value: k.decayTime }, shape: { value: k.shape }, amplitude: { value: fit.noise.amplitude } },
+      jitterStart: fit.noise.jitter,
+    })
+    expect(post.names).toEqual(['ln P1', 'ln K1', '√e cos ω1', '√e sin ω1', 'Tc1', 'ln amplitude', 'ln decay time', 'ln rotation period', 'shape', 'ln jitter North'])
+    // the elements go through degrees and back, and the reported values are rounded by nothing else
+    expect(Math.abs(post.logProb(post.start) - fit.stats.lnPosterior)).toBeLessThan(1e-3)
+    const bad = Float64Array.from(post.start); bad[8] = 1.5
+    expect(post.logProb(bad)).toBe(-Infinity)
   })
 })
