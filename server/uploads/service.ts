@@ -10,7 +10,9 @@ import { timeScaleWarning } from '../../shared/time/index.ts'
 import type {
   CommitOptions, CommitProblem, CommitResponse, DatasetSummary, EarlierUpload, FilePreview, OverlapReport, PreviewResponse,
 } from '../../shared/api/uploads.ts'
-import { isDescription, type Conversion, type ParseOutput, type PreviewOutput, type TaskError } from './tasks.ts'
+import {
+  isDescription, uploadParseTask, uploadPreviewTask, type Conversion, type ParseInput, type ParseOutput, type PreviewInput, type PreviewOutput, type TaskError,
+} from './tasks.ts'
 import { absoluteNextToRelative, findOverlap, storedMedians } from './checks.ts'
 import { insertMeasurements } from './insert.ts'
 
@@ -101,7 +103,22 @@ function conversionFor(fileName: string, m: TableMapping, star: Star, site: Comm
   return { from: from as Conversion['from'], target, site: { lonDeg: s.lonDeg, latDeg: s.latDeg, heightM: s.heightM } }
 }
 
+/**
+ * Files up to this size are read in-process: a 64 kB table is read in milliseconds, less than the
+ * hop to a worker thread (and a cold worker's start). Anything larger — where a slow or hostile
+ * file could hold the event loop — is read in the worker pool.
+ */
+export const INLINE_BYTES = 64 * 1024
+
 function pool(s: Services) { return s.compute ?? defaultPool() }
+
+function readPreview(s: Services, inp: PreviewInput) {
+  return inp.bytes.byteLength <= INLINE_BYTES ? Promise.resolve(uploadPreviewTask(inp)) : pool(s).run('uploadPreview', inp, { timeoutMs: TASK_TIMEOUT_MS })
+}
+function readRows(s: Services, inp: ParseInput) {
+  // A time conversion is heavy work (an ephemeris per day): always in the pool.
+  return inp.bytes.byteLength <= INLINE_BYTES && !inp.conversion ? Promise.resolve(uploadParseTask(inp)) : pool(s).run('uploadParse', inp, { timeoutMs: TASK_TIMEOUT_MS })
+}
 
 /** Reads each file in the worker pool, then checks it against the star's stored data; stores nothing. */
 export async function preview(
@@ -110,10 +127,10 @@ export async function preview(
   checkFiles(files)
   const { tables, descriptions } = splitFiles(files)
   const descBytes = descriptions.map(bytesOf)
-  const outs = await Promise.all(tables.map((f) => pool(s).run('uploadPreview', {
+  const outs = await Promise.all(tables.map((f) => readPreview(s, {
     bytes: bytesOf(f), fileName: f.originalname, maxBytes: s.config.upload.maxBytes, hints: hints[f.originalname] ?? {},
     mapping: mappings[f.originalname], descriptions: descBytes,
-  }, { timeoutMs: TASK_TIMEOUT_MS })))
+  })))
   const ok: PreviewOutput[] = outs.map((o, k) => {
     if (!o.ok) fileError(tables[k]!.originalname, o.error)
     checkRowLimit(s, tables[k]!.originalname, o.rowCount)
@@ -171,9 +188,9 @@ export async function commit(
     if (!mapping) throw new ValidationError(`${f.originalname}: no confirmed mapping was sent for this file (field "mappings").`, 'mappings')
     return { f, mapping, conversion: conversionFor(f.originalname, mapping, star, options.site) }
   })
-  const outs = await Promise.all(prepared.map(({ f, mapping, conversion }) => pool(s).run('uploadParse', {
+  const outs = await Promise.all(prepared.map(({ f, mapping, conversion }) => readRows(s, {
     bytes: bytesOf(f), fileName: f.originalname, maxBytes: s.config.upload.maxBytes, mapping, conversion: conversion ?? undefined,
-  }, { timeoutMs: TASK_TIMEOUT_MS })))
+  })))
   const parsed: ParsedFile[] = []
   const problems: CommitProblem[] = []
   let problemCount = 0
