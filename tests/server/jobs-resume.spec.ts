@@ -37,7 +37,7 @@ function startWorkerProcess(): ChildProcess {
 describe('a worker killed mid-run', () => {
   it('leaves a job that another worker resumes from its checkpoint and finishes', async () => {
     const steps = 8000
-    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps, thin: 10, seed: 21 }).expect(201)
+    const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps, thin: 10, seed: 21, untilConverged: false }).expect(201)
     const id = res.body.id as number
     child = startWorkerProcess()
     let before
