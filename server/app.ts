@@ -17,6 +17,7 @@ import { errorForLog, errorMiddleware, HttpError, NotFoundError } from './errors
 import { normaliseEmail } from '../shared/api/auth.ts'
 import { refuseUnstorableText } from './input.ts'
 import { csrfMiddleware, sessionMiddleware } from './auth/session.ts'
+import { apiTokenMiddleware } from './tokens/middleware.ts'
 import { createFilesMiddleware, type Extras } from './guards.ts'
 
 export interface AppDeps {
@@ -108,6 +109,7 @@ export function createApp(deps: AppDeps): Express {
   // API answers carry user data: never stored by the browser or a proxy
   app.use('/api', (_req, res, next) => { res.set('Cache-Control', 'no-store'); next() })
   app.use(sessionMiddleware(s))
+  app.use('/api', apiTokenMiddleware(s))
   app.use('/api', csrfMiddleware(s))
 
   for (const route of routes) {

@@ -47,7 +47,10 @@ export function routeId(req: Request, name: string, what: string): number {
   return n
 }
 
-async function membershipFor(s: Services, user: User, teamId: number, min: Role, what: string): Promise<Membership> {
+async function membershipFor(s: Services, res: Response, user: User, teamId: number, min: Role, what: string): Promise<Membership> {
+  // a request made with an API token reaches the token's team only (others look as if they did not exist)
+  const token = res.locals.apiToken as { teamId: number } | undefined
+  if (token && token.teamId !== teamId) throw new NotFoundError(what)
   const m = await s.models.Membership.findOne({ where: { userId: user.id, teamId } })
   if (!m) throw new NotFoundError(what)
   if (ROLE_RANK[m.role] < ROLE_RANK[min]) {
@@ -61,7 +64,7 @@ export function team(min: Role): Guard {
   return withRole(min, async (req, res, s) => {
     const user = signedInUser(res)
     const teamId = routeId(req, 'teamId', 'Team')
-    const membership = await membershipFor(s, user, teamId, min, 'Team')
+    const membership = await membershipFor(s, res, user, teamId, min, 'Team')
     const t = await s.models.Team.findByPk(teamId)
     if (!t) throw new NotFoundError('Team')
     res.locals.scope = { membership, team: t } satisfies Scope
@@ -101,7 +104,7 @@ export function resource<T>(spec: ResourceSpec<T>): (min: Role) => Guard {
     const starId = spec.starIdOf(found)
     const st = found instanceof StarModel && found.id === starId ? found : await s.models.Star.findOne({ where: { id: starId, archivedAt: null } })
     if (!st || st.archivedAt) throw new NotFoundError(spec.what)
-    const membership = await membershipFor(s, user, st.teamId, min, spec.what)
+    const membership = await membershipFor(s, res, user, st.teamId, min, spec.what)
     res.locals.scope = { membership, star: st } satisfies Scope
     spec.keep?.(res, found)
   })

@@ -14,6 +14,7 @@ import { fitModel, periodogramRun } from './analyses/guards.ts'
 import * as reports from './reports/routes.ts'
 import { report } from './reports/guards.ts'
 import * as openapi from './openapi/routes.ts'
+import * as tokens from './tokens/routes.ts'
 import * as limits from './limits/routes.ts'
 import * as plan from './plan/routes.ts'
 
@@ -47,6 +48,9 @@ export const routes: Route[] = [
   { method: 'post', path: '/api/teams/:teamId/invitations', guards: [team('owner')], handler: teams.invite },
   { method: 'post', path: '/api/teams/:teamId/invitations/:invitationId/approve', guards: [team('owner')], handler: teams.approveInvitation },
   { method: 'delete', path: '/api/teams/:teamId/invitations/:invitationId', guards: [team('owner')], handler: teams.revokeInvitation },
+  { method: 'get', path: '/api/teams/:teamId/tokens', guards: [team('reviewer')], handler: tokens.list },
+  { method: 'post', path: '/api/teams/:teamId/tokens', guards: [team('reviewer')], handler: tokens.create },
+  { method: 'delete', path: '/api/teams/:teamId/tokens/:tokenId', guards: [team('reviewer')], handler: tokens.revoke },
   { method: 'get', path: '/api/invitations/:token', guards: [], handler: teams.showInvitation },
   { method: 'post', path: '/api/invitations/:token/accept', guards: [signedIn], handler: teams.acceptInvitation },
 
@@ -55,6 +59,8 @@ export const routes: Route[] = [
   { method: 'get', path: '/api/stars/:starId', guards: [star('reviewer')], handler: stars.show },
   { method: 'patch', path: '/api/stars/:starId', guards: [star('analyst')], handler: stars.update },
   { method: 'delete', path: '/api/stars/:starId', guards: [star('owner')], handler: stars.archive },
+  { method: 'get', path: '/api/teams/:teamId/stars/archived', guards: [team('reviewer')], handler: stars.listArchived },
+  { method: 'post', path: '/api/teams/:teamId/stars/:starId/restore', guards: [team('owner')], handler: stars.restore },
 
   { method: 'post', path: '/api/stars/:starId/uploads/preview', guards: [star('analyst'), files], handler: uploads.preview },
   { method: 'post', path: '/api/stars/:starId/uploads/commit', guards: [star('analyst'), files], handler: uploads.commit },

@@ -20,6 +20,7 @@ import { createStarRequestSchema, updateStarRequestSchema } from '../../shared/a
 import { createInvitationRequestSchema, createTeamRequestSchema, updateMemberRequestSchema } from '../../shared/api/teams.ts'
 import { startLimitsRequestSchema } from '../../shared/api/limits.ts'
 import { planRequestSchema } from '../../shared/api/plan.ts'
+import { createTokenRequestSchema } from '../../shared/api/tokens.ts'
 
 type Schema = z.ZodType
 
@@ -49,6 +50,7 @@ export const BODIES: Record<string, Schema> = {
   'post /api/reports/:reportId/reviews': reviewRequestSchema,
   'post /api/models/:modelId/limits': startLimitsRequestSchema,
   'post /api/stars/:starId/plan': planRequestSchema,
+  'post /api/teams/:teamId/tokens': createTokenRequestSchema,
 }
 
 /** Query strings by "METHOD path". */
@@ -61,7 +63,7 @@ export const NO_JSON_BODY = new Set([
   'post /api/auth/logout', 'post /api/invitations/:token/accept', 'post /api/stars/:starId/uploads/preview', 'post /api/stars/:starId/uploads/commit',
   'post /api/sampling/:runId/cancel', 'post /api/teams/:teamId/invitations/:invitationId/approve', 'delete /api/teams/:teamId/members/:userId',
   'delete /api/teams/:teamId/invitations/:invitationId', 'delete /api/stars/:starId', 'delete /api/models/:modelId',
-  'post /api/limits/:runId/cancel', 'post /api/limits/:runId/resume',
+  'post /api/limits/:runId/cancel', 'post /api/limits/:runId/resume', 'delete /api/teams/:teamId/tokens/:tokenId',
 ])
 
 const key = (r: Route) => `${r.method} ${r.path}`
@@ -121,11 +123,12 @@ export function openApiDocument(version: string): Record<string, unknown> {
         'Every error is {"error": {"code", "message", "field"?}}. The role tables in the repository tests are the authority on access.',
     },
     servers: [{ url: '/' }],
-    security: [{ session: [] }],
+    security: [{ session: [] }, { token: [] }],
     components: {
       securitySchemes: {
         session: { type: 'apiKey', in: 'cookie', name: 'starsway_session', description: 'Set by POST /api/auth/login.' },
         csrf: { type: 'apiKey', in: 'header', name: 'X-CSRF-Token', description: 'The value of the starsway_csrf cookie, on POST, PATCH and DELETE.' },
+        token: { type: 'http', scheme: 'bearer', description: 'A personal API token (POST /api/teams/{teamId}/tokens), for scripts and notebooks: one team, optionally read-only; no CSRF header needed.' },
       },
       schemas: { Error: jsonSchema(errorBodySchema) },
     },

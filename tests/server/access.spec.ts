@@ -57,6 +57,12 @@ async function openInvitation(email = `invitee-${unique()}@example.test`, pendin
   return { id: inv.id, token }
 }
 
+/** A fresh API token of the analyst persona in the probe team (its id). */
+async function analystToken(): Promise<number> {
+  const c = await signIn(t.app, EMAIL.analyst)
+  return (await c.post(`/api/teams/${teamId}/tokens`, { name: `held ${unique()}` }).expect(201)).body.id
+}
+
 /** A fresh, unused dataset on the probe star (each successful deletion removes one). */
 async function spareDataset(): Promise<number> {
   const n = ++counter
@@ -128,6 +134,11 @@ const cases: Case[] = [
   { method: 'patch', route: '/api/measurements/:measurementId', path: '/api/measurements/MEASUREMENT', expect: analyst(200),
     body: { excluded: true, reason: 'access test' } },
   { method: 'get', route: '/api/teams/:teamId/audit', path: '/api/teams/TEAM/audit', expect: member(200) },
+  { method: 'get', route: '/api/teams/:teamId/tokens', path: '/api/teams/TEAM/tokens', expect: member(200) },
+  { method: 'post', route: '/api/teams/:teamId/tokens', path: '/api/teams/TEAM/tokens', expect: member(201), body: () => ({ name: `probe ${unique()}` }) },
+  // a token held by the analyst: its holder and owners may revoke it, another reviewer may not
+  { method: 'delete', route: '/api/teams/:teamId/tokens/:tokenId', expect: { anonymous: 401, outsider: 404, reviewer: 403, analyst: 200, owner: 200 },
+    prepare: async () => ({ path: `/api/teams/${teamId}/tokens/${await analystToken()}` }) },
   // development only (404 in production, tests/server/app.spec.ts), and behind sign-in
   { method: 'get', route: '/api/dev/mail', path: '/api/dev/mail', expect: signedIn(200) },
   { method: 'get', route: '/dev/mail', path: '/dev/mail', expect: signedIn(200) },
