@@ -36,6 +36,8 @@ import { keplerianPeriodogram, keplerianPeaks, type KeplerianPeriodogramResult }
 import { aliasPartners } from './aliases.ts'
 import { rejections, warnings, type SignalFlag } from './warrant.ts'
 import { SEARCH_DEFAULTS } from './defaults.ts'
+import { vetOrbits, type ActivityVetting } from '../activity-vetting.ts'
+import type { IndicatorColumn } from '../activity-indicators.ts'
 import { independentFrequencies, keplerianFap } from './significance.ts'
 
 export interface SearchOptions {
@@ -65,6 +67,12 @@ export interface SearchOptions {
    * Accepted so old callers keep working; the result carries a flag saying it was ignored.
    */
   fapThreshold?: number
+  /**
+   * Activity indicators, one value per row (NaN where missing): every kept signal is vetted against
+   * them (../activity-vetting.ts). In 'auto' mode a signal labelled an activity candidate is not
+   * counted in `planets` (it stays in `fit`, which models every signal); see `activity`.
+   */
+  indicators?: IndicatorColumn[]
 }
 
 /** One alias partner fitted in place of a detected signal. */
@@ -114,6 +122,8 @@ export interface SearchResult {
   settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; falseAlarm: number; maxPlanets: number; trend: TrendKind | 'auto'; planets: number | 'auto' }
   /** Keplerian periodogram of each step's residuals (only with `keepPeriodograms`). */
   periodograms?: KeplerianPeriodogramResult[]
+  /** With `indicators`: each signal of `fit` vetted; `planets`/`activity` list the indices of `fit.planets`. */
+  activity?: ActivityVetting & { planets: number[]; activity: number[] }
 }
 
 const TRENDS: TrendKind[] = ['none', 'linear', 'quadratic']
@@ -328,8 +338,10 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   }
   flags.push(...warnings(data, fit, { oneInstrumentShare: D.oneInstrumentShare, jitterPeerFactor: D.jitterPeerFactor }))
   const alternatives = trendAlternatives(ctx, fit, trend, bicThreshold, flags)
+  const activity = opts.indicators?.length ? vetOrbits(data, fit.planets.map(toOrbit), opts.indicators) : undefined
   return {
-    fit, planets: chosen, trend, steps, signals, flags, alternatives,
+    fit, planets: activity && mode === 'auto' ? activity.planets.length : chosen, trend, steps, signals, flags, alternatives,
+    ...(activity ? { activity } : {}),
     settings: { minPeriod, maxPeriod, bicThreshold, falseAlarm, maxPlanets, trend: trendOpt, planets: mode },
     ...(keep ? { periodograms: keep } : {}),
   }
