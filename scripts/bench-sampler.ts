@@ -1,5 +1,14 @@
 /**
- * Sampler benchmark (issue 5): 32 walkers × 5 000 steps of the ensemble sampler on a one-planet,
+ * Sampler benchmark (issues 5 and 12).
+ *
+ * Issue 12 rows: (1) a converged posterior (every coordinate N > 50 τ and split-R̂ < 1.01) of one
+ * planet + two instruments (offset and jitter each, 9 parameters), 200 points: our samplePosterior
+ * run until converged against emcee with a numpy likelihood run until the same criteria on the same
+ * data (scripts/reference/sampler_emcee.py --converge, checked every 500 steps), CPU time, target at
+ * least 6× faster; (2) steps per CPU second of a 40 000-step run against a 1 000-step run of the
+ * same model (the work per step must not grow with the chain), target within 10 %.
+ *
+ * Issue 5 rows: 32 walkers × 5 000 steps of the ensemble sampler on a one-planet,
  * 200-point model with a fitted jitter (7 parameters), ours against emcee with a numpy likelihood
  * (scripts/reference/sampler_emcee.py --timing) on the same data, start and machine, in the same
  * run. Both time the sampling loop only, as CPU time of the process (user + system; wall times in
@@ -44,6 +53,89 @@ function dataset(): RvData {
   return { t, y, dy, instrument: new Int32Array(n), instrumentNames: ['A'] }
 }
 
+function dataset2(): RvData {
+  const r = createRandom(1212)
+  const n = 200
+  const t = new Float64Array(n).map(() => 2458000 + 1200 * r.next()).sort()
+  const truth = { period: 61.7, K: 9, e: 0.25, omega: 2.1, tp: 2458030 }
+  const y = radialVelocity(t, [truth])
+  const dy = new Float64Array(n)
+  const instrument = new Int32Array(n)
+  const off = [3, -11], jit = [2, 4]
+  for (let i = 0; i < n; i++) {
+    instrument[i] = t[i] > 2458500 && r.next() < 0.7 ? 1 : 0
+    const k = instrument[i]
+    dy[i] = 1 + 2 * r.next()
+    y[i] += off[k] + Math.sqrt(dy[i] ** 2 + jit[k] ** 2) * r.normal()
+  }
+  return { t, y, dy, instrument, instrumentNames: ['A', 'B'] }
+}
+
+function cpuMs<T>(fn: () => T): { value: T; cpu: number; wall: number } {
+  const t0 = performance.now(), c0 = process.cpuUsage()
+  const value = fn()
+  const c = process.cpuUsage(c0)
+  return { value, cpu: (c.user + c.system) / 1000, wall: performance.now() - t0 }
+}
+
+/** Issue 12: converged posterior against emcee to the same criteria; steps/s at 40 000 against 1 000 steps. */
+export async function benchConverged(): Promise<SamplerBenchRow[]> {
+  const data = dataset2()
+  const fit = fitKeplerians(data, { planets: [{ period: 61.7, K: 9, e: 0.25, omegaDeg: 120, tp: 2458030 }] })
+  const walkers = 32
+  // warm-up (JIT)
+  samplePosterior(data, fit, { walkers, steps: 300, seed: 9, untilConverged: false })
+  const ours = cpuMs(() => samplePosterior(data, fit, { walkers, seed: 4 }))
+  const r = ours.value
+  const d = r.diagnostics
+  let referenceMs: number | null = null
+  let note = `ours: converged ${d.converged} after ${r.settings.stepsDone} steps (max τ ${Math.max(...d.tau).toFixed(0)}, least N/τ ${Math.min(...d.nOverTau).toFixed(0)}, max split-R̂ ${Math.max(...d.rhat).toFixed(4)}), wall ${ours.wall.toFixed(0)} ms`
+  const script = join(here, 'reference', 'sampler_emcee.py')
+  if (existsSync(PY) && existsSync(script)) {
+    const post = createLogPosterior(data, specFromFit(fit))
+    const scale = samplingScales(fit, post)
+    const dir = mkdtempSync(join(tmpdir(), 'starsway-bench-sampler-'))
+    const file = join(dir, 'data.json')
+    writeFileSync(file, JSON.stringify({
+      t: Array.from(data.t), y: Array.from(data.y), dy: Array.from(data.dy), instrument: Array.from(data.instrument), nInst: 2,
+      start: Array.from(post.centre), scale: Array.from(scale), walkers, maxSteps: 200_000, checkEvery: 500, groups: r.settings.rhatGroups, seed: 4,
+    }))
+    const p = spawnSync(PY, [script, '--converge', file], { encoding: 'utf8', maxBuffer: 1 << 20 })
+    rmSync(dir, { recursive: true, force: true })
+    if (p.status === 0) {
+      const e = JSON.parse(p.stdout.trim().split('\n').pop() ?? '{}')
+      referenceMs = e.cpuMs
+      note += `; emcee ${e.versions.emcee} (numpy ${e.versions.numpy}): ${e.steps} steps (max τ ${Number(e.tauMax).toFixed(0)}, max split-R̂ ${Number(e.rhatMax).toFixed(4)}), wall ${Number(e.ms).toFixed(0)} ms; ` +
+        `speed-up ×${(e.cpuMs / ours.cpu).toFixed(1)} in CPU time, ×${(e.ms / ours.wall).toFixed(1)} in wall time`
+    } else note += `; emcee reference failed: ${(p.stderr || '').trim().split('\n').slice(-1).join(' ')}`
+  } else note += '; emcee reference not available'
+
+  // work per step as the chain grows: one 40 000-step run of the same model (a fixed length, the
+  // convergence checks included), CPU time per step over steps 100–1 000 and 39 100–40 000
+  const marks = new Map<number, number>()
+  const cpuNow = () => { const c = process.cpuUsage(); return (c.user + c.system) / 1000 }
+  const long = cpuMs(() => samplePosterior(data, fit, {
+    walkers, steps: 40_000, seed: 5, untilConverged: false, progressEvery: 100,
+    onProgress: (p) => { if ([100, 1000, 39_100, 40_000].includes(p.step)) marks.set(p.step, cpuNow()) },
+  }))
+  const rate1k = 900 / ((marks.get(1000)! - marks.get(100)!) / 1000)
+  const rate40k = 900 / ((marks.get(40_000)! - marks.get(39_100)!) / 1000)
+  return [
+    {
+      name: `converged posterior (every coordinate N > 50 τ, split-R̂ < 1.01), one planet + 2 instruments (9 parameters), 200 points, ${walkers} walkers, CPU time`,
+      oursMs: ours.cpu, referenceMs, ratio: referenceMs ? ours.cpu / (referenceMs / 6) : null,
+      target: 'ratio ≤ 1, ratio = ours ÷ (emcee ÷ 6): at least 6× faster than emcee with a numpy likelihood run until the same criteria on the same data',
+      note,
+    },
+    {
+      name: `steps per CPU second near 40 000 steps against near 1 000 steps (one run of the same model, ${walkers} walkers, checks included)`,
+      oursMs: (900 / rate40k) * 1000, referenceMs: (900 / rate1k) * 1000, ratio: rate1k / rate40k / 1.1,
+      target: 'ratio ≤ 1, ratio = (steps/s near 1 000 ÷ steps/s near 40 000) ÷ 1.1: within 10 % (ms columns: CPU time of 900 steps near 40 000 and near 1 000)',
+      note: `${rate1k.toFixed(0)} steps/s over steps 100–1 000, ${rate40k.toFixed(0)} steps/s over steps 39 100–40 000; whole 40 000-step run ${(long.cpu / 1000).toFixed(1)} s CPU, ${(long.wall / 1000).toFixed(1)} s wall`,
+    },
+  ]
+}
+
 export async function benchSampler(): Promise<SamplerBenchRow[]> {
   const data = dataset()
   const fit = fitKeplerians(data, { planets: [{ period: 37.3, K: 12, e: 0.35, omegaDeg: 68.75, tc: tpToTc(2458010, 37.3, 0.35, 1.2) }] })
@@ -83,7 +175,7 @@ export async function benchSampler(): Promise<SamplerBenchRow[]> {
   } else note += '; emcee reference not available'
 
   const t1 = performance.now()
-  const full = samplePosterior(data, fit, { walkers: WALKERS, steps: STEPS, seed: 3, mstar: { value: 1, err: 0.05 } })
+  const full = samplePosterior(data, fit, { walkers: WALKERS, steps: STEPS, seed: 3, mstar: { value: 1, err: 0.05 }, untilConverged: false })
   const fullMs = performance.now() - t1
   return [
     {
@@ -101,7 +193,7 @@ export async function benchSampler(): Promise<SamplerBenchRow[]> {
 }
 
 async function main(): Promise<void> {
-  const rows = await benchSampler()
+  const rows = [...(await benchConverged()), ...(process.argv.includes('--converged-only') ? [] : await benchSampler())]
   if (process.argv.includes('--json')) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
   const f = (v: number | null): string => (v === null ? '—' : v >= 100 ? v.toFixed(0) : v.toPrecision(3))
   for (const r of rows) {

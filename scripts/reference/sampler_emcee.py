@@ -9,6 +9,10 @@ sqrt(e) map has a constant Jacobian). Kepler's equation by vectorised Newton
 (fit_kepler_model.py), independent of the TypeScript code.
 
   /usr/bin/python3 scripts/reference/sampler_emcee.py             # writes the fixture
+  /usr/bin/python3 scripts/reference/sampler_emcee.py --converge F  # F: JSON {t, y, dy, instrument, nInst, start, scale,
+        # walkers, maxSteps, checkEvery, groups, seed}: emcee run until every coordinate has
+        # N > 50 tau (get_autocorr_time, a quarter discarded) and rank-normalised split-R-hat < 1.01
+        # over `groups` walker groups; prints {"steps", "ms", "cpuMs", "tauMax", "rhatMax", "versions"}
   /usr/bin/python3 scripts/reference/sampler_emcee.py --fixed     # writes fixtures/sampler/fixed-e-emcee.json:
         # the same likelihood with e held fixed: (a) e = 0 (circular; coordinates ln P, ln K, Tc,
         # offset, ln s), (b) e = 0.3 fixed, omega sampled alone, flat on [w0 - pi, w0 + pi)
@@ -130,6 +134,96 @@ def fixture():
         json.dump(out, f, indent=1)
     print(json.dumps(out['summary'], indent=1))
     print(json.dumps(out['provenance']['run']))
+
+
+def make_log_prob_multi(t, y, dy, inst, n_inst):
+    """One planet, an offset and a jitter per instrument: x = (ln P, ln K, sqrt(e) cos w, sqrt(e) sin w, Tc,
+    offsets..., ln s...); priors as make_log_prob (Jacobian ln P + ln K + sum ln s)."""
+    dy2 = dy * dy
+    n = len(t)
+    const = n * np.log(2 * np.pi)
+
+    def log_prob(x):
+        lnP, lnK, h, k, tc = x[:5]
+        off = x[5:5 + n_inst]
+        lns = x[5 + n_inst:5 + 2 * n_inst]
+        e = h * h + k * k
+        if not e < E_MAX or abs(lnP) > 700 or abs(lnK) > 700 or np.any(np.abs(lns) > 350):
+            return -np.inf
+        P, K = np.exp(lnP), np.exp(lnK)
+        w = np.arctan2(k, h) if e > 0 else 0.0
+        tp = tc_to_tp(tc, P, e, w)
+        E = ecc_anomaly(2 * np.pi * (t - tp) / P, e)
+        nu = 2 * np.arctan2(np.sqrt(1 + e) * np.sin(E / 2), np.sqrt(1 - e) * np.cos(E / 2))
+        r = y - (K * (np.cos(nu + w) + e * np.cos(w)) + off[inst])
+        V = dy2 + np.exp(2 * lns)[inst]
+        return -0.5 * (np.sum(r * r / V + np.log(V)) + const) + lnP + lnK + np.sum(lns)
+
+    return log_prob
+
+
+def split_rhat(chain, groups):
+    """Rank-normalised split-R-hat (Vehtari et al. 2021), max of bulk and folded, per coordinate;
+    chain: steps x walkers x dims; walker w belongs to group w mod groups; each group's pooled draws in
+    the first and second half of the steps form one chain each."""
+    from scipy.stats import rankdata, norm
+    n_steps, n_walkers, n_dim = chain.shape
+    half = n_steps // 2
+    parts = [chain[:half], chain[n_steps - half:]]
+
+    def rhat(z):
+        m, n = z.shape
+        means = z.mean(axis=1)
+        W = z.var(axis=1, ddof=1).mean()
+        B = n * means.var(ddof=1)
+        return np.sqrt(((n - 1) / n * W + B / n) / W)
+
+    def rank_norm(x):
+        r = rankdata(x.ravel(), method='average').reshape(x.shape)
+        return norm.ppf((r - 0.375) / (x.size + 0.25))
+
+    out = []
+    for d in range(n_dim):
+        chains = []
+        for g in range(groups):
+            for p in parts:
+                chains.append(p[:, g::groups, d].ravel())
+        x = np.array(chains)
+        bulk = rhat(rank_norm(x))
+        tail = rhat(rank_norm(np.abs(x - np.median(x))))
+        out.append(max(bulk, tail))
+    return np.array(out)
+
+
+def converge(path):
+    with open(path) as f:
+        d = json.load(f)
+    t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
+    inst = np.asarray(d['instrument'], dtype=int)
+    lp = make_log_prob_multi(t, y, dy, inst, int(d['nInst']))
+    rng = np.random.default_rng(d.get('seed', 1))
+    start = np.asarray(d['start'], dtype=float)
+    scale = np.asarray(d['scale'], dtype=float)
+    walkers, max_steps, every, groups = int(d['walkers']), int(d['maxSteps']), int(d['checkEvery']), int(d['groups'])
+    p0 = start + 0.1 * scale * rng.standard_normal((walkers, len(start)))
+    sampler = emcee.EnsembleSampler(walkers, len(start), lp)
+    sampler.random_state = np.random.RandomState(int(d.get('seed', 1))).get_state()
+    t0, c0 = time.perf_counter(), time.process_time()
+    state = p0
+    tau_max = rhat_max = float('nan')
+    while sampler.iteration < max_steps:
+        state = sampler.run_mcmc(state, every, progress=False)
+        n = sampler.iteration
+        burn = n // 4
+        tau = sampler.get_autocorr_time(discard=burn, quiet=True)
+        rh = split_rhat(sampler.get_chain(discard=burn), groups)
+        tau_max, rhat_max = float(np.max(tau)), float(np.max(rh))
+        if np.all(n - burn > 50 * tau) and np.all(rh < 1.01):
+            break
+    ms = (time.perf_counter() - t0) * 1000
+    cpu_ms = (time.process_time() - c0) * 1000
+    print(json.dumps({'steps': int(sampler.iteration), 'ms': ms, 'cpuMs': cpu_ms, 'tauMax': tau_max, 'rhatMax': rhat_max,
+                      'acceptance': float(np.mean(sampler.acceptance_fraction)), 'versions': versions()}))
 
 
 def make_log_prob_fixed(t, y, dy, e_fixed, w0):
@@ -270,6 +364,8 @@ def autocorr_fixture():
 if __name__ == '__main__':
     if len(sys.argv) >= 3 and sys.argv[1] == '--timing':
         timing(sys.argv[2])
+    elif len(sys.argv) >= 3 and sys.argv[1] == '--converge':
+        converge(sys.argv[2])
     elif len(sys.argv) >= 2 and sys.argv[1] == '--fixed':
         fixed_fixture()
     elif len(sys.argv) >= 2 and sys.argv[1] == '--autocorr':

@@ -73,6 +73,7 @@ export function progressOf(step: number, maxSteps: number, acceptance: number, c
   const fin = (v: number[]) => v.filter(Number.isFinite)
   const tau = check && fin(check.tau).length ? Math.max(...fin(check.tau)) : null
   const q = check && fin(check.nOverTau).length === check.nOverTau.length ? Math.min(...check.nOverTau) : null
+  // split-R̂ is only computed once the τ part of the rule passes: the last value known is kept
   const r = check && fin(check.rhat).length === check.rhat.length ? Math.max(...check.rhat) : null
   return {
     stepsDone: step, stepsTotal: maxSteps, acceptance: Number.isFinite(acceptance) ? acceptance : null,

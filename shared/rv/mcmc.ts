@@ -172,9 +172,11 @@ export function defaultRhatGroups(walkers: number): number {
 /**
  * The convergence rule on the kept copy after `burn` steps: τ per coordinate from the thinned
  * rows (× the thinning, as `get_autocorr_time(thin=k)` of Foreman-Mackey et al.'s emcee does),
- * N/τ with N the steps done after burn-in, split-R̂ over `groups` walker groups.
+ * N/τ with N the steps done after burn-in, split-R̂ over `groups` walker groups. With `lazy`,
+ * split-R̂ (the costlier part: ranks of every draw) is computed only once the τ part passes, and is
+ * NaN before (the rule cannot pass then anyway).
  */
-export function checkConvergence(store: ChainStore, step: number, burn: number, groups: number): ConvergenceCheck {
+export function checkConvergence(store: ChainStore, step: number, burn: number, groups: number, lazy = false): ConvergenceCheck {
   const from = store.firstRowAfter(burn)
   const nRows = store.rows - from
   const D = store.nDim
@@ -187,8 +189,9 @@ export function checkConvergence(store: ChainStore, step: number, burn: number, 
   const tau = Array.from(integratedTime(v.chain, shape), (t) => t * store.thin)
   const post = step - burn
   const nOverTau = tau.map((t) => post / t)
-  const rhat = Array.from(splitRhat(v.chain, shape, { groups }))
-  const passed = nOverTau.every((q) => q > MIN_N_OVER_TAU) && rhat.every((r) => r < MAX_RHAT)
+  const tauPasses = nOverTau.every((q) => q > MIN_N_OVER_TAU)
+  const rhat = lazy && !tauPasses ? new Array<number>(D).fill(NaN) : Array.from(splitRhat(v.chain, shape, { groups }))
+  const passed = tauPasses && rhat.every((r) => r < MAX_RHAT)
   return { step, burn, tau, nOverTau, rhat, passed }
 }
 
@@ -308,7 +311,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     onStep: (step, pos, lp) => {
       store.push(step, pos, lp)
       if (step % checkEvery(store) !== 0) return undefined
-      check = checkConvergence(store, step, burnAt(step), groups)
+      check = checkConvergence(store, step, burnAt(step), groups, true)
       if (untilConverged && check.passed) { convergedStop = true; return 'stop' }
       return undefined
     },
@@ -337,7 +340,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   const kept = store.view(from)
   const chain = kept.chain
   const lnp = kept.lnProb
-  const final = check !== null && (check as ConvergenceCheck).step === stepsDone && (check as ConvergenceCheck).burn === burn
+  const final = check !== null && (check as ConvergenceCheck).step === stepsDone && (check as ConvergenceCheck).burn === burn && (check as ConvergenceCheck).rhat.every(Number.isFinite)
     ? (check as ConvergenceCheck)
     : checkConvergence(store, stepsDone, burn, groups)
   const { tau, nOverTau, rhat } = final

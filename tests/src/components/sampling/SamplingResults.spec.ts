@@ -28,6 +28,19 @@ describe('SamplingResults: credible intervals and convergence', () => {
     expect(w.attributes('data-converged')).toBe('true')
   })
 
+  it('marks parameters the model held fixed, keeps them out of the plots, and links the chain as CSV', async () => {
+    const r = makeResult(true)
+    r.parameters[2] = { name: 'e b', unit: '', median: 0, lo: 0, hi: 0, mean: 0, sd: 0, fixed: true }
+    r.settings = { ...r.settings, untilConverged: true, steps: 100_000, keptThin: 4, keptRows: 900, rhatGroups: 4, fixed: [['e', 'omegaDeg']] }
+    wrapper = mountWithApp(SamplingResults, { props: { result: r, charts: false, chainUrl: '/api/sampling/7/chain.csv' } })
+    await settle()
+    expect(rowText(wrapper, 'e b')).toContain('fixed')
+    expect(rowText(wrapper, 'e b')).toContain('held fixed')
+    expect(wrapper.text()).toContain('Held fixed by the model, not sampled: e b')
+    expect(wrapper.text()).toContain('every 4th step kept')
+    expect(wrapper.find('[data-test="chain-csv"]').attributes('href')).toBe('/api/sampling/7/chain.csv')
+  })
+
   it('shows the warnings in plain words when the run has not converged', async () => {
     const warnings = ['The chain is only 8 autocorrelation times long for √e sin ω b; run at least 50 times longer than that.']
     wrapper = mountWithApp(SamplingResults, { props: { result: makeResult(false, warnings), charts: false } })
