@@ -153,11 +153,12 @@ def main():
     path = os.path.join(FIX, 'reference.json')
     if only and os.path.exists(path):
         out['cases'] = json.load(open(path))['cases']
-    for f in sorted(glob.glob(os.path.join(FIX, 'survey-*.json'))):
+    files = sorted(glob.glob(os.path.join(FIX, 'survey-*.json')))
+    if only:
+        files = [os.path.join(FIX, f'survey-{name}.json') for name in sys.argv[1:]]
+    for f in files:
         d = json.load(open(f))
         c = d['case']
-        if only and c['name'] not in only:
-            continue
         T = max(d['t']) - min(d['t'])
         win = [(max(1 / p['period'] - 20 / T, 0.2 / T), 1 / p['period'] + 20 / T, 5 * p['K'] + 10) for p in c['planets']]
         res = fit(d, c['trend'], win, seed=c['seed'])
@@ -168,7 +169,7 @@ def main():
             entry['alias'] = {'period': c['aliasPeriod'], **fit(d, c['trend'], aw, seed=c['seed'] + 1)}
         out['cases'][c['name']] = entry
         print(c['name'], entry['lnL'], [round(p['period'], 4) for p in res['planets']], entry.get('alias', {}).get('lnL'), flush=True)
-    json.dump(out, open(path, 'w'), indent=1)
+        json.dump(out, open(path, 'w'), indent=1)  # after every case: a long run keeps what it has done
 
 
 if __name__ == '__main__':

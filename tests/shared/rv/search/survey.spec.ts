@@ -1,75 +1,8 @@
-import { describe, it, expect } from 'vitest'
-import { readFileSync } from 'node:fs'
-import { searchPlanets, fitKeplerians, tpToTc, type RvData, type SearchResult } from '../../../../shared/rv/index.ts'
-import { SURVEY, makeCase, type SurveyCase } from './survey.ts'
+import { describe, it } from 'vitest'
+import { checkFixtures, describeSurvey } from './survey-check.ts'
 
-// The synthetic survey of issue 9 (tests/shared/rv/search/survey.ts, seeded; data in
-// fixtures/search/survey-*.json) against an independent fit of each case's true model by scipy
-// 1.10.1 differential_evolution + least_squares (scripts/reference/search_reference.py →
-// fixtures/search/reference.json). The search, from the data alone, must pick the true number of
-// planets and reach the reference optimum's lnL within 2. A case whose reference is not in the
-// fixture yet is checked against a weaker bound instead: the true model fitted by our own fitter
-// started at the true orbit (see truthLnL).
-interface RefCase { nPlanets: number; trend: string; lnL: number; planets: Array<{ period: number; K: number; e: number }>; alias?: { period: number; lnL: number } }
-const ref = JSON.parse(readFileSync(new URL('../../../../fixtures/search/reference.json', import.meta.url), 'utf8')) as { provenance: string; cases: Record<string, RefCase> }
-
-function loadData(name: string): RvData {
-  const d = JSON.parse(readFileSync(new URL(`../../../../fixtures/search/survey-${name}.json`, import.meta.url), 'utf8'))
-  return { t: Float64Array.from(d.t), y: Float64Array.from(d.y), dy: Float64Array.from(d.dy), instrument: Int32Array.from(d.instrument), instrumentNames: d.instrumentNames }
-}
-
-/** lnL of the search's fit with the reference's structure (its planets, its trend kind). */
-function lnLOf(r: SearchResult, c: RefCase): number {
-  if (r.trend === c.trend) return r.fit.stats.lnL
-  const alt = r.alternatives.find((a) => a.trend === c.trend && a.planets === c.nPlanets)
-  return alt ? alt.lnL : r.fit.stats.lnL
-}
-
-const cases: SurveyCase[] = SURVEY.filter((c) => c.name !== 'large')
-
-/**
- * Weaker check for a case whose independent reference is not in the fixture yet: the true model
- * fitted by our own fitter started at the true orbit (a local optimum the search must reach too).
- */
-function truthLnL(c: SurveyCase, data: RvData): number {
-  const f = fitKeplerians(data, {
-    planets: c.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omega * 180 / Math.PI, tc: tpToTc(p.tp, p.period, p.e, p.omega) })),
-    trend: c.trend, skipUncertainties: true,
-  })
-  return f.stats.lnL
-}
-
+// The synthetic survey of issue 9, first half (the checks and their references: ./survey-check.ts).
 describe('synthetic survey: the search finds each class from the data alone (reference: scipy DE + least_squares)', () => {
-  it('the fixtures are the generator\'s output (same seeds, same numbers)', () => {
-    for (const c of SURVEY) {
-      const a = makeCase(c), b = loadData(c.name)
-      expect(Array.from(a.t)).toEqual(Array.from(b.t))
-      expect(Array.from(a.y)).toEqual(Array.from(b.y))
-    }
-  })
-
-  for (const c of cases) {
-    it(`${c.name}: ${c.what}`, () => {
-      const data = loadData(c.name)
-      const rc: RefCase = ref.cases[c.name] ?? { nPlanets: c.planets.length, trend: c.trend, lnL: truthLnL(c, data), planets: [] }
-      const r = searchPlanets(data)
-      expect(r.planets).toBe(c.planets.length)
-      expect(lnLOf(r, rc)).toBeGreaterThanOrEqual(rc.lnL - 2)
-      // every true planet found near its period (within 3σ or 1 %), no alias in its place
-      for (const p of c.planets) {
-        const got = r.fit.planets.find((q) => Math.abs(q.period - p.period) <= Math.max(3 * q.uncertainty.period, 0.01 * p.period))
-        expect(got, `planet at ${p.period} d among ${r.fit.planets.map((q) => q.period.toFixed(3)).join(', ')}`).toBeDefined()
-      }
-      if (c.planets.length === 0) expect(r.fit.planets).toHaveLength(0)
-      if (c.trend !== 'none') expect(r.trend).toBe(c.trend)
-      if (rc.alias) {
-        // the independent fit says the alias is worse; the search reports the partner it beat
-        expect(rc.alias.lnL).toBeLessThan(rc.lnL - 5)
-        const s = r.signals[0]
-        expect(s.runnerUpDeltaLnL).not.toBeNull()
-        expect(s.runnerUpDeltaLnL!).toBeGreaterThan(5)
-        expect(s.aliases.some((a) => Math.abs(a.period - rc.alias!.period) < 0.02 * rc.alias!.period)).toBe(true)
-      }
-    }, 300_000)
-  }
+  it('the fixtures are the generator\'s output (same seeds, same numbers)', checkFixtures)
+  describeSurvey(['long-eccentric', 'periastron', 'usp', 'daily-alias'])
 })
