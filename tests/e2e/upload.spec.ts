@@ -97,5 +97,5 @@ describe('adding a velocity table in the browser', () => {
     await page.locator('[data-test="velocity-chart"][data-points="47"][data-excluded="0"]').waitFor()
     expect(await tableBox.getAttribute('data-total')).toBe('48')
     expect(pageErrors).toEqual([])
-  }), 90000)
+  }), 180000)
 })
