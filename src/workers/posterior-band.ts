@@ -1,10 +1,11 @@
 // The band of posterior model curves: the velocity of every drawn parameter set (planets and
 // trend, no instrument offset) on a time grid, and per time the 16th, 50th and 84th percentile.
 // Pure: runs in the browser worker, or inline where there is no Worker.
-import { radialVelocity, type Keplerian } from '@shared/rv/index.ts'
+import { keplerianOf, radialVelocity, type Keplerian, type PlanetElements } from '@shared/rv/index.ts'
 
 export interface BandDraw {
-  planets: Array<{ period: number; K: number; e: number; omegaDeg: number; tp: number }>
+  /** The core's planet elements without Tc (not needed to evaluate the orbit). */
+  planets: Array<Omit<PlanetElements, 'tc'>>
   slope: number
   curvature: number
 }
@@ -28,8 +29,6 @@ export interface BandOutput {
   used: number
 }
 
-const DEG = Math.PI / 180
-
 /** Linear-interpolation quantile of a sorted array (the usual "type 7" definition, common practice). */
 export function quantileSorted(sorted: Float64Array, q: number): number {
   const n = sorted.length
@@ -51,7 +50,7 @@ export function computeBand(input: BandInput): BandOutput {
   const curves: Float64Array[] = []
   const v = new Float64Array(n)
   for (const d of input.draws) {
-    const orbits: Keplerian[] = d.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omega: p.omegaDeg * DEG, tp: p.tp }))
+    const orbits: Keplerian[] = d.planets.map(keplerianOf)
     try {
       radialVelocity(t, orbits, v)
     } catch {

@@ -47,7 +47,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
     // The periodogram of the velocities: its top peak is one of the two planets.
     await page.locator('[data-test="run-periodogram"]').click()
     const rv = page.locator('[data-test="rv-periodogram"][data-ready="true"]')
-    await rv.waitFor()
+    await rv.waitFor({ timeout: 90000 }) // GLS and Keplerian periodograms, on a possibly busy machine
     await rv.locator('canvas').first().waitFor()
     const firstPeriod = Number(await rv.getAttribute('data-top-period'))
     const first = nearPlanet(firstPeriod)
@@ -56,7 +56,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
     expect(await rv.innerText()).toContain('FAP')
     await page.locator('[data-test="peak-caution"]').waitFor()
     await page.locator('[data-test="run-indicators"]').click()
-    await page.locator('[data-test="indicator-periodograms"] canvas').first().waitFor()
+    await page.locator('[data-test="indicator-periodograms"] canvas').first().waitFor({ timeout: 90000 })
     await page.locator('[data-test="rv-periodogram-window"] input').click()
     await page.waitForTimeout(300)
     await rv.screenshot({ path: join(shots, 'analysis-periodogram.png') })
@@ -75,7 +75,7 @@ describe('from velocities to a two-planet solution in the browser', () => {
 
     // The residual periodogram shows the other planet.
     const residual = page.locator('[data-test="residual-periodogram"][data-ready="true"]')
-    await residual.waitFor()
+    await residual.waitFor({ timeout: 90000 })
     const secondPeriod = Number(await residual.getAttribute('data-top-period'))
     const second = nearPlanet(secondPeriod)
     expect(second, `residual top peak at ${secondPeriod} d`).toBeDefined()
@@ -113,10 +113,13 @@ describe('from velocities to a two-planet solution in the browser', () => {
     await page.locator('[data-test="model-editor"]').screenshot({ path: join(shots, 'analysis-model-form.png') })
 
     // Saved work comes back: a fresh visit shows the preferred model, its plots and its residual periodogram.
+    // (generous limits: the page loads every saved run at once and the test machine may be busy)
     await page.reload()
-    await page.locator('[data-test="fit-results"][data-status="fitted"][data-planets="2"]').waitFor()
-    await page.locator('[data-test="residual-periodogram"][data-ready="true"]').waitFor()
-    await page.locator('[data-test="rv-periodogram"][data-ready="true"]').waitFor()
+    await page.locator('[data-test="fit-results"][data-status="fitted"][data-planets="2"]').waitFor({ timeout: 90000 })
+    await page.locator('[data-test="residual-periodogram"][data-ready="true"]').waitFor({ timeout: 90000 })
+    await page.locator('[data-test="rv-periodogram"][data-ready="true"]').waitFor({ timeout: 90000 })
+    // the Keplerian periodogram is drawn beside the sinusoid's, with its peaks listed
+    await page.locator('[data-test="rv-periodogram"] [data-test="keplerian-peak-0"]').waitFor()
     expect(pageErrors).toEqual([])
   }), 240000)
 })
