@@ -1,7 +1,7 @@
-import { QueryTypes, UniqueConstraintError } from 'sequelize'
+import { Op, QueryTypes, UniqueConstraintError } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star, User } from '../db/models.ts'
-import { ConflictError, ValidationError } from '../errors.ts'
+import { ConflictError, NotFoundError, ValidationError } from '../errors.ts'
 import type { CreateStarRequest, Star as StarJson, StarSummary, UpdateStarRequest } from '../../shared/api/stars.ts'
 import { record } from '../audit/service.ts'
 
@@ -103,4 +103,25 @@ export async function archiveStar(s: Services, actor: User, star: Star): Promise
     await star.save({ transaction })
     await record(s, { teamId: star.teamId, userId: actor.id, action: 'star.archive', entity: 'star', entityId: star.id, detail: { name: star.name } }, transaction)
   })
+}
+
+/** The team's archived stars, newest archive first (the same summary as the list). */
+export async function listArchived(s: Services, teamId: number): Promise<StarSummary[]> {
+  const stars = await s.models.Star.findAll({ where: { teamId, archivedAt: { [Op.ne]: null } }, order: [['archivedAt', 'DESC']] })
+  const stats = await statsFor(s, stars.map((x) => x.id))
+  return stars.map((x) => summary(x, stats.get(x.id)))
+}
+
+/** Brings an archived star back into the lists (audited); its data were never touched. */
+export async function restoreStar(s: Services, actor: User, teamId: number, starId: number): Promise<Star> {
+  const star = await s.models.Star.findOne({ where: { id: starId, teamId, archivedAt: { [Op.ne]: null } } })
+  if (!star) throw new NotFoundError('Archived star')
+  try {
+    return await s.sequelize.transaction(async (transaction) => {
+      star.archivedAt = null
+      await star.save({ transaction })
+      await record(s, { teamId, userId: actor.id, action: 'star.restore', entity: 'star', entityId: star.id, detail: { name: star.name } }, transaction)
+      return star
+    })
+  } catch (err) { nameTaken(err) }
 }

@@ -16,3 +16,7 @@ export const fetchDatasetUsage = (datasetId: number) => request<DatasetUsage>(`/
 /** Deletes an unused dataset and its measurements (the raw file stays on the server). */
 export const deleteDataset = (datasetId: number, reason?: string) =>
   request<void>(`/datasets/${datasetId}`, { method: 'DELETE', body: reason ? { reason } : {} })
+/** The team's archived stars. */
+export const listArchivedStars = (teamId: number) => request<StarSummary[]>(`/teams/${teamId}/stars/archived`)
+/** Brings an archived star back (owner). */
+export const restoreStar = (teamId: number, starId: number) => request<Star>(`/teams/${teamId}/stars/${starId}/restore`, { method: 'POST', body: {} })

@@ -13,6 +13,9 @@ export const useStarsStore = defineStore('stars', () => {
   const usage = asyncState<DatasetUsage>()
   /** Archiving the star or deleting a dataset (the error stays in the dialog). */
   const removal = asyncState<boolean>()
+  /** The team's archived stars, and restoring one. */
+  const archived = asyncState<StarSummary[]>([])
+  const restoring = asyncState<Star>()
 
   const loadList = (teamId: number) => track(list, () => api.listStars(teamId))
 
@@ -53,5 +56,15 @@ export const useStarsStore = defineStore('stars', () => {
     return ok === true
   }
 
-  return { list, star, datasets, saving, usage, removal, loadList, loadStar, create, update, loadUsage, deleteDataset, archive }
+  const loadArchived = (teamId: number) => track(archived, () => api.listArchivedStars(teamId))
+  async function restore(teamId: number, starId: number) {
+    const back = await track(restoring, () => api.restoreStar(teamId, starId))
+    if (back) await Promise.all([loadList(teamId), loadArchived(teamId)])
+    return back
+  }
+
+  return {
+    list, star, datasets, saving, usage, removal, archived, restoring,
+    loadList, loadStar, create, update, loadUsage, deleteDataset, archive, loadArchived, restore,
+  }
 })

@@ -124,6 +124,13 @@ const cases: Case[] = [
       return { path: `/api/stars/${st.id}` }
     } },
 
+  { method: 'get', route: '/api/teams/:teamId/stars/archived', path: '/api/teams/TEAM/stars/archived', expect: member(200) },
+  { method: 'post', route: '/api/teams/:teamId/stars/:starId/restore', expect: owner(200),
+    prepare: async () => {
+      const st = await t.models.Star.create({ teamId, name: `Archived ${unique()}`, massMsun: 1, massErrMsun: 0.1, radiusRsun: null, teffK: null, luminosityLsun: null, raDeg: null, decDeg: null, notes: null, archivedAt: new Date() })
+      return { path: `/api/teams/${teamId}/stars/${st.id}/restore` }
+    } },
+
   { method: 'post', route: '/api/stars/:starId/uploads/preview', path: '/api/stars/STAR/uploads/preview', expect: analyst(200), upload: {} },
   { method: 'post', route: '/api/stars/:starId/uploads/commit', path: '/api/stars/STAR/uploads/commit', expect: analyst(201),
     upload: { fields: () => ({ mappings: { 'probe.txt': mapping } }) } },

@@ -118,3 +118,27 @@ describe('star astrometry', () => {
     expect(Object.keys(upd.detail.changes).sort()).toEqual(['defaultSite', 'pmDecMasYr', 'pmRaMasYr'])
   })
 })
+
+describe('archived stars', () => {
+  it('lists archived stars and lets an owner restore one, audited; a taken name is a conflict', async () => {
+    const owner = await signIn(t.app, 'nadia.owner@lanternfield.test')
+    const id = (await analyst.post(`/api/teams/${teamId}/stars`, { name: 'Shelved', massMsun: 1, massErrMsun: 0.1 }).expect(201)).body.id
+    await owner.delete(`/api/stars/${id}`).expect(204)
+    await reviewer.get(`/api/stars/${id}`).expect(404)
+    const archived = await reviewer.get(`/api/teams/${teamId}/stars/archived`).expect(200)
+    expect(archived.body.map((x: { id: number }) => x.id)).toContain(id)
+    await analyst.post(`/api/teams/${teamId}/stars/${id}/restore`, {}).expect(403)
+
+    // meanwhile someone made a new star with the freed name
+    const twin = (await analyst.post(`/api/teams/${teamId}/stars`, { name: 'Shelved', massMsun: 1, massErrMsun: 0.1 }).expect(201)).body.id
+    await owner.post(`/api/teams/${teamId}/stars/${id}/restore`, {}).expect(409)
+    await analyst.patch(`/api/stars/${twin}`, { name: 'Shelved (new)' }).expect(200)
+
+    const back = await owner.post(`/api/teams/${teamId}/stars/${id}/restore`, {}).expect(200)
+    expect(back.body).toMatchObject({ id, name: 'Shelved' })
+    await reviewer.get(`/api/stars/${id}`).expect(200)
+    await owner.post(`/api/teams/${teamId}/stars/${id}/restore`, {}).expect(404)
+    const audit = await reviewer.get(`/api/teams/${teamId}/audit`).expect(200)
+    expect(audit.body.some((e: { action: string; entityId: number }) => e.action === 'star.restore' && e.entityId === id)).toBe(true)
+  })
+})
