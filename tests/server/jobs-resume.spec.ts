@@ -11,7 +11,7 @@ let w: SamplingWorld
 let workers: JobWorkers | undefined
 let child: ChildProcess | undefined
 let childLog = ''
-beforeAll(async () => { w = await startSamplingWorld() })
+beforeAll(async () => { w = await startSamplingWorld() }, 180_000) // a demo seed, an upload and a fit: slow on a busy machine
 afterAll(async () => {
   if (child && child.exitCode === null && child.signalCode === null) child.kill('SIGKILL')
   await workers?.stop()

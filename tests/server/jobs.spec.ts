@@ -9,7 +9,7 @@ let workers: JobWorkers
 beforeAll(async () => {
   w = await startSamplingWorld()
   workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100, checkpointMinMs: 200 })
-})
+}, 180_000) // a demo seed, an upload and a fit: slow on a busy machine
 afterAll(async () => {
   await workers?.stop()
   w?.services.mailer.close()

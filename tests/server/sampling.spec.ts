@@ -16,7 +16,7 @@ beforeAll(async () => {
   const r = await w.analyst.post(`/api/models/${w.modelId}/sampling`, SMALL).expect(201)
   doneRunId = r.body.id
   await w.analyst.post(`/api/sampling/${doneRunId}/cancel`).expect(200)
-})
+}, 180_000) // a demo seed, an upload and a fit: slow on a busy machine
 afterAll(async () => {
   w?.services.mailer.close()
   await w?.t.close()
