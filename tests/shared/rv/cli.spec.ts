@@ -202,7 +202,7 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     expect(p.stdout).toBe('')
     expect(p.stderr.trim().split('\n')).toHaveLength(1)
     expect(p.stderr).toMatch(/cannot read/)
-  })
+  }, 180_000) // a fresh npx + tsx start; slow on a busy machine
 
   it('reads standard input for -', () => {
     const table = ['time,rv,err', ...Array.from({ length: 30 }, (_, i) => `${2455000 + i * 1.3},${(10 * Math.sin(i)).toFixed(3)},1`)].join('\n')
@@ -210,5 +210,5 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     expect(p.status).toBe(0)
     const doc = JSON.parse(p.stdout)
     expect(doc.input).toMatchObject({ file: 'standard input', rows: 30 })
-  })
+  }, 180_000)
 })
