@@ -18,7 +18,7 @@ beforeAll(async () => {
   runId = (await w.analyst.post(`/api/models/${w.modelId}/limits`, SMALL_GRID).expect(201)).body.id
   await w.analyst.patch(`/api/stars/${w.starId}`, { raDeg: 83.8, decDeg: -5.4, defaultSite: SITE }).expect(200)
   samplingRunId = await insertFinishedSamplingRun(w)
-})
+}, 180_000) // the world's set-up (demo seed, upload, fit) is slow on a busy machine
 afterAll(async () => {
   w?.services.mailer.close()
   await w?.t.close()

@@ -11,7 +11,7 @@ import { SMALL_GRID } from './limits-setup.ts'
 
 let w: SamplingWorld
 let workers: JobWorkers | null = null
-beforeAll(async () => { w = await startSamplingWorld() })
+beforeAll(async () => { w = await startSamplingWorld() }, 180_000) // demo seed, upload and fit: slow on a busy machine
 afterAll(async () => {
   await workers?.stop()
   w?.services.mailer.close()
