@@ -22,10 +22,14 @@ export {
   autocorrelation, windowedTau, integratedTime1d, integratedTime, normalQuantile, classicRhat, splitRhat, acceptanceFraction,
 } from './diagnostics.ts'
 export {
-  type SamplingParam, type SamplingPrior, type PosteriorSpec, type PosteriorLayout, type LogPosterior,
-  createLogPosterior, specFromFit, samplingScales, planetLabel,
+  type SamplingParam, type SamplingPrior, type PosteriorSpec, type PosteriorLayout, type PlanetCoords, type LogPosterior,
+  createLogPosterior, specFromFit, samplingScales, planetLabel, fixedInFit,
 } from './posterior.ts'
-export { type SampleOptions, type ParameterSummary, type SampleDiagnostics, type SampleResult, samplePosterior } from './mcmc.ts'
+export {
+  type SampleOptions, type SampleProgress, type ConvergenceCheck, type ParameterSummary, type SampleDiagnostics, type SampleResult,
+  samplePosterior, checkConvergence, defaultRhatGroups, physicalColumns, MIN_N_OVER_TAU, MAX_RHAT, DEFAULT_MAX_STEPS, DEFAULT_FIXED_STEPS, DEFAULT_KEPT_ROWS,
+} from './mcmc.ts'
+export { ChainStore, type ChainRows } from './chain-store.ts'
 export * from './gp/index.ts'
 export { centreByInstrument } from './centring.ts'
 export {
