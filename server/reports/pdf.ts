@@ -11,6 +11,7 @@ import { formatPlain } from '../../shared/report/round.ts'
 import { instrumentRows, plainInterval, plainValue } from '../../shared/report/table.ts'
 import { solutionGrid, type GridCell } from '../../shared/report/solution-grid.ts'
 import { snapshotTimeSystem } from '../../shared/report/time-label.ts'
+import { cornerInputOf } from '../../shared/report/corner-option.ts'
 import { cornerOption, periodogramOption, phaseOption, renderSvg, residualsOption, timeSeriesOption } from './charts.ts'
 
 const require = createRequire(import.meta.url)
@@ -134,13 +135,15 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
     if (s.periodogram) plot(renderSvg(periodogramOption(s.periodogram, 'Periodogram of the velocities (generalised Lomb–Scargle) with false-alarm levels'), 640, 290), 240)
     if (s.residualPeriodogram) plot(renderSvg(periodogramOption(s.residualPeriodogram, 'Periodogram of the residuals with false-alarm levels'), 640, 290), 240)
   }
-  const corner = cornerOption(s.sampling?.corner, { fontFamily: 'Body' })
+  const corner = cornerOption(cornerInputOf(s.sampling), { fontFamily: 'Body' })
   if (corner && s.sampling) {
     doc.addPage()
     h1('Posterior')
     para(`Ensemble sampler: ${s.sampling.settings.walkers} walkers, ${s.sampling.settings.steps} steps, burn-in ${s.sampling.settings.burn}, thinning ${s.sampling.settings.thin}, seed ${s.sampling.settings.seed}; ` +
       `acceptance ${formatPlain(s.sampling.diagnostics.acceptance, 2)}; ${s.sampling.diagnostics.converged ? 'converged' : 'NOT converged'}. ` +
       'Contours enclose 39.3 % and 86.5 % of the draws (1σ and 2σ in two dimensions); dashed lines mark the 16th, 50th and 84th percentiles.')
+    const all = cornerInputOf(s.sampling)?.names ?? []
+    if (all.length > 8) para(`The corner plot shows the first 8 of the ${all.length} sampled parameters (${all.slice(0, 8).join(', ')}); every parameter's draws are in the JSON export.`, 8.5)
     for (const w of s.sampling.diagnostics.warnings) para(`• ${w}`, 8.5)
     doc.moveDown(0.5)
     plot(renderSvg(corner, 620, 620), CONTENT_W)

@@ -165,4 +165,4 @@ export function periodogramOption(pg: SnapshotPeriodogram, label: string): Optio
   }
 }
 
-export { cornerOption } from './corner-option.ts'
+export { cornerOption, cornerInputOf } from './corner-option.ts'

@@ -86,6 +86,13 @@ export function contourRings(x: number[], y: number[], rx: [number, number], ry:
   })
 }
 
+/** What a frozen report offers the corner plot: every sampled parameter's draws when stored, else the planets' P, K, e. */
+export function cornerInputOf(sampling: { corner: CornerInput; samples?: CornerInput } | null | undefined): CornerInput | null {
+  if (!sampling) return null
+  const s = sampling.samples
+  return s && s.names.length >= 2 ? { names: s.names, units: s.units, columns: s.columns } : sampling.corner
+}
+
 /**
  * The corner plot of the chosen parameters (default: all, at most `max`), as one ECharts option with
  * a grid per panel. Returns null with fewer than two parameters.
