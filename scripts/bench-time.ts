@@ -21,7 +21,7 @@ export function benchTime(): BenchRow[] {
   const site = { lonDeg: -70.73, latDeg: -29.26, heightM: 2400 }
   const target = { raDeg: 100, decDeg: -30 }
   let oursMs = Infinity
-  let out = new Float64Array(0)
+  let out: Float64Array = new Float64Array(0)
   for (let r = 0; r < 3; r++) {
     const t0 = performance.now()
     out = toBjdTdb(jd, 'utc', target, site)
