@@ -64,6 +64,7 @@ export const NO_JSON_BODY = new Set([
   'post /api/sampling/:runId/cancel', 'post /api/teams/:teamId/invitations/:invitationId/approve', 'delete /api/teams/:teamId/members/:userId',
   'delete /api/teams/:teamId/invitations/:invitationId', 'delete /api/stars/:starId', 'delete /api/models/:modelId',
   'post /api/limits/:runId/cancel', 'post /api/limits/:runId/resume', 'delete /api/teams/:teamId/tokens/:tokenId',
+  'post /api/teams/:teamId/stars/:starId/restore',
 ])
 
 const key = (r: Route) => `${r.method} ${r.path}`
