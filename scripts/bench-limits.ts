@@ -25,7 +25,7 @@ function problem(): LimitsProblem {
   const t = new Float64Array(n).map(() => 2458000 + 1200 * r.next()).sort()
   const dy = Float64Array.from({ length: n }, () => 1.5 + r.next())
   const residuals = Float64Array.from(dy, (s) => Math.hypot(s, 2) * r.normal())
-  return { data: { t, residuals, dy: Float64Array.from(dy, (s) => Math.hypot(s, 2)) }, mstar: 0.95, seed: 7, grid: { periods: 30, masses: 30, phases: 10 } }
+  return { data: { t, residuals, dy: Float64Array.from(dy, (s) => Math.hypot(s, 2)) }, starMass: 0.95, seed: 7, grid: { periods: 30, masses: 30, phases: 10 } }
 }
 
 function toJson(p: LimitsProblem): string {

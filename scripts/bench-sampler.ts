@@ -175,7 +175,7 @@ export async function benchSampler(): Promise<SamplerBenchRow[]> {
   } else note += '; emcee reference not available'
 
   const t1 = performance.now()
-  const full = samplePosterior(data, fit, { walkers: WALKERS, steps: STEPS, seed: 3, mstar: { value: 1, err: 0.05 }, untilConverged: false })
+  const full = samplePosterior(data, fit, { walkers: WALKERS, steps: STEPS, seed: 3, starMass: { value: 1, err: 0.05 }, untilConverged: false })
   const fullMs = performance.now() - t1
   return [
     {

@@ -1,6 +1,6 @@
 /**
  * Speed rows of the planet search (issue 9): the search from the data alone at 200 points and at
- * 2000 points from four instruments (the synthetic survey's cases, tests/shared/rv/search/survey.ts),
+ * 2000 points from four instruments (the synthetic survey's cases, tests/shared/rv/planet-search/survey.ts),
  * and the Keplerian periodogram at N = 1000 over 0.5 d – 5× baseline against numpy's vectorised
  * linear least squares over the same (P, e, phase) cells (scripts/reference/search_kp_timing.py,
  * same data, same run, on a strided subset of the periods so the python side finishes).
@@ -12,7 +12,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import type { BenchRow } from './bench-periodogram.ts'
 import { searchPlanets, keplerianPeriodogram, KEPLERIAN_PERIODOGRAM_DEFAULTS } from '../shared/rv/index.ts'
-import { SURVEY, makeCase } from '../tests/shared/rv/search/survey.ts'
+import { SURVEY, makeCase } from '../tests/shared/rv/planet-search/survey.ts'
 
 const here = dirname(fileURLToPath(import.meta.url))
 const PY = '/usr/bin/python3'

@@ -55,7 +55,7 @@ interface Options {
   trend: TrendKind | 'auto'
   spec: PlanetSpecInput[] | null
   minPeriod?: number; maxPeriod?: number; maxPlanets?: number; fapThreshold?: number; maxIterations?: number
-  mstar?: number; mstarErr?: number
+  starMass?: number; starMassErr?: number
 }
 
 function options(p: Parsed): Options {
@@ -66,9 +66,9 @@ function options(p: Parsed): Options {
   else throw new UsageError(`--planets must be a non-negative integer or auto, got '${ps}'`)
   const trendIn = str(p, 'trend')
   if (trendIn !== undefined && !['auto', 'none', 'linear', 'quadratic'].includes(trendIn)) throw new UsageError(`--trend must be auto, none, linear or quadratic, got '${trendIn}'`)
-  const mstar = num(p, 'star-mass', (v) => v > 0, 'a positive stellar mass in solar masses')
-  const mstarErr = num(p, 'star-mass-err', (v) => v >= 0, 'a non-negative error in solar masses')
-  if (mstarErr !== undefined && mstar === undefined) throw new UsageError('--star-mass-err needs --star-mass')
+  const starMass = num(p, 'star-mass', (v) => v > 0, 'a positive stellar mass in solar masses')
+  const starMassErr = num(p, 'star-mass-err', (v) => v >= 0, 'a non-negative error in solar masses')
+  if (starMassErr !== undefined && starMass === undefined) throw new UsageError('--star-mass-err needs --star-mass')
   const minPeriod = num(p, 'min-period', (v) => v > 0, 'a positive number of days')
   const maxPeriod = num(p, 'max-period', (v) => v > 0, 'a positive number of days')
   if (minPeriod !== undefined && maxPeriod !== undefined && !(maxPeriod > minPeriod)) throw new UsageError('--max-period must exceed --min-period')
@@ -90,7 +90,7 @@ function options(p: Parsed): Options {
     if (maxIterations !== undefined) throw new UsageError('--max-iterations applies to a model given with --planet')
   }
   const trend = (trendIn ?? (spec ? 'none' : 'auto')) as TrendKind | 'auto'
-  return { planets, trend, spec, minPeriod, maxPeriod, maxPlanets, fapThreshold, maxIterations, mstar, mstarErr }
+  return { planets, trend, spec, minPeriod, maxPeriod, maxPlanets, fapThreshold, maxIterations, starMass, starMassErr }
 }
 
 export function runFit(p: Parsed, io: CliIo): void {
@@ -114,7 +114,7 @@ export function runFit(p: Parsed, io: CliIo): void {
     throw e
   }
   const planetsOut = fit.planets.map((pl) => {
-    const d = o.mstar !== undefined ? derivedPlanet(pl, o.mstar, { mstarErr: o.mstarErr ?? 0, covariance: pl.covPKe }) : null
+    const d = o.starMass !== undefined ? derivedPlanet(pl, o.starMass, { starMassErr: o.starMassErr ?? 0, covariance: pl.covPKe }) : null
     return {
       period: pl.period, K: pl.K, e: pl.e, omegaDeg: pl.omegaDeg, tp: pl.tp, tc: pl.tc,
       msiniMjup: d ? d.msiniMjup : null, msiniMearth: d ? d.msiniMearth : null, aAu: d ? d.aAu : null,
@@ -139,7 +139,7 @@ export function runFit(p: Parsed, io: CliIo): void {
     warnings: fitWarnings(fit, input.baselineDays),
     report,
     search: steps.map((s) => ({ planets: s.planets, trend: s.trend, bic: s.bic, lnL: s.lnL, nextPeakFap: s.nextPeakFap, nextPeakPeriod: s.nextPeakPeriod })),
-    starMass: o.mstar !== undefined ? { value: o.mstar, error: o.mstarErr ?? 0 } : null,
+    starMass: o.starMass !== undefined ? { value: o.starMass, error: o.starMassErr ?? 0 } : null,
     units: UNITS,
     timingMs: { total: ms },
   }

@@ -19,7 +19,7 @@ export function fitJson(fit: PlainFit, data: RvData, ids: number[], star: StarIn
     let d: ReturnType<typeof derivedPlanet> | null = null
     try {
       const cov = p.covPKe.every(Number.isFinite) ? p.covPKe : undefined
-      d = derivedPlanet({ period: p.period, K: Math.max(p.K, 0), e: p.e }, star.massMsun, { mstarErr: star.massErrMsun, covariance: cov })
+      d = derivedPlanet({ period: p.period, K: Math.max(p.K, 0), e: p.e }, star.massMsun, { starMassErr: star.massErrMsun, covariance: cov })
     } catch { d = null }
     const aAu = d ? fin(d.aAu) : null
     return {

@@ -13,7 +13,7 @@ export interface SamplingInput {
     epoch?: number
     priors: Array<{ planet: number; param: string; gaussian?: { mu: number; sigma: number }; uniform?: { min: number; max: number } }>
   }
-  mstar: { value: number; err: number } | null
+  starMass: { value: number; err: number } | null
 }
 
 /** Sampler state and kept-chain size at a checkpoint (the chain itself is in the BYTEA columns). */

@@ -10,7 +10,7 @@ export interface LimitsInput {
   residuals: number[]
   /** Errors with the model's jitters added in quadrature, m/s. */
   dy: number[]
-  mstar: number
+  starMass: number
   /** The model's planets for the chart: label, period (d), M sin i (Earth masses). */
   planets: Array<{ label: string; period: number; massEarth: number }>
 }
@@ -19,7 +19,7 @@ export type LimitsSettingsStored = LimitsSettings
 export function problemOf(input: LimitsInput, settings: LimitsSettings, seed: number): LimitsProblem {
   return {
     data: { t: Float64Array.from(input.t), residuals: Float64Array.from(input.residuals), dy: Float64Array.from(input.dy) },
-    mstar: input.mstar,
+    starMass: input.starMass,
     seed,
     grid: {
       periods: settings.periods, masses: settings.masses, phases: settings.phases, eccentricities: settings.eccentricities,

@@ -89,7 +89,7 @@ async function inputOf(s: Services, star: Star, model: FitModel): Promise<{ inpu
     version: version.version, versionId: version.id,
     input: {
       measurementIds: rows.map((r) => r.id), t: rows.map((r) => Number(r.time)), residuals: rows.map((r) => byId.get(r.id)!),
-      dy: rows.map((r) => Math.hypot(Number(r.error), jitter.get(r.instrument) ?? 0)), mstar: star.massMsun, planets,
+      dy: rows.map((r) => Math.hypot(Number(r.error), jitter.get(r.instrument) ?? 0)), starMass: star.massMsun, planets,
     },
   }
 }
@@ -228,8 +228,8 @@ export async function finishIfComplete(s: Services, runId: number): Promise<bool
       fraction: Array.from(prep.grid.periods, (_, i) => Array.from(map.fraction.subarray(i * nM, (i + 1) * nM))),
       perCell: map.perCell,
       contour50: completenessContour(map, 0.5), contour90: completenessContour(map, 0.9), table: limitTable(map),
-      planets: run.input.planets, giants: solarSystemGiants(run.input.mstar).map((g) => ({ name: g.name, period: g.period, massEarth: g.massEarth })),
-      level: prep.recovery.level, nPoints: prep.recovery.nPoints, baseline: prep.recovery.baseline, mstar: run.input.mstar,
+      planets: run.input.planets, giants: solarSystemGiants(run.input.starMass).map((g) => ({ name: g.name, period: g.period, massEarth: g.massEarth })),
+      level: prep.recovery.level, nPoints: prep.recovery.nPoints, baseline: prep.recovery.baseline, starMass: run.input.starMass,
     }
     await s.sequelize.query(
       `UPDATE limit_runs SET state = 'succeeded', result = :result, finished_at = now(), updated_at = now() WHERE id = :run`,

@@ -31,7 +31,7 @@ export async function chainCsv(s: Services, run: SamplingRun): Promise<string> {
   for (let r = 0; r < rows.steps.length; r++) if (rows.steps[r]! % keptThin === 0 && rows.steps[r]! <= stepsDone) keep.push(r)
   const chain = new Float64Array(keep.length * W * D)
   keep.forEach((r, i) => chain.set(rows.chain.subarray(r * W * D, (r + 1) * W * D), i * W * D))
-  const { cols } = physicalColumns(data, fit, post, chain, keep.length * W, input.mstar ?? undefined, seed)
+  const { cols } = physicalColumns(data, fit, post, chain, keep.length * W, input.starMass ?? undefined, seed)
   const header = ['step', 'walker', 'after_burn_in', ...cols.map((c) => (c.unit ? `${c.name} (${c.unit})` : c.name)), 'ln posterior']
   const lines = [header.map(quote).join(',')]
   keep.forEach((r, i) => {

@@ -106,7 +106,7 @@ export async function inputFromVersion(s: Services, star: Star, version: FitMode
       epoch: result.epoch,
       priors: spec.planets.flatMap((p, k) => (p.priors ?? []).map((pr) => ({ planet: k, param: pr.param, gaussian: pr.gaussian, uniform: pr.uniform }))),
     },
-    mstar: star.massMsun > 0 ? { value: star.massMsun, err: Math.max(0, star.massErrMsun ?? 0) } : null,
+    starMass: star.massMsun > 0 ? { value: star.massMsun, err: Math.max(0, star.massErrMsun ?? 0) } : null,
   }
 }
 

@@ -64,7 +64,7 @@ export function sampleInput(input: SamplingInput, settings: SamplingSettings, ex
     walkers: settings.walkers, steps: settings.steps, burn: settings.burn ?? undefined, thin: settings.thin, seed: settings.seed,
     untilConverged: settings.untilConverged ?? false,
     fix: planets.map((p) => (p.fix ?? []) as PlanetParam[]),
-    mstar: input.mstar ?? undefined, priors, ...extra,
+    starMass: input.starMass ?? undefined, priors, ...extra,
   })
 }
 

@@ -19,8 +19,8 @@ export async function findOverlap(
   for (const x of times) { if (x < lo) lo = x; if (x > hi) hi = x }
   // One range scan of the (star_id, time) index, matched here (an ANY over 100 000 times is far slower).
   const found = await s.sequelize.query<{ time: number; instrument: string; file_name: string }>(
-    `SELECT m.time, d.instrument, d.file_name FROM measurements m JOIN datasets d ON d.id = m.dataset_id
-      WHERE m.star_id = $1 AND m.time BETWEEN $2 AND $3`,
+    `SELECT meas.time, d.instrument, d.file_name FROM measurements meas JOIN datasets d ON d.id = meas.dataset_id
+      WHERE meas.star_id = $1 AND meas.time BETWEEN $2 AND $3`,
     { bind: [starId, lo, hi], type: QueryTypes.SELECT, transaction },
   )
   if (found.length === 0) return null
@@ -41,8 +41,8 @@ export async function findOverlap(
 /** Median stored velocity (m/s) per instrument of the star. */
 export async function storedMedians(s: Services, starId: number): Promise<Map<string, number>> {
   const rows = await s.sequelize.query<{ instrument: string; median: number }>(
-    `SELECT d.instrument, percentile_cont(0.5) WITHIN GROUP (ORDER BY m.rv) AS median
-       FROM measurements m JOIN datasets d ON d.id = m.dataset_id WHERE m.star_id = $1 GROUP BY d.instrument`,
+    `SELECT d.instrument, percentile_cont(0.5) WITHIN GROUP (ORDER BY meas.rv) AS median
+       FROM measurements meas JOIN datasets d ON d.id = meas.dataset_id WHERE meas.star_id = $1 GROUP BY d.instrument`,
     { bind: [starId], type: QueryTypes.SELECT },
   )
   return new Map(rows.map((r) => [r.instrument, Number(r.median)]))

@@ -56,7 +56,7 @@ export interface LimitsResult {
   level: number
   nPoints: number
   baseline: number
-  mstar: number
+  starMass: number
 }
 
 export interface LimitsRun {

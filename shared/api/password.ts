@@ -7,7 +7,7 @@
 const COMMON = new Set([
   'password', 'passw0rd', 'passwort', 'motdepasse', 'contrasena', 'qwerty', 'qwertyuiop', 'asdfghjkl', 'azerty', 'zxcvbnm',
   'letmein', 'welcome', 'admin', 'administrator', 'iloveyou', 'monkey', 'dragon', 'football', 'baseball', 'soccer',
-  'sunshine', 'princess', 'master', 'shadow', 'superman', 'batman', 'trustno', 'starwars', 'whatever', 'freedom',
+  'sunshine', 'princess', 'master', 'shadow', 'monkey123', 'batman', 'trustno', 'starwars', 'whatever', 'freedom',
   'secret', 'changeme', 'default', 'login', 'abc', 'abcdef', 'abcdefgh', 'abcdefghij', 'computer', 'internet',
   'hello', 'hellohello', 'charlie', 'michael', 'jennifer', 'jordan', 'hunter', 'ranger', 'killer', 'pepper',
   'summer', 'winter', 'spring', 'autumn', 'starsway', 'galaxy', 'planet', 'telescope', 'universe', 'astronomy',

@@ -23,14 +23,14 @@ export interface Injection extends Keplerian {
   phase: number
 }
 
-/** The orbit of trial k around a star of `mstar` solar masses; tRef anchors the phases (e.g. the first time). */
-export function injectionOf(grid: LimitGrid, k: number, seed: number, mstar: number, tRef: number): Injection {
+/** The orbit of trial k around a star of `starMass` solar masses; tRef anchors the phases (e.g. the first time). */
+export function injectionOf(grid: LimitGrid, k: number, seed: number, starMass: number, tRef: number): Injection {
   const { iP, iM, iE, iPhase } = trialIndices(grid, k)
   const rng = createRandom(trialSeed(seed, k))
   const period = grid.periods[iP], massEarth = grid.massesEarth[iM], e = grid.eccentricities[iE]
   const phase = (iPhase + rng.next()) / grid.phases
   const omega = e > 0 ? 2 * Math.PI * rng.next() : 0
-  const K = semiAmplitude(period, earthToJupiter(massEarth), e, mstar)
+  const K = semiAmplitude(period, earthToJupiter(massEarth), e, starMass)
   return { period, K, e, omega, tp: tRef + phase * period, massEarth, phase }
 }
 

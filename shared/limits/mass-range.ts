@@ -8,7 +8,7 @@
 import { minimumMass } from '../rv/index.ts'
 import type { LimitsData } from './recovery.ts'
 
-export function defaultMassRange(data: LimitsData, mstar: number, minPeriod: number, maxPeriod: number): { minMassEarth: number; maxMassEarth: number } {
+export function defaultMassRange(data: LimitsData, starMass: number, minPeriod: number, maxPeriod: number): { minMassEarth: number; maxMassEarth: number } {
   const n = data.residuals.length
   let mean = 0
   for (const r of data.residuals) mean += r
@@ -19,7 +19,7 @@ export function defaultMassRange(data: LimitsData, mstar: number, minPeriod: num
   const sigma = Math.max(Math.sqrt(ss / n), Math.sqrt(sd / n))
   const kStar = sigma * Math.sqrt(70 / n)
   return {
-    minMassEarth: minimumMass(minPeriod, kStar / 4, 0, mstar).msiniMearth,
-    maxMassEarth: minimumMass(maxPeriod, 30 * kStar, 0, mstar).msiniMearth,
+    minMassEarth: minimumMass(minPeriod, kStar / 4, 0, starMass).msiniMearth,
+    maxMassEarth: minimumMass(maxPeriod, 30 * kStar, 0, starMass).msiniMearth,
   }
 }

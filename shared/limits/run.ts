@@ -12,7 +12,7 @@ import { defaultMassRange } from './mass-range.ts'
 export interface LimitsProblem {
   data: LimitsData
   /** Stellar mass, M☉ (the map is in M sin i for this mass). */
-  mstar: number
+  starMass: number
   grid?: LimitGridInput
   recovery?: RecoveryOptions
   /** Seed of the run (recorded; the same seed gives the same map). */
@@ -29,7 +29,7 @@ export interface PreparedLimits {
 
 export function prepareLimits(problem: LimitsProblem): PreparedLimits {
   checkLimitsData(problem.data)
-  if (!(problem.mstar > 0 && problem.mstar < 100)) throw new RangeError(`mstar must be in (0, 100) solar masses, got ${problem.mstar}`)
+  if (!(problem.starMass > 0 && problem.starMass < 100)) throw new RangeError(`starMass must be in (0, 100) solar masses, got ${problem.starMass}`)
   if (!(Number.isInteger(problem.seed) && problem.seed >= 0 && problem.seed <= 0xffffffff)) throw new RangeError(`seed must be an integer in [0, 2³²), got ${problem.seed}`)
   const t = problem.data.t
   let tmin = Infinity, tmax = -Infinity
@@ -37,7 +37,7 @@ export function prepareLimits(problem: LimitsProblem): PreparedLimits {
   const baseline = tmax - tmin
   const gi = problem.grid ?? {}
   const minP = gi.minPeriod ?? 0.5, maxP = gi.maxPeriod ?? 5 * baseline
-  const grid = makeGrid(gi, baseline, defaultMassRange(problem.data, problem.mstar, minP, maxP))
+  const grid = makeGrid(gi, baseline, defaultMassRange(problem.data, problem.starMass, minP, maxP))
   const recovery = prepareRecovery(problem.data, problem.recovery, { minPeriod: grid.periods[0], maxPeriod: grid.periods[grid.periods.length - 1] })
   return { problem, grid, recovery, tRef: tmin }
 }
@@ -66,7 +66,7 @@ export function runChunk(
   const y = new Float64Array(t.length)
   const out = new Uint8Array(end - start)
   for (let k = start; k < end; k++) {
-    const o = injectionOf(grid, k, problem.seed, problem.mstar, tRef)
+    const o = injectionOf(grid, k, problem.seed, problem.starMass, tRef)
     injectInto(t, residuals, o, y)
     out[k - start] = recoverInjected(recovery, t, y, dy, 1 / o.period).recovered ? 1 : 0
     const done = k - start + 1

@@ -15,12 +15,12 @@ const GIANTS = [
 
 export interface ChartPlanet { name: string; period: number; massEarth: number; aAu: number }
 
-/** The giants around a star of `mstar` solar masses (period in days). */
-export function solarSystemGiants(mstar: number): ChartPlanet[] {
-  if (!(mstar > 0)) throw new RangeError(`mstar must be > 0, got ${mstar}`)
+/** The giants around a star of `starMass` solar masses (period in days). */
+export function solarSystemGiants(starMass: number): ChartPlanet[] {
+  if (!(starMass > 0)) throw new RangeError(`starMass must be > 0, got ${starMass}`)
   return GIANTS.map((g) => {
     const a = g.aAu * AU
-    const period = 2 * Math.PI * Math.sqrt(a * a * a / (mstar * GM_SUN + g.gm)) / DAY
+    const period = 2 * Math.PI * Math.sqrt(a * a * a / (starMass * GM_SUN + g.gm)) / DAY
     return { name: g.name, period, massEarth: g.gm / GM_EARTH, aAu: g.aAu }
   })
 }

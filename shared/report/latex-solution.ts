@@ -51,7 +51,7 @@ export function orbitTableTex(s: ReportSnapshot): string {
     }
   }
   lines.push('\\hline', '\\end{tabular}')
-  const notes: string[] = [`$^\\dagger$ ${g.timeUnitTex}`, `stellar mass $M_\\star = ${formatPlain(s.star.massMsun)} \\pm ${formatPlain(s.star.massErrMsun)}\\,M_\\odot$ for the derived quantities`]
+  const notes: string[] = [`$^\\dagger$ ${g.timeUnitTex}`, `stellar mass $M_{\\ast} = ${formatPlain(s.star.massMsun)} \\pm ${formatPlain(s.star.massErrMsun)}\\,M_\\odot$ for the derived quantities`]
   if (g.sections.length > 2) notes.push(`drift terms about the reference epoch ${formatPlain(s.result.epoch, 10)}`)
   lines.push('\\par\\smallskip', `{\\footnotesize ${notes.join('; ')}.}`)
   lines.push(`\\end{${env}}`)

@@ -24,13 +24,13 @@ function checkPositive(name: string, v: number): void {
  * m sin i by fixed-point iteration x ← [f (M★ + x)²]^{1/3}, a contraction (slope < 2/3) for any
  * companion mass. Inputs: P (days), K (m/s), e, M★ (solar masses).
  */
-export function minimumMass(period: number, K: number, e: number, mstar: number): MinimumMass {
+export function minimumMass(period: number, K: number, e: number, starMass: number): MinimumMass {
   checkPositive('period', period)
-  checkPositive('mstar', mstar)
+  checkPositive('starMass', starMass)
   if (!(K >= 0)) throw new RangeError(`K must be ≥ 0, got ${K}`)
   if (!(e >= 0 && e < 1)) throw new RangeError(`e must be in [0, 1), got ${e}`)
   const f = period * DAY * K * K * K * Math.pow(1 - e * e, 1.5) / (2 * Math.PI) // G·f(m), m³/s²
-  const gms = mstar * GM_SUN
+  const gms = starMass * GM_SUN
   let x = Math.cbrt(f * gms * gms)
   for (let i = 0; i < 200; i++) {
     const next = Math.cbrt(f * (gms + x) * (gms + x))
@@ -45,13 +45,13 @@ export function minimumMass(period: number, K: number, e: number, mstar: number)
  * (days) and eccentricity e around a star of mass M★ (solar masses): the mass function read the
  * other way, K = [2π G / P]^{1/3} m sin i (M★ + m sin i)^{−2/3} (1 − e²)^{−1/2}.
  */
-export function semiAmplitude(period: number, msiniMjup: number, e: number, mstar: number): number {
+export function semiAmplitude(period: number, msiniMjup: number, e: number, starMass: number): number {
   checkPositive('period', period)
-  checkPositive('mstar', mstar)
+  checkPositive('starMass', starMass)
   if (!(msiniMjup >= 0)) throw new RangeError(`msiniMjup must be ≥ 0, got ${msiniMjup}`)
   if (!(e >= 0 && e < 1)) throw new RangeError(`e must be in [0, 1), got ${e}`)
   const gm = msiniMjup * GM_JUPITER
-  const gms = mstar * GM_SUN
+  const gms = starMass * GM_SUN
   return Math.cbrt(2 * Math.PI / (period * DAY)) * gm / Math.pow(gms + gm, 2 / 3) / Math.sqrt(1 - e * e)
 }
 
@@ -59,12 +59,12 @@ export function semiAmplitude(period: number, msiniMjup: number, e: number, msta
  * Semi-major axis (au) of the relative orbit from Kepler's third law, a³ = G(M★ + m) P² / 4π².
  * `mplanetMsun` is the companion's mass in solar masses (use M sin i for a minimum-mass estimate).
  */
-export function semiMajorAxis(period: number, mstar: number, mplanetMsun = 0): number {
+export function semiMajorAxis(period: number, starMass: number, mplanetMsun = 0): number {
   checkPositive('period', period)
-  checkPositive('mstar', mstar)
+  checkPositive('starMass', starMass)
   if (!(mplanetMsun >= 0)) throw new RangeError(`mplanetMsun must be ≥ 0, got ${mplanetMsun}`)
   const p = period * DAY
-  return Math.cbrt(GM_SUN * (mstar + mplanetMsun) * p * p / (4 * Math.PI * Math.PI)) / AU
+  return Math.cbrt(GM_SUN * (starMass + mplanetMsun) * p * p / (4 * Math.PI * Math.PI)) / AU
 }
 
 export interface DerivedPlanet extends MinimumMass {
@@ -79,19 +79,19 @@ export interface DerivedPlanet extends MinimumMass {
  */
 export function derivedPlanet(
   orbit: { period: number; K: number; e: number },
-  mstar: number,
-  opts: { mstarErr?: number; covariance?: ArrayLike<number> } = {},
+  starMass: number,
+  opts: { starMassErr?: number; covariance?: ArrayLike<number> } = {},
 ): DerivedPlanet {
   const { period, K, e } = orbit
-  const mstarErr = opts.mstarErr ?? 0
-  if (!(mstarErr >= 0)) throw new RangeError(`mstarErr must be ≥ 0, got ${mstarErr}`)
+  const starMassErr = opts.starMassErr ?? 0
+  if (!(starMassErr >= 0)) throw new RangeError(`starMassErr must be ≥ 0, got ${starMassErr}`)
   const evalAt = (p: number, k: number, ee: number, ms: number): [number, number] => {
     const m = minimumMass(p, Math.max(k, 0), Math.min(Math.max(ee, 0), 0.999999), ms)
     return [m.msiniMjup, semiMajorAxis(p, ms, m.msiniMsun)]
   }
-  const base = minimumMass(period, K, e, mstar)
-  const aAu = semiMajorAxis(period, mstar, base.msiniMsun)
-  const x = [period, K, e, mstar]
+  const base = minimumMass(period, K, e, starMass)
+  const aAu = semiMajorAxis(period, starMass, base.msiniMsun)
+  const x = [period, K, e, starMass]
   const grads: number[][] = [] // grads[j] = ∂(msini, a)/∂x_j
   for (let j = 0; j < 4; j++) {
     const h = j === 2 ? Math.min(1e-6, Math.max(1e-9, (1 - e) / 10)) : 1e-6 * Math.abs(x[j])
@@ -107,7 +107,7 @@ export function derivedPlanet(
       const c = opts.covariance
       for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) varOut[q] += grads[i][q] * grads[j][q] * c[i * 3 + j]
     }
-    varOut[q] += grads[3][q] * grads[3][q] * mstarErr * mstarErr
+    varOut[q] += grads[3][q] * grads[3][q] * starMassErr * starMassErr
   }
   const sm = Math.sqrt(Math.max(varOut[0], 0))
   return {

@@ -10,7 +10,7 @@ export {
   type InstrumentFit, type FitStats, type FitResult, fitKeplerians, fitBaseline, jitterMle, E_MAX,
 } from './orbit-fit.ts'
 export { type StartOptions, type ScoredStart, planetStarts } from './orbit-start.ts'
-export * from './search/index.ts'
+export * from './planet-search/index.ts'
 export { type MinimumMass, type DerivedPlanet, minimumMass, semiAmplitude, semiMajorAxis, derivedPlanet } from './derived.ts'
 export * from './periodogram.ts'
 export {
@@ -46,7 +46,7 @@ export {
   type CurveTrend, type CurveSampling, CURVE_DEFAULTS, curveTimes, modelVelocity, phaseOf, phaseCurve,
 } from './model-curve.ts'
 export { type Coincidence, COINCIDENCE_FAP, coincidences, peakWidth } from './peak-coincidence.ts'
-export { type FitWarningCode, type FitWarningItem, E_WARN, planetLetter, fitWarnings } from './fit-warnings.ts'
+export { type FitWarningCode, type FitWarningItem, E_WARN, planetLetter, fitWarnings } from './orbit-fit-warnings.ts'
 export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
 export {
   type IndicatorColumn, type IndicatorPeak, type IndicatorDiagnostics, type IndicatorOptions, type InstrumentCorrelation,
@@ -59,4 +59,4 @@ export {
 export {
   type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, type GpPosterior, fitWithGp, trainGpOnIndicator, gpLogPosterior,
 } from './gp-fit.ts'
-export { type SearchSummary, searchSummary } from './search-summary.ts'
+export { type SearchSummary, searchSummary } from './planet-search-summary.ts'

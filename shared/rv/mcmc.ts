@@ -81,7 +81,7 @@ export interface SampleOptions {
   /** Seed of the run; default 1. */
   seed?: number
   /** Stellar mass (solar masses) and its 1σ error, for M sin i and a. */
-  mstar?: { value: number; err: number }
+  starMass?: { value: number; err: number }
   /** Extra priors on physical parameters (multiplied into the defaults of posterior.ts). */
   priors?: SamplingPrior[]
   /** Parameters held fixed, per planet (default: the model's `fix` lists, or for a FitResult `fixedInFit`). */
@@ -253,7 +253,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   const maxRows = intOpt('maxSampleRows', options.maxSampleRows, 2000, 1)
   const ballScale = options.ballScale ?? 0.1
   if (!(ballScale > 0)) throw new RangeError(`ballScale must be > 0, got ${ballScale}`)
-  if (options.mstar && !(options.mstar.value > 0 && options.mstar.err >= 0)) throw new RangeError('mstar needs value > 0 and err ≥ 0')
+  if (options.starMass && !(options.starMass.value > 0 && options.starMass.err >= 0)) throw new RangeError('starMass needs value > 0 and err ≥ 0')
 
   const fit = isFitResult(model) ? model : fitKeplerians(data, model)
   const fitPriors = isFitResult(model) ? [] : (model.priors ?? [])
@@ -374,7 +374,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   if (!fit.success) warnings.push(`The starting fit did not converge (${fit.message}); the walkers started from its last point.`)
   const converged = !userStopped && shortOnes.length === 0 && badRhat.length === 0 && acc >= 0.15 && !(acc > 0.2 && accMin < 0.05)
 
-  const { cols, fixedCols } = physicalColumns(data, fit, post, chain, nPost * walkers, options.mstar, seed)
+  const { cols, fixedCols } = physicalColumns(data, fit, post, chain, nPost * walkers, options.starMass, seed)
   const parameters = cols.map((c) => {
     if (fixedCols.has(c.name)) {
       const v = c.v[0]

@@ -7,7 +7,7 @@
  * the same range, the search's detection statistic, so the screen shows what the search sees.
  */
 import { centreByInstrument } from './centring.ts'
-import { keplerianPeriodogram, keplerianPeaks, KEPLERIAN_PERIODOGRAM_DEFAULTS } from './search/index.ts'
+import { keplerianPeriodogram, keplerianPeaks, KEPLERIAN_PERIODOGRAM_DEFAULTS } from './planet-search/index.ts'
 import {
   periodogram, findPeaks, falseAlarmLevel, windowFunction, defaultMinPeriod, defaultMaxPeriod, GRID_DEFAULTS,
 } from './periodogram.ts'

@@ -12,11 +12,11 @@ const IRAF = 'IRAF observatory database, as listed in astropy-data coordinates/s
  * about a microsecond (1 km of position is 3.3 µs of light time) — far below any RV need.
  */
 export const SITES: readonly NamedSite[] = [
-  { id: 'la-silla', name: 'La Silla (Chile)', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347, source: IRAF },
-  { id: 'paranal', name: 'Cerro Paranal (Chile)', lonDeg: -70.404987, latDeg: -24.627439, heightM: 2669, source: 'astropy-data sites.json (ESO VLTI data products)' },
-  { id: 'las-campanas', name: 'Las Campanas (Chile)', lonDeg: -70.701667, latDeg: -29.003333, heightM: 2282, source: IRAF },
-  { id: 'cerro-tololo', name: 'Cerro Tololo (Chile)', lonDeg: -70.815, latDeg: -30.165278, heightM: 2215, source: IRAF },
-  { id: 'cerro-pachon', name: 'Cerro Pachón (Chile)', lonDeg: -70.736683, latDeg: -30.240742, heightM: 2750, source: 'astropy-data sites.json (observatory web site)' },
+  { id: 'la-silla', name: 'La Silla', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347, source: IRAF },
+  { id: 'paranal', name: 'Cerro Paranal', lonDeg: -70.404987, latDeg: -24.627439, heightM: 2669, source: 'astropy-data sites.json (ESO VLTI data products)' },
+  { id: 'las-campanas', name: 'Las Campanas', lonDeg: -70.701667, latDeg: -29.003333, heightM: 2282, source: IRAF },
+  { id: 'cerro-tololo', name: 'Cerro Tololo', lonDeg: -70.815, latDeg: -30.165278, heightM: 2215, source: IRAF },
+  { id: 'cerro-pachon', name: 'Cerro Pachón', lonDeg: -70.736683, latDeg: -30.240742, heightM: 2750, source: 'astropy-data sites.json (observatory web site)' },
   { id: 'la-palma', name: 'Roque de los Muchachos (La Palma)', lonDeg: -17.88, latDeg: 28.758333, heightM: 2327, source: IRAF },
   { id: 'teide', name: 'Teide (Tenerife)', lonDeg: -16.509722, latDeg: 28.3, heightM: 2390, source: 'astropy-data sites.json (observatory web site)' },
   { id: 'calar-alto', name: 'Calar Alto (Spain)', lonDeg: -2.546111, latDeg: 37.223611, heightM: 2168, source: 'astropy-data sites.json (encyclopaedia page)' },

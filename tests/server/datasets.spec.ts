@@ -90,7 +90,7 @@ describe('measurements carry their time scale', () => {
 
 describe('star astrometry', () => {
   it('stores proper motion, its epoch and a default observatory; refuses a proper motion without coordinates', async () => {
-    const site = { id: 'la-silla', name: 'La Silla (Chile)', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347 }
+    const site = { id: 'la-silla', name: 'La Silla', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347 }
     const created = await analyst.post(`/api/teams/${teamId}/stars`, {
       name: 'Fast mover', massMsun: 0.16, massErrMsun: 0.01, raDeg: 269.4486, decDeg: 4.7392,
       pmRaMasYr: -801.55, pmDecMasYr: 10362.5, coordEpochJd: 2457389.0, defaultSite: site,

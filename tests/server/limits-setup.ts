@@ -20,7 +20,7 @@ export async function insertFinishedSamplingRun(w: SamplingWorld): Promise<numbe
   const P = col(() => 12.3 + 0.01 * r.normal())
   const columns = [P, col(() => 30 + r.normal()), col(() => 0.02 * r.next()), col(() => 360 * r.next()), col(() => 2459001.2 + 0.05 * r.normal()),
     col(() => 2459001.2 + 0.05 * r.normal()), col(() => 0.5 * r.normal()), col(() => 1 + 0.1 * r.next()), col(() => 0)]
-  const input = { data: { measurementIds: [], t: [], y: [], dy: [3, 3, 3], instrument: [0, 0, 0], instrumentNames: ['default'] }, model: { planets: [], trend: 'none', epoch: 2459050 }, mstar: null }
+  const input = { data: { measurementIds: [], t: [], y: [], dy: [3, 3, 3], instrument: [0, 0, 0], instrumentNames: ['default'] }, model: { planets: [], trend: 'none', epoch: 2459050 }, starMass: null }
   const result = { parameters: [], sample: { names, units: names.map(() => ''), step: col(() => 1), walker: col(() => 0), columns }, diagnostics: {}, settings: {}, start: {} }
   const [rows] = await w.services.sequelize.query(
     `INSERT INTO sampling_runs (star_id, settings, input, state, result, created_at, updated_at)

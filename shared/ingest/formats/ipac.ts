@@ -2,7 +2,7 @@ import { readTimeWords } from '../time-words.ts'
 import { scaleFromMeta, type ArchiveLayout, type FixedField } from './layout.ts'
 
 /**
- * IPAC table (`.tbl`, NASA/IPAC Infrared Science Archive format): `\keyword = value` and `\ comment`
+ * IPAC table (`.tbl`, the infrared science archive's text table format): `\keyword = value` and `\ comment`
  * lines, then up to four `|`-separated header lines (names, types, units, null values), then the
  * body, fixed-width under the `|` positions. `\TIMESYS` names the time scale.
  */

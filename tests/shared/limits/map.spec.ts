@@ -13,7 +13,7 @@ function whiteNoiseProblem(seed: number): LimitsProblem {
   const t = Float64Array.from({ length: n }, () => 2460000 + 400 * r.next()).sort()
   return {
     data: { t, residuals: Float64Array.from({ length: n }, () => 3 * r.normal()), dy: new Float64Array(n).fill(3) },
-    mstar: 0.9, seed,
+    starMass: 0.9, seed,
     grid: { periods: 7, masses: 6, phases: 4, eccentricities: [0, 0.4] },
   }
 }
@@ -75,9 +75,9 @@ describe('the limit map', () => {
   it('injects the semi-amplitude of the grid mass (mass → K → mass round trip)', () => {
     const prep = prepareLimits(problem)
     for (const k of [0, 17, 150, prep.grid.trials - 1]) {
-      const o = injectionOf(prep.grid, k, problem.seed, problem.mstar, 0)
-      expectClose(minimumMass(o.period, o.K, o.e, problem.mstar).msiniMearth, o.massEarth, { rtol: 1e-9 })
-      expectClose(o.K, semiAmplitude(o.period, o.massEarth * 3.986004e14 / 1.2668653e17, o.e, problem.mstar), { rtol: 1e-12 })
+      const o = injectionOf(prep.grid, k, problem.seed, problem.starMass, 0)
+      expectClose(minimumMass(o.period, o.K, o.e, problem.starMass).msiniMearth, o.massEarth, { rtol: 1e-9 })
+      expectClose(o.K, semiAmplitude(o.period, o.massEarth * 3.986004e14 / 1.2668653e17, o.e, problem.starMass), { rtol: 1e-12 })
     }
   })
 })

@@ -113,7 +113,7 @@ describe('command line: fit', () => {
     expect(typeof doc.timingMs.total).toBe('number')
   })
 
-  it('fits 51 Peg with one planet and no trend; masses are null without --mstar', () => {
+  it('fits 51 Peg with one planet and no trend; masses are null without --star-mass', () => {
     const doc = JSON.parse(run(['fit', published('51peg-six-instruments.txt'), '--planets', '1', '--trend', 'none', '--json']).out)
     expect(doc.input.instruments).toHaveLength(6)
     expect(doc.trend).toBeNull()
@@ -169,7 +169,7 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     ['bad planets', ['fit', 'x.csv', '--planets', 'many'], /--planets/],
     ['bad trend', ['fit', 'x.csv', '--trend', 'cubic'], /--trend/],
     ['star-mass-err alone', ['fit', 'x.csv', '--star-mass-err', '0.1'], /--star-mass-err needs --star-mass/],
-    ['old mass spelling', ['fit', 'x.csv', '--mstar', '1'], /unknown option --mstar/],
+    ['a mass option not ours', ['fit', 'x.csv', '--mass', '1'], /unknown option --mass/],
     ['bad planet spec', ['fit', 'x.csv', '--planet', 'period=-3'], /--planet b: period/],
     ['prior without planet', ['fit', 'x.csv', '--prior', 'b.e=uniform:0:0.5'], /--prior needs/],
     ['bad prior', ['fit', 'x.csv', '--planet', 'period=3', '--prior', 'b.e=gauss:0'], /--prior/],

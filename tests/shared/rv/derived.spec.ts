@@ -25,14 +25,14 @@ describe('derived quantities', () => {
 
   it('carries the stellar-mass error: σm/m = ⅔ σM/M and σa/a = ⅓ σM/M for a small planet', () => {
     // First-order propagation of m ∝ M★^{2/3} and a ∝ M★^{1/3} (Kepler's third law).
-    const d = derivedPlanet({ period: 50, K: 10, e: 0.2 }, 1.0, { mstarErr: 0.06 })
+    const d = derivedPlanet({ period: 50, K: 10, e: 0.2 }, 1.0, { starMassErr: 0.06 })
     expectClose(d.uncertainty.msiniMjup / d.msiniMjup, (2 / 3) * 0.06, { rtol: 2e-3 }, 'σm/m')
     expectClose(d.uncertainty.aAu / d.aAu, (1 / 3) * 0.06, { rtol: 2e-3 }, 'σa/a')
   })
 
   it('combines the K error with the stellar-mass error in quadrature', () => {
     const cov = [0, 0, 0, 0, 0.25, 0, 0, 0, 0] // σK = 0.5 m/s
-    const d = derivedPlanet({ period: 50, K: 10, e: 0.2 }, 1.0, { mstarErr: 0.06, covariance: cov })
+    const d = derivedPlanet({ period: 50, K: 10, e: 0.2 }, 1.0, { starMassErr: 0.06, covariance: cov })
     const expected = Math.hypot(0.5 / 10, (2 / 3) * 0.06)
     expectClose(d.uncertainty.msiniMjup / d.msiniMjup, expected, { rtol: 3e-3 }, 'σm/m')
   })
@@ -45,7 +45,7 @@ describe('derived quantities', () => {
 
   it('rejects misuse naming the parameter', () => {
     expect(() => minimumMass(0, 1, 0, 1)).toThrow(/period/)
-    expect(() => minimumMass(1, 1, 0, -1)).toThrow(/mstar/)
-    expect(() => derivedPlanet({ period: 1, K: 1, e: 0 }, 1, { mstarErr: -1 })).toThrow(/mstarErr/)
+    expect(() => minimumMass(1, 1, 0, -1)).toThrow(/starMass/)
+    expect(() => derivedPlanet({ period: 1, K: 1, e: 0 }, 1, { starMassErr: -1 })).toThrow(/starMassErr/)
   })
 })

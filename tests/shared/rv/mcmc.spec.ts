@@ -24,8 +24,8 @@ describe('posterior of a one-planet, high signal-to-noise system', () => {
     instruments: [{ name: 'A', offset: 12, jitter: 2, err: [1, 2] }],
   })
   const fit = fitKeplerians(data, { planets: [{ period: 21.4, K: 40, e: 0.3, omegaDeg: 115, tp: 2455010 }] })
-  const mstar = { value: 0.9, err: 0.05 }
-  const res = samplePosterior(data, fit, { walkers: 32, steps: 2500, burn: 500, seed: 21, mstar, untilConverged: false })
+  const starMass = { value: 0.9, err: 0.05 }
+  const res = samplePosterior(data, fit, { walkers: 32, steps: 2500, burn: 500, seed: 21, starMass, untilConverged: false })
 
   it('mixes well (split-R̂ < 1.02, healthy acceptance); this short test run is honestly below 50 τ', () => {
     expect(fit.success).toBe(true)
@@ -56,7 +56,7 @@ describe('posterior of a one-planet, high signal-to-noise system', () => {
 
   it('draws M sin i and a with the stellar-mass error (width as derivedPlanet propagates it)', () => {
     const p = fit.planets[0]
-    const d = derivedPlanet(p, mstar.value, { mstarErr: mstar.err, covariance: p.covPKe })
+    const d = derivedPlanet(p, starMass.value, { starMassErr: starMass.err, covariance: p.covPKe })
     const m = get(res, 'M sin i b'), me = get(res, 'M sin i b (Earth masses)'), a = get(res, 'a b')
     expectClose(m.median, d.msiniMjup, { atol: 0.3 * d.uncertainty.msiniMjup }, 'M sin i median')
     expectClose(m.sd, d.uncertainty.msiniMjup, { rtol: 0.2 }, 'M sin i sd')
@@ -303,7 +303,7 @@ describe('sampling runs: reproducibility, stopping, warnings, misuse', () => {
     expect(() => samplePosterior(data, spec, { walkers: 6 })).toThrow(/walkers/)
     expect(() => samplePosterior(data, spec, { steps: 100, burn: 100 })).toThrow(/burn/)
     expect(() => samplePosterior(data, spec, { thin: 0 })).toThrow(/thin/)
-    expect(() => samplePosterior(data, spec, { mstar: { value: -1, err: 0 } })).toThrow(/mstar/)
+    expect(() => samplePosterior(data, spec, { starMass: { value: -1, err: 0 } })).toThrow(/starMass/)
     expect(() => samplePosterior(data, spec, { walkers: 12, rhatGroups: 5 })).toThrow(/rhatGroups/)
     expect(() => samplePosterior(data, spec, { walkers: 12, keptRows: 7 })).toThrow(/keptRows/)
   })

@@ -84,7 +84,7 @@ describe('HD 20868, HARPS in km/s (Moutou et al. 2009, A&A 496, 513, Table 4; fi
   it('gives M sin i ≈ 1.99 M_Jup and a ≈ 0.947 au for M★ ≈ 0.78 M☉ (values from memory)', () => {
     // From memory, not checked against the paper: m sin i ≈ 1.99 M_Jup, a ≈ 0.947 au for M★ ≈ 0.78 M☉.
     const p = r.fit.planets[0]
-    const d = derivedPlanet(p, 0.78, { mstarErr: 0.03, covariance: p.covPKe })
+    const d = derivedPlanet(p, 0.78, { starMassErr: 0.03, covariance: p.covPKe })
     expectClose(d.msiniMjup, 1.99, { atol: 0.05 }, 'M sin i')
     expectClose(d.aAu, 0.947, { atol: 0.01 }, 'a')
     expect(d.uncertainty.msiniMjup).toBeGreaterThan(0)

@@ -8,5 +8,5 @@ export const RESULT: LimitsResult = {
   contour90: [{ period: 1, massEarth: 30, flag: 'inside' }, { period: 10, massEarth: 100, flag: 'inside' }, { period: 100, massEarth: null, flag: 'not-reached' }],
   table: [{ from: 1, to: 10, mass50Earth: 5, mass90Earth: 30, meanCompleteness: 0.6 }, { from: 10, to: 100, mass50Earth: 20, mass90Earth: null, meanCompleteness: 0.5 }],
   planets: [{ label: 'b', period: 12.3, massEarth: 80 }], giants: [{ name: 'Jupiter', period: 4332, massEarth: 317.8 }],
-  level: 0.12, nPoints: 40, baseline: 97, mstar: 0.9,
+  level: 0.12, nPoints: 40, baseline: 97, starMass: 0.9,
 }

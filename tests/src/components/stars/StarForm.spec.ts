@@ -65,7 +65,7 @@ describe('StarForm astrometry', () => {
   })
 
   it('emits proper motion, the epoch as a Julian date and a site from the table', async () => {
-    wrapper = mountWithApp(StarForm, { props: { initial: { defaultSite: { id: 'la-silla', name: 'La Silla (Chile)', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347 } } } })
+    wrapper = mountWithApp(StarForm, { props: { initial: { defaultSite: { id: 'la-silla', name: 'La Silla', lonDeg: -70.73, latDeg: -29.256667, heightM: 2347 } } } })
     await fill(wrapper, { name: 'Fast', massMsun: '0.16', massErrMsun: '0.01', raDeg: '269.4486', decDeg: '4.7392', pmRaMasYr: '-801.55', pmDecMasYr: '10362.5', epochYear: '2016.0' })
     await wrapper.find('form').trigger('submit')
     await settle()

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs'
 import { searchPlanets, fitKeplerians, tpToTc, type RvData, type SearchResult } from '../../../../shared/rv/index.ts'
 import { SURVEY, makeCase, type SurveyCase } from './survey.ts'
 
-// The synthetic survey of issue 9 (tests/shared/rv/search/survey.ts, seeded; data in
+// The synthetic survey of issue 9 (tests/shared/rv/planet-search/survey.ts, seeded; data in
 // fixtures/search/survey-*.json) against an independent fit of each case's true model by scipy
 // 1.10.1 differential_evolution + least_squares (scripts/reference/search_reference.py →
 // fixtures/search/reference.json). The search, from the data alone, must pick the true number of

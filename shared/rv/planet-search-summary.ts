@@ -2,7 +2,7 @@
  * The search's judgement beside its chosen model — flags, alias partners, alternatives (without
  * their fits) and the settings used — as plain JSON, the same for the CLI's `--json` and the API.
  */
-import type { SearchResult } from './search/index.ts'
+import type { SearchResult } from './planet-search/index.ts'
 import type { TrendKind } from './orbit-fit-types.ts'
 
 export interface SearchSummary {
