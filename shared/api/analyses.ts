@@ -145,11 +145,55 @@ export const planetSpecSchema = z.object({
 })
 export type PlanetSpec = z.infer<typeof planetSpecSchema>
 
+/**
+ * The noise model of a fit: white noise (the quoted errors plus one jitter per instrument) or a
+ * Gaussian process for correlated stellar noise on top of it. The GP fields mirror
+ * `GpHyperSpec` in `shared/rv/gp-fit.ts` (that module states the priors each one gets).
+ */
+export const gpKernelSchema = z.enum(['rotation', 'quasi-periodic'])
+export type GpKernelName = z.infer<typeof gpKernelSchema>
+export const gpNoiseSchema = z.object({
+  kind: z.literal('gp'),
+  kernel: gpKernelSchema.default('rotation'),
+  /** Rotation period (d): prior centre, its 1σ (default 10 %), where it came from, optional start. */
+  period: z.object({
+    value: positive(), sigma: positive().optional(), fixed: z.boolean().optional(),
+    source: z.string().trim().max(200).optional(), start: positive().optional(),
+  }),
+  /** Decay time of the active regions (d): start, or the value when fixed. */
+  decayTime: z.object({ value: positive().optional(), fixed: z.boolean().optional() }).optional(),
+  /** Rotation kernel: shape factor in [0, 1]; quasi-periodic: Γ > 0. */
+  shape: z.object({ value: z.number().finite().min(0, 'must not be negative').optional(), fixed: z.boolean().optional() }).optional(),
+  /** Amplitude(s) in m/s: starts, or values when fixed; one per instrument when `perInstrument`. */
+  amplitude: z.object({
+    value: z.array(positive()).max(20).optional(), fixed: z.boolean().optional(), perInstrument: z.boolean().optional(),
+  }).optional(),
+}).superRefine((v, ctx) => {
+  if (v.decayTime?.fixed && v.decayTime.value === undefined) ctx.addIssue({ code: 'custom', path: ['decayTime', 'value'], message: 'give the value to fix it at' })
+  if (v.shape?.fixed && v.shape.value === undefined) ctx.addIssue({ code: 'custom', path: ['shape', 'value'], message: 'give the value to fix it at' })
+  if (v.kernel === 'rotation' && v.shape?.value !== undefined && v.shape.value > 1) ctx.addIssue({ code: 'custom', path: ['shape', 'value'], message: 'the rotation kernel\'s shape factor lies in [0, 1]' })
+  if (v.amplitude?.fixed && !v.amplitude.value?.length) ctx.addIssue({ code: 'custom', path: ['amplitude', 'value'], message: 'give the value(s) to fix them at' })
+})
+export const noiseModelSchema = z.union([z.object({ kind: z.literal('white') }), gpNoiseSchema])
+export type NoiseModelSpec = z.infer<typeof noiseModelSchema>
+export type GpNoiseSpec = z.infer<typeof gpNoiseSchema>
+
+/** Per-instrument terms the user pins: a fixed jitter (m/s) instead of a fitted one. */
+export const instrumentTermSchema = z.object({
+  instrument: z.string().trim().min(1).max(120),
+  jitter: z.number().finite().min(0, 'must not be negative').max(10000).optional(),
+})
+export type InstrumentTermSpec = z.infer<typeof instrumentTermSchema>
+
 export const modelSpecSchema = z.object({
   planets: z.array(planetSpecSchema).max(8, 'at most 8 planets'),
   trend: trendSchema.default('none'),
   /** Instruments fitted (null or absent: all of the star's). */
   instruments: instrumentsSchema.nullable().optional(),
+  /** Noise model (absent: white noise). */
+  noise: noiseModelSchema.optional(),
+  /** Jitters pinned per instrument (absent: every jitter fitted). */
+  instrumentTerms: z.array(instrumentTermSchema).max(20).optional(),
 })
 export type ModelSpec = z.infer<typeof modelSpecSchema>
 export type ModelSpecInput = z.input<typeof modelSpecSchema>
