@@ -43,6 +43,14 @@ export interface PeriodogramReportInput {
    * trial period; `keplerianPeriodogram`) over the same period range (needs `instrument`).
    */
   keplerian?: boolean
+  /** Also the whole curves (every grid frequency) for storage: `PeriodogramReport.full`. */
+  full?: boolean
+}
+
+/** Every computed power (not down-sampled): the GLS on its regular grid, the Keplerian with its frequencies. */
+export interface FullCurves {
+  grid: { f0: number; df: number; power: Float32Array }
+  keplerian: { frequency: Float64Array; power: Float32Array } | null
 }
 
 /** The Keplerian periodogram as the product shows it beside the GLS. */
@@ -74,6 +82,8 @@ export interface PeriodogramReport {
   fapLevels: Array<{ fap: number; power: number }>
   downsampling: string
   keplerian: KeplerianReport | null
+  /** Present when asked for (`full: true`). */
+  full?: FullCurves
 }
 
 /**
@@ -139,6 +149,7 @@ export function periodogramReport(inp: PeriodogramReportInput): PeriodogramRepor
   const peaks = findPeaks(t, y, dy, pg, { count: inp.peaks ?? REPORT_PEAKS })
   const win = windowFunction(t, grid)
   let keplerian: KeplerianReport | null = null
+  let fullKeplerian: FullCurves['keplerian'] = null
   if (inp.keplerian) {
     if (!inp.instrument) throw new RangeError('the Keplerian periodogram needs the instrument of every point')
     let nInst = 0
@@ -146,6 +157,7 @@ export function periodogramReport(inp: PeriodogramReportInput): PeriodogramRepor
     const data = { t, y: Float64Array.from(inp.y), dy, instrument: Int32Array.from(inp.instrument), instrumentNames: Array.from({ length: nInst }, (_, k) => `#${k + 1}`) }
     const kp = keplerianPeriodogram(data, { minPeriod, maxPeriod })
     const chi2 = kp.chi2Null
+    if (inp.full) fullKeplerian = { frequency: Float64Array.from(kp.frequency), power: Float32Array.from(kp.power) }
     keplerian = {
       curve: downsampleCurve(kp.frequency, kp.power),
       peaks: keplerianPeaks(kp, inp.peaks ?? REPORT_PEAKS).map((p) => ({ period: p.period, frequency: p.frequency, power: chi2 > 0 ? p.dchi2 / chi2 : 0, dchi2: p.dchi2, e: p.e })),
@@ -156,6 +168,7 @@ export function periodogramReport(inp: PeriodogramReportInput): PeriodogramRepor
   }
   return {
     keplerian,
+    ...(inp.full ? { full: { grid: { f0: grid.f0, df: grid.df, power: Float32Array.from(pg.power) }, keplerian: fullKeplerian } } : {}),
     settings: { minPeriod, maxPeriod, oversample },
     grid: { minFrequency: grid.f0, maxFrequency: fmax, count: grid.count, method: pg.method },
     curve: downsampleCurve(pg.frequency, pg.power),
