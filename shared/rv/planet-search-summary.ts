@@ -12,10 +12,12 @@ export interface SearchSummary {
     aliases: Array<{ period: number; relation: string; lnL: number; converged: boolean }>
   }>
   alternatives: Array<{ description: string; planets: number; trend: TrendKind; bic: number; lnL: number }>
+  /** Flagged candidates: kept by the BIC and false-alarm rules, not counted as planets (their doubts in `flags`). */
+  candidates: Array<{ period: number; K: number; e: number; omegaDeg: number; deltaLnL: number; deltaBic: number; kinds: string[] }>
   settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; maxPlanets: number }
 }
 
-export function searchSummary(r: Pick<SearchResult, 'flags' | 'signals' | 'alternatives' | 'settings'>): SearchSummary {
+export function searchSummary(r: Pick<SearchResult, 'flags' | 'signals' | 'alternatives' | 'settings'> & Partial<Pick<SearchResult, 'candidates'>>): SearchSummary {
   const fin = (v: number | null | undefined): number | null => (v !== null && v !== undefined && Number.isFinite(v) ? v : null)
   return {
     flags: r.flags.map((f) => ({ kind: f.kind, severity: f.severity, period: f.period, instrument: f.instrument, message: f.message })),
@@ -25,6 +27,7 @@ export function searchSummary(r: Pick<SearchResult, 'flags' | 'signals' | 'alter
     })),
     alternatives: r.alternatives.filter((x) => Number.isFinite(x.bic) && Number.isFinite(x.lnL))
       .map((x) => ({ description: x.description, planets: x.planets, trend: x.trend, bic: x.bic, lnL: x.lnL })),
+    candidates: (r.candidates ?? []).map((c) => ({ period: c.period, K: c.K, e: c.e, omegaDeg: c.omegaDeg, deltaLnL: c.deltaLnL, deltaBic: c.deltaBic, kinds: c.flags.map((f) => f.kind) })),
     settings: { minPeriod: r.settings.minPeriod, maxPeriod: r.settings.maxPeriod, bicThreshold: r.settings.bicThreshold, maxPlanets: r.settings.maxPlanets },
   }
 }

@@ -34,7 +34,7 @@ import { checkRvData, type RvData } from '../orbit-data.ts'
 import { defaultMinPeriod, defaultMaxPeriod } from '../periodogram-core.ts'
 import { keplerianPeriodogram, keplerianPeaks, type KeplerianPeriodogramResult } from './keplerian-periodogram.ts'
 import { aliasPartners } from './aliases.ts'
-import { rejections, warnings, type SignalFlag } from './warrant.ts'
+import { rejections, warnings, candidateDoubts, type SignalFlag } from './warrant.ts'
 import { SEARCH_DEFAULTS } from './defaults.ts'
 import { vetOrbits, type ActivityVetting } from '../activity-vetting.ts'
 import type { IndicatorColumn } from '../activity-indicators.ts'
@@ -106,6 +106,19 @@ export interface SignalReport {
   runnerUpDeltaLnL: number | null
 }
 
+/**
+ * A signal the BIC and false-alarm rules would keep but whose warrant leaves a doubt
+ * (./warrant.ts `candidateDoubts`): reported with its fit and flags, not counted as a planet.
+ */
+export interface CandidateSignal {
+  period: number; K: number; e: number; omegaDeg: number
+  /** lnL and BIC of the model with it minus the chosen model's. */
+  deltaLnL: number; deltaBic: number
+  flags: SignalFlag[]
+  /** The model with the candidate added (its last planet). */
+  fit: FitResult
+}
+
 /** A model fitted as an alternative to the chosen one (e.g. a long orbit in place of a trend). */
 export interface AlternativeModel { description: string; planets: number; trend: TrendKind; bic: number; lnL: number; fit: FitResult }
 
@@ -118,6 +131,8 @@ export interface SearchResult {
   /** Rejections, warnings and notes, each with a readable message. */
   flags: SignalFlag[]
   alternatives: AlternativeModel[]
+  /** Flagged candidates (auto mode): signals that passed the BIC and false-alarm rules but not the warrant's doubts. */
+  candidates: CandidateSignal[]
   /** The options the search ran with, defaults filled in. */
   settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; falseAlarm: number; maxPlanets: number; trend: TrendKind | 'auto'; planets: number | 'auto' }
   /** Keplerian periodogram of each step's residuals (only with `keepPeriodograms`). */
@@ -284,6 +299,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const chosenAt: Array<[TrendKind, FitResult]> = []
   const signalsAt: AliasTrial[][] = []
   const steps: SearchStep[] = []
+  const candidates: CandidateSignal[] = []
   const first = chooseTrend(fitAll([], undefined), bicThreshold)
   if (!first) throw new RangeError('the data cannot be fitted even without planets (too few points per instrument?)')
   chosenAt.push(first)
@@ -316,6 +332,13 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     }
     const rej = rejections(data, next[1], k, D.oneInstrumentShare) // the new planet is the last one
     if (rej.length) { flags.push(...rej); break }
+    const doubts = candidateDoubts(data, next[1], k)
+    if (doubts.length) {
+      const p = next[1].planets[k]
+      candidates.push({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, deltaLnL: dLnL, deltaBic: next[1].stats.bic - chosenAt[k][1].stats.bic, flags: doubts, fit: next[1] })
+      flags.push(...doubts)
+      break
+    }
     chosen = k + 1
   }
   if (mode !== 'auto') chosen = Math.min(mode, chosenAt.length - 1)
@@ -340,7 +363,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const alternatives = trendAlternatives(ctx, fit, trend, bicThreshold, flags)
   const activity = opts.indicators?.length ? vetOrbits(data, fit.planets.map(toOrbit), opts.indicators) : undefined
   return {
-    fit, planets: activity && mode === 'auto' ? activity.planets.length : chosen, trend, steps, signals, flags, alternatives,
+    fit, planets: activity && mode === 'auto' ? activity.planets.length : chosen, trend, steps, signals, flags, alternatives, candidates,
     ...(activity ? { activity } : {}),
     settings: { minPeriod, maxPeriod, bicThreshold, falseAlarm, maxPlanets, trend: trendOpt, planets: mode },
     ...(keep ? { periodograms: keep } : {}),

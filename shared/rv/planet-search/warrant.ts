@@ -16,6 +16,12 @@
  *   that carries it; period beyond the baseline ("period poorly constrained": only a partial orbit
  *   is seen); one instrument's jitter far above its peers' (something unmodelled in that
  *   instrument, or a signal absorbed by its jitter).
+ * - candidate (a warning that stops the count): most (≥ half) of the signal's likelihood gain comes
+ *   from one instrument whose span is shorter than the signal's period, while the data as a whole
+ *   span more than the period: the instrument that "sees" it saw less than one cycle, and the
+ *   instruments that could have seen several cycles contribute the minority. In 'auto' mode such a
+ *   signal is reported as a flagged candidate with its fit, not counted as a planet
+ *   ({@link candidateDoubts}).
  * - info: the runner-up alias partner and its ΔlnL; a trend that could be a long-period orbit
  *   (both fitted, both shown; added by the search).
  */
@@ -26,7 +32,7 @@ import type { FitResult, PlanetFit } from '../orbit-fit.ts'
 export type SignalFlagKind =
   | 'not-converged' | 'unconstrained' | 'one-instrument-short-span' | 'eccentricity-at-limit' | 'few-points' | 'false-alarm'
   | 'one-instrument' | 'high-eccentricity' | 'longer-than-instrument-span' | 'period-beyond-baseline' | 'jitter-above-peers'
-  | 'alias-runner-up' | 'trend-or-long-orbit' | 'fap-threshold-unused'
+  | 'alias-runner-up' | 'trend-or-long-orbit' | 'fap-threshold-unused' | 'candidate-short-instrument'
 
 export interface SignalFlag {
   kind: SignalFlagKind
@@ -215,4 +221,29 @@ export function warnings(data: RvData, fit: FitResult, opts: { oneInstrumentShar
     })
   }
   return out
+}
+
+/** Share of a signal's gain from one instrument above which that instrument "carries most of it" ({@link candidateDoubts}). */
+export const CARRIER_SHARE = 0.5
+
+/**
+ * Doubts that make a newly added signal a flagged candidate instead of a planet (empty: none).
+ * Today one: ≥ {@link CARRIER_SHARE} of its likelihood gain comes from one instrument whose span is
+ * shorter than the period, while the whole data set spans more than the period (so the other
+ * instruments could have seen it and mostly do not). A period beyond the baseline is not a doubt
+ * here (every instrument then sees part of an orbit; that is the 'period-beyond-baseline' warning).
+ */
+export function candidateDoubts(data: RvData, fit: FitResult, index: number): SignalFlag[] {
+  if (data.instrumentNames.length < 2) return []
+  const p = fit.planets[index]
+  let tmin = Infinity, tmax = -Infinity
+  for (const t of data.t) { tmin = Math.min(tmin, t); tmax = Math.max(tmax, t) }
+  const baseline = tmax - tmin
+  const shares = instrumentShares(data, fit, index)
+  const top = shares.reduce((a, b) => (b.share > a.share ? b : a))
+  if (!(top.share >= CARRIER_SHARE && top.span < p.period && p.period < baseline)) return []
+  return [{
+    kind: 'candidate-short-instrument', severity: 'warning', period: p.period, instrument: top.name,
+    message: `The ${fmtP(p.period)}-d signal (K = ${p.K.toFixed(1)} m/s, e = ${p.e.toFixed(2)}) is a candidate, not counted as a planet: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name}, whose ${top.span.toFixed(0)}-d span is shorter than the period, while the other instruments, covering ${(baseline / p.period).toFixed(0)} cycles over the ${baseline.toFixed(0)}-d baseline, give the rest. Check ${top.name}'s systematics; more data from the other instruments would decide.`,
+  }]
 }
