@@ -25,6 +25,7 @@ const envSchema = z.object({
   JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(100).default(5),
   SAMPLING_CHECKPOINT_STEPS: z.coerce.number().int().positive().default(250),
   SAMPLING_CHECKPOINT_MIN_SECONDS: z.coerce.number().min(0).default(10),
+  PERIODOGRAM_TEAM_BYTES: z.coerce.number().int().min(0).default(128 * 1024 * 1024),
 })
 
 export interface Config {
@@ -44,6 +45,8 @@ export interface Config {
   shareRateLimit: number
   /** Development-only routes (/api/dev/mail, /dev/mail). */
   devRoutes: boolean
+  /** Bound on the bytes of full periodogram curves one team keeps (server/analyses/periodogram-store.ts). */
+  periodogramTeamBytes: number
   /** Job queue (server/jobs): whether this server process also works on jobs, and how. */
   jobs: {
     workers: boolean; concurrency: number; staleSeconds: number; retryLimit: number
@@ -89,6 +92,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Part
     loginRateLimit: e.LOGIN_RATE_LIMIT,
     shareRateLimit: e.SHARE_RATE_LIMIT,
     devRoutes: e.NODE_ENV !== 'production',
+    periodogramTeamBytes: e.PERIODOGRAM_TEAM_BYTES,
     jobs: {
       workers: e.JOB_WORKERS === '1' || e.JOB_WORKERS === 'true', concurrency: e.JOB_CONCURRENCY, staleSeconds: e.JOB_STALE_SECONDS,
       retryLimit: e.JOB_RETRY_LIMIT, checkpointEvery: e.SAMPLING_CHECKPOINT_STEPS, checkpointMinMs: e.SAMPLING_CHECKPOINT_MIN_SECONDS * 1000, pollingIntervalSeconds: 2,
