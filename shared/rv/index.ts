@@ -59,4 +59,9 @@ export {
 export {
   type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, type GpPosterior, fitWithGp, trainGpOnIndicator, gpLogPosterior,
 } from './gp-fit.ts'
+export { type GpPeriodogram, type GpPeriodogramPeak, type GpPeriodogramOptions, gpResidualPeriodogram } from './gp-periodogram.ts'
+export {
+  type ActivitySearchOptions, type ActivityCandidate, type ActivitySearchResult, type ActivitySearchStep, type GpHyperparameters, type GpQuantity,
+  ACTIVITY_SEARCH_DEFAULTS, searchWithActivity, gpHyperparameters,
+} from './activity-search.ts'
 export { type SearchSummary, searchSummary } from './planet-search-summary.ts'
