@@ -7,6 +7,7 @@ import { QueryTypes } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star, User } from '../db/models.ts'
 import { analysisModels, type FitModel, type FitModelVersion, type PeriodogramRun } from '../db/models-analysis.ts'
+import { restoreDisplayCurves } from '../analyses/periodogram-store.ts'
 import { ValidationError } from '../errors.ts'
 import { rvHash, type Row } from '../analyses/data.ts'
 import { compareModels } from '../analyses/compare.ts'
@@ -151,6 +152,7 @@ export async function buildSnapshot(s: Services, actor: User, star: Star, model:
     rows: cmp.rows.map((r) => ({ modelId: r.modelId, name: r.name, version: r.version, planets: r.planets, trend: r.trend, bic: r.bic, deltaBic: r.deltaBic, evidence: r.evidence, preferred: r.preferred, comparable: r.comparable })),
     rule: cmp.rule, reading: cmp.reading,
   } : null
+  for (const run of [rvRun, resRun]) if (run) await restoreDisplayCurves(s, run) // curves live in periodogram_curves
   const periodogram = periodogramSnapshot(rvRun)
   const methods = methodsParagraph({
     nPoints: included.length, instruments: result.data.instruments, nExcluded: exclusions.length,
