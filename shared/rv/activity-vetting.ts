@@ -17,7 +17,8 @@ import type { RvData } from './orbit-data.ts'
 import { radialVelocity, type Keplerian } from './model.ts'
 import { baseline } from './orbit-data.ts'
 import { correlate, type Correlation } from './correlation.ts'
-import { centrePerInstrument, indicatorDiagnostics, type IndicatorColumn, type IndicatorDiagnostics, type IndicatorOptions, type IndicatorPeak } from './activity-indicators.ts'
+import { periodRelation } from './peak-coincidence.ts'
+import { centrePerInstrument, indicatorDiagnostics, type IndicatorColumn, type IndicatorDiagnostics, type IndicatorOptions } from './activity-indicators.ts'
 
 /** A signal to vet: its period and, if known, its velocity at each data row (m/s). */
 export interface VettingCandidate {
@@ -65,34 +66,9 @@ export interface VettingOptions extends IndicatorOptions {
 
 export const VETTING_DEFAULTS = { peakFap: 1e-3, correlationP: 1e-3, minAbsR: 0.3 } as const
 
-/** Frequency ratios checked: candidate frequency = ratio × indicator frequency. */
-const RELATIONS: ReadonlyArray<{ ratio: number; text: string }> = [
-  { ratio: 1, text: 'the same period as' },
-  { ratio: 2, text: 'half the period of' },
-  { ratio: 3, text: 'a third of the period of' },
-  { ratio: 0.5, text: 'twice the period of' },
-]
-
 const fmtP = (p: number): string => (p >= 100 ? p.toFixed(0) : p >= 10 ? p.toFixed(1) : p.toFixed(2))
 const fmtFap = (f: number): string => (f < 1e-3 ? f.toExponential(0) : f.toPrecision(2))
 const fmtR = (c: Correlation): string => `Pearson r = ${c.pearson.toFixed(2)}, p = ${fmtFap(c.pearsonP)}; Spearman ρ = ${c.spearman.toFixed(2)}`
-
-/**
- * The first relation (same period, harmonic) linking a period to one of the peaks, or null.
- * Only peaks with FAP below `fapLimit` count.
- */
-export function periodRelation(period: number, peaks: readonly IndicatorPeak[], span: number, fapLimit: number):
-  { peak: IndicatorPeak; relation: string; ratio: number } | null {
-  const f = 1 / period
-  const width = span > 0 ? 1 / span : Infinity
-  for (const { ratio, text } of RELATIONS) {
-    for (const peak of peaks) {
-      if (!(peak.fap < fapLimit)) continue
-      if (Math.abs(f - ratio * peak.frequency) <= width) return { peak, relation: text, ratio }
-    }
-  }
-  return null
-}
 
 function significant(c: Correlation | null, pMax: number, minAbsR: number): boolean {
   return !!c && Number.isFinite(c.pearson) && c.pearsonP < pMax && Math.abs(c.pearson) >= minAbsR

@@ -45,7 +45,7 @@ export {
 export {
   type CurveTrend, type CurveSampling, CURVE_DEFAULTS, curveTimes, modelVelocity, phaseOf, phaseCurve,
 } from './model-curve.ts'
-export { type Coincidence, COINCIDENCE_FAP, coincidences, peakWidth } from './peak-coincidence.ts'
+export { type Coincidence, COINCIDENCE_FAP, PERIOD_RELATIONS, coincidences, peakWidth, periodRelation } from './peak-coincidence.ts'
 export { type FitWarningCode, type FitWarningItem, E_WARN, planetLetter, fitWarnings } from './orbit-fit-warnings.ts'
 export { type Correlation, correlate, averageRanks, incompleteBeta, correlationPValue } from './correlation.ts'
 export {
@@ -54,7 +54,7 @@ export {
 } from './activity-indicators.ts'
 export {
   type VettingCandidate, type ActivityMatch, type CandidateVetting, type ActivityVetting, type VettingOptions,
-  VETTING_DEFAULTS, periodRelation, activityVetting, vetOrbits,
+  VETTING_DEFAULTS, activityVetting, vetOrbits,
 } from './activity-vetting.ts'
 export {
   type GpHyperSpec, type GpFitOptions, type GpPlanetFit, type GpFitResult, type GpPosterior, fitWithGp, trainGpOnIndicator, gpLogPosterior,
