@@ -27,6 +27,12 @@ export interface PoolOptions {
   timeoutMs?: number
   /** Longest queue before new tasks are refused (default 200). */
   maxQueue?: number
+  /**
+   * A worker whose heap (V8 committed heap + external buffers, measured after each task) exceeds
+   * this many bytes is replaced after that task, so the memory of a large job returns to the
+   * system (default 192 MiB; env COMPUTE_RECYCLE_MB).
+   */
+  recycleHeapBytes?: number
 }
 
 interface Job {
@@ -34,13 +40,15 @@ interface Job {
   task: TaskName
   input: unknown
   timeoutMs: number
+  /** Replace the worker after this job whatever its heap (a job known to be large). */
+  recycle: boolean
   resolve: (v: unknown) => void
   reject: (e: unknown) => void
 }
 
 interface Slot { worker: Worker; job: Job | null; timer: NodeJS.Timeout | null }
 
-type Reply = { id: number; ok: true; output: unknown } | { id: number; ok: false; error: { name: string; message: string } }
+type Reply = ({ id: number; ok: true; output: unknown } | { id: number; ok: false; error: { name: string; message: string } }) & { heap?: number }
 
 function workerScript(): URL {
   // Under tsx or vitest the sources are .ts: worker-boot.mjs registers tsx inside the worker first
@@ -59,6 +67,9 @@ export class ComputePool {
   readonly size: number
   private readonly timeoutMs: number
   private readonly maxQueue: number
+  private readonly recycleHeapBytes: number
+  private recycled = 0
+  private lastHeap = 0
   private readonly slots: Slot[] = []
   private readonly queue: Job[] = []
   private nextId = 1
@@ -71,20 +82,26 @@ export class ComputePool {
     this.timeoutMs = opts.timeoutMs ?? 120_000
     if (!(this.timeoutMs > 0)) throw new RangeError(`timeoutMs must be > 0 (got ${opts.timeoutMs})`)
     this.maxQueue = opts.maxQueue ?? 200
+    this.recycleHeapBytes = opts.recycleHeapBytes ?? Number(process.env.COMPUTE_RECYCLE_MB ?? 192) * 1024 * 1024
+    if (!(this.recycleHeapBytes > 0)) throw new RangeError(`recycleHeapBytes must be > 0 (got ${opts.recycleHeapBytes})`)
   }
 
   /** Runs `task` in a worker; rejects with ComputeError, ComputeTimeoutError or ComputeBusyError. */
-  run<K extends TaskName>(task: K, input: TaskInput<K>, opts: { timeoutMs?: number } = {}): Promise<TaskOutput<K>> {
+  run<K extends TaskName>(task: K, input: TaskInput<K>, opts: { timeoutMs?: number; recycle?: boolean } = {}): Promise<TaskOutput<K>> {
     if (this.closed) return Promise.reject(new ComputeError(task, 'the compute pool is closed'))
     if (this.queue.length >= this.maxQueue) return Promise.reject(new ComputeBusyError(this.queue.length))
     return new Promise<TaskOutput<K>>((resolve, reject) => {
-      this.queue.push({ id: this.nextId++, task, input, timeoutMs: opts.timeoutMs ?? this.timeoutMs, resolve: resolve as (v: unknown) => void, reject })
+      this.queue.push({ id: this.nextId++, task, input, timeoutMs: opts.timeoutMs ?? this.timeoutMs, recycle: !!opts.recycle, resolve: resolve as (v: unknown) => void, reject })
       this.dispatch()
     })
   }
 
-  stats(): { size: number; workers: number; busy: number; queued: number } {
-    return { size: this.size, workers: this.slots.length, busy: this.slots.filter((s) => s.job).length, queued: this.queue.length }
+  /** `recycled`: workers replaced after a job for their heap; `lastHeap`: bytes a worker held after the last job. */
+  stats(): { size: number; workers: number; busy: number; queued: number; recycled: number; lastHeap: number } {
+    return {
+      size: this.size, workers: this.slots.length, busy: this.slots.filter((s) => s.job).length, queued: this.queue.length,
+      recycled: this.recycled, lastHeap: this.lastHeap,
+    }
   }
 
   /** Stops every worker; queued and running tasks are rejected. */
@@ -106,6 +123,8 @@ export class ComputePool {
     worker.on('message', (msg: Reply) => {
       const job = slot.job
       if (!job || job.id !== msg.id) return
+      this.lastHeap = msg.heap ?? 0
+      if (job.recycle || this.lastHeap > this.recycleHeapBytes) this.retire(slot)
       this.finish(slot)
       if (msg.ok) job.resolve(msg.output)
       else job.reject(new ComputeError(job.task, msg.error.message, msg.error.name))
@@ -123,6 +142,14 @@ export class ComputePool {
     worker.on('exit', (code) => { if (this.slots.includes(slot)) lost(`the worker stopped (exit code ${code})`) })
     this.slots.push(slot)
     return slot
+  }
+
+  /** Takes a worker out of the pool and lets its thread exit; a fresh one starts on demand. */
+  private retire(slot: Slot): void {
+    const i = this.slots.indexOf(slot)
+    if (i >= 0) this.slots.splice(i, 1)
+    this.recycled++
+    void slot.worker.terminate()
   }
 
   private finish(slot: Slot): void {

@@ -54,6 +54,53 @@ describe('compute pool', () => {
   })
 })
 
+describe('recycling', () => {
+  /** A long grid (≈ 300 000 frequencies): several MB in the worker. */
+  function large() {
+    const rnd = createRandom(11)
+    const n = 120
+    const t = new Float64Array(n), y = new Float64Array(n), dy = new Float64Array(n).fill(1)
+    for (let i = 0; i < n; i++) { t[i] = 2459000 + i * 25 + rnd.next(); y[i] = 5 * Math.sin(t[i]! / 3) + rnd.normal() }
+    return { t, y, dy, minPeriod: 0.1, oversample: 10 }
+  }
+
+  it('replaces a worker whose heap passed the bound after a large job, and the next one starts small', async () => {
+    const p = new ComputePool({ size: 1, timeoutMs: 120_000 })
+    try {
+      await p.run('spin', { ms: 1 })
+      const small = p.stats().lastHeap
+      expect(small).toBeGreaterThan(0)
+      expect(p.stats().recycled).toBe(0)
+      const big = await p.run('periodogram', large())
+      expect(big.grid.count).toBeGreaterThan(200_000)
+      const afterBig = p.stats().lastHeap
+      expect(afterBig).toBeGreaterThan(small + 2_000_000)
+      await p.close()
+      // the same work with the bound between the two heaps: the worker is replaced after the big job
+      const q = new ComputePool({ size: 1, timeoutMs: 120_000, recycleHeapBytes: Math.round((small + afterBig) / 2) })
+      try {
+        await q.run('spin', { ms: 1 })
+        expect(q.stats()).toMatchObject({ recycled: 0, workers: 1 })
+        await q.run('periodogram', large())
+        expect(q.stats()).toMatchObject({ recycled: 1, workers: 0 })
+        await q.run('spin', { ms: 1 })
+        expect(q.stats().lastHeap).toBeLessThan(afterBig)
+        expect(q.stats()).toMatchObject({ recycled: 1, workers: 1 })
+      } finally { await q.close() }
+    } finally { await p.close() }
+  }, 300_000)
+
+  it('replaces the worker after a job run with recycle: true, whatever its heap', async () => {
+    const p = new ComputePool({ size: 1 })
+    try {
+      await p.run('spin', { ms: 1 }, { recycle: true })
+      expect(p.stats()).toMatchObject({ recycled: 1, workers: 0 })
+      await expect(p.run('spin', { ms: 1 })).resolves.toHaveProperty('spun')
+      expect(p.stats()).toMatchObject({ recycled: 1, workers: 1 })
+    } finally { await p.close() }
+  })
+})
+
 describe('downsampleCurve', () => {
   it('keeps every bin extreme, so the highest point survives, in increasing period', () => {
     const m = 10_001
