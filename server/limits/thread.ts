@@ -1,9 +1,11 @@
-// The thread side of threads.ts: a detection-limit chunk or a plan, computed by shared/limits and
-// shared/plan from plain JSON input.
+// The thread side of threads.ts: a detection-limit chunk, a plan or a star's triage search, computed
+// by shared/limits, shared/plan and the core's planet search from plain input.
 import { parentPort } from 'node:worker_threads'
 import { prepareLimits, runChunk } from '../../shared/limits/index.ts'
 import { plan, predictiveBand, drawsFromSample, type PlanResult, type NamedSample, type PlanOptions } from '../../shared/plan/index.ts'
 import { problemOf, type LimitsInput, type LimitsSettingsStored } from './problem.ts'
+import { triageSearch, type TriageInput } from '../triage/summary.ts'
+import type { TriageSummary } from '../../shared/api/survey.ts'
 
 export interface ChunkTaskInput { input: LimitsInput; settings: LimitsSettingsStored; seed: number; start: number; end: number }
 export interface PlanTaskInput {
@@ -24,6 +26,8 @@ export interface PlanTaskOutput {
 interface Tasks {
   chunk: { input: ChunkTaskInput; output: number[] }
   plan: { input: PlanTaskInput; output: PlanTaskOutput }
+  /** Survey triage: the automatic search of one star (server/triage). */
+  triage: { input: TriageInput; output: TriageSummary }
 }
 export type ThreadTask = keyof Tasks
 export type ThreadInput<T extends ThreadTask> = Tasks[T]['input']
@@ -51,7 +55,8 @@ function planTask(i: PlanTaskInput): PlanTaskOutput {
 
 parentPort?.on('message', (msg: { id: number; task: ThreadTask; input: unknown }) => {
   try {
-    const out = msg.task === 'chunk' ? chunk(msg.input as ChunkTaskInput) : planTask(msg.input as PlanTaskInput)
+    const out = msg.task === 'chunk' ? chunk(msg.input as ChunkTaskInput)
+      : msg.task === 'triage' ? triageSearch(msg.input as TriageInput) : planTask(msg.input as PlanTaskInput)
     parentPort!.postMessage({ id: msg.id, ok: true, out })
   } catch (e) {
     parentPort!.postMessage({ id: msg.id, ok: false, error: e instanceof Error ? e.message : String(e) })
