@@ -17,6 +17,7 @@ import * as openapi from './openapi/routes.ts'
 import * as tokens from './tokens/routes.ts'
 import * as limits from './limits/routes.ts'
 import * as plan from './plan/routes.ts'
+import * as triage from './triage/routes.ts'
 
 export type Handler = (req: Request, res: Response, s: Services) => Promise<void> | void
 export interface Route { method: 'get' | 'post' | 'patch' | 'delete'; path: string; guards: Guard[]; handler: Handler }
@@ -102,6 +103,11 @@ export const routes: Route[] = [
   { method: 'post', path: '/api/limits/:runId/cancel', guards: [limits.limitsRunGuard('analyst')], handler: limits.cancel },
   { method: 'post', path: '/api/limits/:runId/resume', guards: [limits.limitsRunGuard('analyst')], handler: limits.resume },
   { method: 'post', path: '/api/stars/:starId/plan', guards: [star('reviewer')], handler: plan.plan },
+
+  { method: 'post', path: '/api/teams/:teamId/survey/upload', guards: [team('analyst'), triage.surveyFiles], handler: triage.upload },
+  { method: 'post', path: '/api/teams/:teamId/survey/runs', guards: [team('analyst')], handler: triage.start },
+  { method: 'get', path: '/api/teams/:teamId/survey', guards: [team('reviewer')], handler: triage.table },
+  { method: 'get', path: '/api/teams/:teamId/survey/queue', guards: [team('owner')], handler: triage.queue },
 
   { method: 'post', path: '/api/models/:modelId/report', guards: [fitModel('analyst')], handler: reports.freeze },
   { method: 'get', path: '/api/stars/:starId/reports', guards: [star('reviewer')], handler: reports.list },

@@ -8,6 +8,7 @@ import { SAMPLING_QUEUE, startBoss } from './boss.ts'
 import { runSamplingJob, type RunControl } from '../sampling/runner.ts'
 import { reapStaleRuns } from '../sampling/service.ts'
 import { registerLimitWorkers } from '../limits/worker.ts'
+import { registerTriageWorkers } from '../triage/worker.ts'
 
 export interface JobWorkerOptions {
   /** Sampling runs worked on at once by this process (each takes one core). */
@@ -56,6 +57,7 @@ export async function startJobWorkers(s: Services, opts: JobWorkerOptions = {}):
     })
   }
   await registerLimitWorkers(s, boss, { concurrency, staleSeconds, workerId, pollingIntervalSeconds: opts.pollingIntervalSeconds ?? cfg.pollingIntervalSeconds, log }) // detection-limit chunks (server/limits)
+  await registerTriageWorkers(s, boss, { concurrency, staleSeconds, workerId, pollingIntervalSeconds: opts.pollingIntervalSeconds ?? cfg.pollingIntervalSeconds, log }) // survey triage, one star per job (server/triage)
   // runs whose worker died (no heartbeat): fail their jobs so pg-boss retries them (they resume)
   const reaper = setInterval(() => {
     reapStaleRuns(s, boss, staleSeconds).catch((err) => log(`stale-run check failed: ${String(err)}`))

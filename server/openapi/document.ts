@@ -21,6 +21,7 @@ import { createInvitationRequestSchema, createTeamRequestSchema, updateMemberReq
 import { startLimitsRequestSchema } from '../../shared/api/limits.ts'
 import { planRequestSchema } from '../../shared/api/plan.ts'
 import { createTokenRequestSchema } from '../../shared/api/tokens.ts'
+import { startTriageRequestSchema } from '../../shared/api/survey.ts'
 
 type Schema = z.ZodType
 
@@ -51,6 +52,7 @@ export const BODIES: Record<string, Schema> = {
   'post /api/models/:modelId/limits': startLimitsRequestSchema,
   'post /api/stars/:starId/plan': planRequestSchema,
   'post /api/teams/:teamId/tokens': createTokenRequestSchema,
+  'post /api/teams/:teamId/survey/runs': startTriageRequestSchema,
 }
 
 /** Query strings by "METHOD path". */
@@ -64,7 +66,7 @@ export const NO_JSON_BODY = new Set([
   'post /api/sampling/:runId/cancel', 'post /api/teams/:teamId/invitations/:invitationId/approve', 'delete /api/teams/:teamId/members/:userId',
   'delete /api/teams/:teamId/invitations/:invitationId', 'delete /api/stars/:starId', 'delete /api/models/:modelId',
   'post /api/limits/:runId/cancel', 'post /api/limits/:runId/resume', 'delete /api/teams/:teamId/tokens/:tokenId',
-  'post /api/teams/:teamId/stars/:starId/restore',
+  'post /api/teams/:teamId/stars/:starId/restore', 'post /api/teams/:teamId/survey/upload',
 ])
 
 const key = (r: Route) => `${r.method} ${r.path}`
