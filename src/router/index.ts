@@ -18,6 +18,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/invite', name: 'invite', component: () => import('@/views/InviteView.vue'), meta: { public: true } },
   { path: '/team', name: 'team', component: () => import('@/views/TeamView.vue') },
   { path: '/stars', name: 'stars', component: () => import('@/views/StarListView.vue') },
+  { path: '/survey', name: 'survey', component: () => import('@/views/SurveyView.vue') },
   { path: '/stars/:starId(\\d+)', name: 'star', component: () => import('@/views/StarView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/stars/:starId(\\d+)/add-data', name: 'add-data', component: () => import('@/views/AddDataView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
   { path: '/stars/:starId(\\d+)/analysis', name: 'analysis', component: () => import('@/views/AnalysisView.vue'), props: (r) => ({ starId: Number(r.params.starId) }) },
