@@ -55,32 +55,43 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
   const w = new Float64Array(n)
   for (let i = 0; i < n; i++) { const s = opts.jitter ? opts.jitter[data.instrument[i]] : 0; w[i] = 1 / (data.dy[i] ** 2 + s * s) }
 
-  // weighted LS of r0 on [shape columns | instrument indicators | trend]; returns χ² and coefficients
+  // weighted LS of r0 on [colA, colB | instrument indicators | trend]; returns χ² and coefficients.
+  // The normal-matrix block of the indicators and trend and its right-hand side do not depend on
+  // the shape columns: summed once; per grid point only the shape rows are summed (same equations).
   const nLin = nInst + nTr
-  const solve = (shapes: Float64Array[]): { chi2: number; coef: Float64Array } | null => {
-    const ns = shapes.length
-    const p = ns + nLin
-    const A = new Float64Array(p * p), b = new Float64Array(p), row = new Float64Array(p)
-    for (let i = 0; i < n; i++) {
-      row.fill(0)
-      for (let s = 0; s < ns; s++) row[s] = shapes[s][i]
-      row[ns + data.instrument[i]] = 1
-      if (nTr) { const dt = data.t[i] - epoch; row[ns + nInst] = dt; if (nTr > 1) row[ns + nInst + 1] = dt * dt }
-      const wi = w[i]
-      for (let a = 0; a < p; a++) {
-        const ra = row[a]
-        if (ra === 0) continue
-        b[a] += wi * ra * r0[i]
-        for (let c = a; c < p; c++) A[a * p + c] += wi * ra * row[c]
-      }
+  const p = 2 + nLin
+  const base = new Float64Array(p * p), bBase = new Float64Array(p)
+  const dt1 = new Float64Array(n)
+  let yy = 0
+  for (let i = 0; i < n; i++) {
+    const wi = w[i], k = 2 + data.instrument[i], dt = data.t[i] - epoch
+    dt1[i] = dt
+    base[k * p + k] += wi; bBase[k] += wi * r0[i]
+    if (nTr) {
+      const q = 2 + nInst
+      base[k * p + q] += wi * dt; base[q * p + q] += wi * dt * dt; bBase[q] += wi * dt * r0[i]
+      if (nTr > 1) { base[k * p + q + 1] += wi * dt * dt; base[q * p + q + 1] += wi * dt ** 3; base[(q + 1) * p + q + 1] += wi * dt ** 4; bBase[q + 1] += wi * dt * dt * r0[i] }
     }
+    yy += wi * r0[i] * r0[i]
+  }
+  const A = new Float64Array(p * p), b = new Float64Array(p)
+  const solve = (colA: Float64Array, colB: Float64Array): { chi2: number; coef: Float64Array } | null => {
+    A.set(base); b.set(bBase)
+    let aa = 0, ab = 0, bb = 0, ar = 0, br = 0, at = 0, bt = 0, at2 = 0, bt2 = 0
+    for (let i = 0; i < n; i++) {
+      const wi = w[i], ca = wi * colA[i], cb = wi * colB[i], ri = r0[i], k = 2 + data.instrument[i]
+      aa += ca * colA[i]; ab += ca * colB[i]; bb += cb * colB[i]; ar += ca * ri; br += cb * ri
+      A[k] += ca; A[p + k] += cb
+      if (nTr) { const dt = dt1[i]; at += ca * dt; bt += cb * dt; if (nTr > 1) { at2 += ca * dt * dt; bt2 += cb * dt * dt } }
+    }
+    A[0] = aa; A[1] = ab; A[p + 1] = bb; b[0] = ar; b[1] = br
+    if (nTr) { const q = 2 + nInst; A[q] = at; A[p + q] = bt; if (nTr > 1) { A[q + 1] = at2; A[p + q + 1] = bt2 } }
     for (let a = 0; a < p; a++) for (let c = 0; c < a; c++) A[a * p + c] = A[c * p + a]
     if (!cholesky(A, p)) return null
     const coef = Float64Array.from(b)
     choleskySolve(A, p, coef)
     // χ² = Σ w r0² − bᵀ coef (normal equations)
-    let chi2 = 0
-    for (let i = 0; i < n; i++) chi2 += w[i] * r0[i] * r0[i]
+    let chi2 = yy
     for (let a = 0; a < p; a++) chi2 -= b[a] * coef[a]
     return { chi2, coef }
   }
@@ -107,7 +118,7 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
         colA[i] = (cE - e) / den + e
         colB[i] = sq * sE / den
       }
-      const res = solve([colA, colB])
+      const res = solve(colA, colB)
       if (!res) continue
       const a = res.coef[0], b = res.coef[1]
       const K = Math.hypot(a, b)

@@ -28,6 +28,12 @@ export const SEARCH_DEFAULTS = Object.freeze({
   startsPerPeriod: 2,
   /** Starts refined by the non-linear fit at each step (best by the scan's χ², plus the strongest Keplerian cell). */
   refineStarts: 6,
+  /**
+   * Iteration cap of the screening fits (the multi-start refinements and the alias partners): the
+   * best of them is then continued to convergence, and the chosen model is refitted in full with
+   * each trend, so the cap changes which start wins only between starts that are still far apart.
+   */
+  screeningIterations: 30,
   /** Alias partners fitted in full at each step (the most promising by their exact scan). */
   aliasFits: 3,
   /** Oversampling of the Keplerian periodogram's period grid. */

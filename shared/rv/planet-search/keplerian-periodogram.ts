@@ -184,15 +184,20 @@ function tableOf(e: number): Float64Array {
   return t
 }
 
+/** Table positions of the points at frequency f: frac(τ f) × TABLE, into `x` (the same for every cell at f). */
+function positions(s: Setup, f: number, x: Float64Array): void {
+  const { tau } = s.sorted
+  for (let i = 0; i < s.n; i++) { const u = tau[i] * f; x[i] = (u - Math.floor(u)) * TABLE }
+}
+
 /**
- * Best Δχ² over the cells of one eccentricity at frequency f. `x` is scratch of length n for the
- * table positions. Returns [Δχ², best phase index].
+ * Best Δχ² over the cells of one eccentricity at frequency f. `x` holds the table positions at f
+ * ({@link positions}). Returns [Δχ², best phase index].
  */
-function bestAtFrequency(s: Setup, f: number, cell: EccentricityCell, x: Float64Array): [number, number] {
-  const { n, nInst, wInst } = s
-  const { tau, w, r, segStart } = s.sorted
+function bestAtFrequency(s: Setup, cell: EccentricityCell, x: Float64Array): [number, number] {
+  const { nInst, wInst } = s
+  const { w, r, segStart } = s.sorted
   const tab = tableOf(cell.e)
-  for (let i = 0; i < n; i++) { const u = tau[i] * f; x[i] = (u - Math.floor(u)) * TABLE }
   let best = 0, bestPh = 0
   const step = TABLE / cell.phases
   const mask = TABLE - 1
@@ -251,13 +256,15 @@ export function keplerianPeriodogram(data: RvData, opts: KeplerianPeriodogramOpt
   for (let k = 0; k < freq.length; k++) {
     const f0 = freq[k], P = 1 / f0
     let best = 0, bE = 0, bTp = s.tmin, bF = f0
+    let xAt = NaN // frequency whose positions `x` holds
     for (const c of cells) {
       if (P < c.minPeriod) continue
       const steps = c.substeps
       for (let j = 0; j < steps; j++) {
         const f = steps === 1 ? f0 : f0 + df * ((j + 0.5) / steps - 0.5)
         if (!(f > 0)) continue
-        const [d, ph] = bestAtFrequency(s, f, c, x)
+        if (f !== xAt) { positions(s, f, x); xAt = f }
+        const [d, ph] = bestAtFrequency(s, c, x)
         if (d > best) { best = d; bE = c.e; bTp = tpOf(s, f, ph, c.phases); bF = f }
       }
     }

@@ -175,13 +175,26 @@ function screeningJitter(data: RvData, fit: FitResult, cap: number): number[] {
 interface Ctx {
   data: RvData; epoch: number; minPeriod: number; maxPeriod: number; baseline: number
   trends: TrendKind[]; oversample?: number; kPeaks: number; sPeaks: number; startsPerPeriod: number
-  refine: number; aliasFits: number
+  refine: number; aliasFits: number; screenIter: number
+}
+
+/**
+ * A partner whose capped screening fit is this far (lnL) below the detected signal is not continued:
+ * its ΔlnL is then that of the capped fit (its trial says converged: false, and the message says so).
+ */
+const PARTNER_REACH = 25
+
+/** A screening fit that stopped at its iteration cap, continued to convergence from where it stopped. */
+function finish(ctx: Ctx, f: FitResult, trend: TrendKind): FitResult {
+  if (f.status !== 'max-iterations') return f
+  const g = fitFrom(ctx, f.planets.map(toStart), trend, f.instruments.map((i) => i.jitter), true)
+  return usable(g) && g.stats.lnL >= f.stats.lnL ? g : f
 }
 
 /** Fit of the model from starts with the jitters free; never throws for a bad start. */
-function fitFrom(ctx: Ctx, planets: PlanetStart[], trend: TrendKind, jitterStart: number[] | undefined, skipUnc: boolean): FitResult | null {
+function fitFrom(ctx: Ctx, planets: PlanetStart[], trend: TrendKind, jitterStart: number[] | undefined, skipUnc: boolean, maxIterations?: number): FitResult | null {
   try {
-    return fitKeplerians(ctx.data, { planets, trend, epoch: ctx.epoch, jitterStart, skipUncertainties: skipUnc })
+    return fitKeplerians(ctx.data, { planets, trend, epoch: ctx.epoch, jitterStart, skipUncertainties: skipUnc, maxIterations })
   } catch {
     return null
   }
@@ -228,9 +241,10 @@ function nextPlanet(ctx: Ctx, cur: FitResult, curTrend: TrendKind, cap: number, 
   for (const s of refine) {
     const { chi2, ...start } = s
     void chi2
-    const f = fitFrom(ctx, [...curStarts, start], curTrend, jStart, true)
+    const f = fitFrom(ctx, [...curStarts, start], curTrend, jStart, true, ctx.screenIter)
     if (usable(f) && (!best || f.stats.lnL > best.stats.lnL)) best = f
   }
+  if (best) best = finish(ctx, best, curTrend)
   if (!best) return null
   // alias partners of the new signal, each fitted in its place
   const newP = best.planets[best.planets.length - 1]
@@ -242,15 +256,27 @@ function nextPlanet(ctx: Ctx, cur: FitResult, curTrend: TrendKind, cap: number, 
     .filter((x) => x.s !== undefined)
     .sort((u, v) => u.s.chi2 - v.s.chi2)
     .slice(0, ctx.aliasFits)
+  // screening fits (capped) of every partner; the best partner is continued to convergence, so the
+  // runner-up's ΔlnL is that of a converged fit (a partner left at its cap says converged: false)
+  const fitted: Array<{ f: FitResult; relation: string }> = []
   for (const { a, s: ps } of partners) {
     const { chi2, ...start } = ps
     void chi2
-    const f = fitFrom(ctx, [...partnerOthers.map(toStart), start], curTrend, best.instruments.map((i) => i.jitter), true)
+    const f = fitFrom(ctx, [...partnerOthers.map(toStart), start], curTrend, best.instruments.map((i) => i.jitter), true, ctx.screenIter)
     if (!usable(f)) continue
-    const got = f.planets[f.planets.length - 1].period
     // the fit may walk back to the detected period: then it is not a distinct partner
-    if (Math.abs(1 / got - 1 / newP.period) < 0.5 / ctx.baseline) continue
-    trials.push({ period: got, relation: a.relation, lnL: f.stats.lnL, converged: f.status === 'converged' })
+    if (Math.abs(1 / f.planets[f.planets.length - 1].period - 1 / newP.period) < 0.5 / ctx.baseline) continue
+    fitted.push({ f, relation: a.relation })
+  }
+  fitted.sort((u, v) => v.f.stats.lnL - u.f.stats.lnL)
+  for (const [q, { f: f0, relation }] of fitted.entries()) {
+    let f = f0
+    // the best partner is continued to convergence when it is within reach of the detected signal
+    if (q === 0 && f0.stats.lnL > best.stats.lnL - PARTNER_REACH) {
+      f = finish(ctx, f0, curTrend)
+      if (Math.abs(1 / f.planets[f.planets.length - 1].period - 1 / newP.period) < 0.5 / ctx.baseline) continue
+    }
+    trials.push({ period: f.planets[f.planets.length - 1].period, relation, lnL: f.stats.lnL, converged: f.status === 'converged' })
     if (f.stats.lnL > best.stats.lnL) best = f
   }
   trials.sort((a, b) => b.lnL - a.lnL)
@@ -281,7 +307,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const ctx: Ctx = {
     data, epoch, minPeriod, maxPeriod, baseline, trends, oversample: opts.oversample,
     kPeaks: opts.keplerianPeaks ?? D.keplerianPeaks, sPeaks: opts.sinusoidPeaks ?? D.sinusoidPeaks, startsPerPeriod: D.startsPerPeriod,
-    refine: D.refineStarts, aliasFits: D.aliasFits,
+    refine: D.refineStarts, aliasFits: D.aliasFits, screenIter: D.screeningIterations,
   }
   const falseAlarm = opts.falseAlarm ?? D.falseAlarm
   if (!(falseAlarm > 0 && falseAlarm <= 1)) throw new RangeError(`falseAlarm must be in (0, 1], got ${falseAlarm}`)
@@ -355,7 +381,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     if (runner && s.runnerUpDeltaLnL !== null) {
       flags.push({
         kind: 'alias-runner-up', severity: s.runnerUpDeltaLnL < 5 ? 'warning' : 'info', period: s.period, instrument: null,
-        message: `${s.period.toPrecision(5)} d is preferred to its alias ${runner.period.toPrecision(5)} d (${runner.relation}) by ΔlnL = ${s.runnerUpDeltaLnL.toFixed(1)}${s.runnerUpDeltaLnL < 5 ? ': not decisive, check the alias' : ''}.`,
+        message: `${s.period.toPrecision(5)} d is preferred to its alias ${runner.period.toPrecision(5)} d (${runner.relation}) by ΔlnL = ${s.runnerUpDeltaLnL.toFixed(1)}${runner.converged ? '' : ' (the partner\'s fit stopped at its iteration cap, far below: the gap is approximate)'}${s.runnerUpDeltaLnL < 5 ? ': not decisive, check the alias' : ''}.`,
       })
     }
   }
