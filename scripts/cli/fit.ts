@@ -8,7 +8,7 @@ import {
 } from '../../shared/rv/index.ts'
 import { UsageError, num, str, list, type Parsed } from './args.ts'
 import { load } from './load.ts'
-import { fmt, table, finiteOrNull, UNITS, PEAK_CAUTION, type CliIo } from './format.ts'
+import { fmt, table, finiteOrNull, instrumentTable, UNITS, PEAK_CAUTION, type CliIo } from './format.ts'
 
 const PLANET_KEYS = ['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'] as const
 
@@ -161,7 +161,7 @@ export function runFit(p: Parsed, io: CliIo): void {
     ]), ['planet', 'P [d]', 'K [m/s]', 'e', 'ω [deg]', 'Tp [JD]', 'Tc [JD]', 'M sin i [M_Jup]', 'a [au]']))
     io.out('')
   }
-  io.out(table(doc.instruments.map((i) => [i.name, i.n, i.offset, i.jitter, i.rms]), ['instrument', 'n', 'offset [m/s]', 'jitter [m/s]', 'rms [m/s]']))
+  io.out(instrumentTable(fit.instruments))
   if (doc.trend) io.out(`\ntrend: slope ${fmt(doc.trend.slope)} m/s/d, curvature ${fmt(doc.trend.curvature)} m/s/d², epoch ${fmt(doc.trend.epoch)}`)
   io.out('')
   io.out(`χ² ${fmt(doc.stats.chi2)}  lnL ${fmt(doc.stats.lnL)}  BIC ${fmt(doc.stats.bic)}  AIC ${fmt(doc.stats.aic)}  rms ${fmt(doc.stats.rms)} m/s  (${doc.stats.nPoints} points, ${doc.stats.nParams} parameters)`)

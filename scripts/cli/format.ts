@@ -1,4 +1,6 @@
 // Plain-text tables and number formatting of the command line (JSON keeps full precision).
+import { roundByUncertainty, atPlace, errorPlace } from '../../shared/report/round.ts'
+
 export interface CliIo { out: (s: string) => void; err: (s: string) => void }
 
 export function fmt(v: number): string {
@@ -29,3 +31,22 @@ export const UNITS = Object.freeze({
 
 /** The caution printed where a peak or a search result is read. */
 export const PEAK_CAUTION = 'A significant peak is not yet a planet: stellar activity, rotation and the sampling can all make one.'
+
+/** `value ± error` rounded by the uncertainty (shared/report/round.ts, PDG rule); 3 significant digits when there is no usable error. */
+export function withError(v: number | null, e: number | null | undefined): string {
+  if (v === null || !Number.isFinite(v)) return '—'
+  if (e === null || e === undefined || !(e > 0) || !Number.isFinite(e)) return Number(v.toPrecision(3)).toString()
+  const r = roundByUncertainty(v, e)
+  return `${r.value} ± ${r.error}`
+}
+
+/** The instrument table: offset and jitter with their errors, rms at the offset error's decimal place. */
+export function instrumentTable(ins: ReadonlyArray<{ name: string; n: number; offset: number; offsetErr: number; jitter: number; jitterErr: number; rms: number }>): string {
+  const rmsText = (i: (typeof ins)[number]): string => {
+    if (!Number.isFinite(i.rms)) return '—'
+    const e = [i.offsetErr, i.jitterErr].find((x) => x > 0 && Number.isFinite(x))
+    return e === undefined ? Number(i.rms.toPrecision(3)).toString() : atPlace(i.rms, errorPlace(e).place)
+  }
+  return table(ins.map((i) => [i.name, i.n, withError(i.offset, i.offsetErr), withError(i.jitter, i.jitterErr), rmsText(i)]),
+    ['instrument', 'n', 'offset [m/s]', 'jitter [m/s]', 'rms [m/s]'])
+}

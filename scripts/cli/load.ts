@@ -50,6 +50,11 @@ export function load(p: Parsed, io: CliIo, readStdin: () => Buffer = () => readF
   try {
     const text = decodeTableBytes(bytes)
     const detection = detectTable(text, hints)
+    const q = detection.mapping.questions?.find((x) => x.field === 'timeFormat')
+    if (q) {
+      // the times could be read two ways (e.g. MJD or JD − 2400000, half a day apart): name the option that decides
+      throw new UsageError(`${name}: ${q.message} Say which with --time-format ${q.choices.map((c) => c.value).join(' or ')} (${q.choices.map((c) => `${c.value}: ${c.label}`).join('; ')}).`)
+    }
     const parsed = parseTable(text, detection.mapping)
     if (parsed.problemCount > 0) {
       const first = formatProblems(parsed.problems, 1).split('\n')[0]

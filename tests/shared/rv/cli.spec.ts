@@ -188,6 +188,16 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     })
   }
 
+  it('ambiguous times (MJD or JD − 2400000) name the --time-format option and its values', () => {
+    const f = join(dir, 'ambiguous.txt')
+    writeFileSync(f, Array.from({ length: 12 }, (_, i) => `${(55000 + i * 3.7).toFixed(4)} ${(5 * Math.sin(i)).toFixed(2)} 1.0`).join('\n') + '\n')
+    const r = run(['periodogram', f])
+    expect(r.code).toBe(2)
+    expect(r.err).toHaveLength(1)
+    expect(r.err[0]).toMatch(/--time-format (mjd or jd-2400000|jd-2400000 or mjd)/)
+    expect(run(['periodogram', f, '--time-format', 'mjd', '--json']).code).toBe(0)
+  })
+
   it('a table with no usable rows', () => {
     const f = join(dir, 'empty.csv')
     writeFileSync(f, '# nothing here\n')
@@ -211,4 +221,21 @@ describe('command line: bad input exits 2 with one line on stderr', () => {
     const doc = JSON.parse(p.stdout)
     expect(doc.input).toMatchObject({ file: 'standard input', rows: 30 })
   }, 180_000)
+})
+
+describe('command line: the instrument table', () => {
+  it('prints offsets and jitters rounded by their errors, with the errors (shared/report rounding)', () => {
+    const r = run(['fit', published('51peg-six-instruments.txt'), '--planets', '1', '--trend', 'none'])
+    expect(r.code).toBe(0)
+    const lines = r.out.split('\n')
+    const head = lines.findIndex((l) => /instrument\s+n\s+offset/.test(l))
+    expect(head).toBeGreaterThan(0)
+    const rows = lines.slice(head + 1, head + 7)
+    expect(rows.map((l) => l.trim().split(/\s+/)[0]).sort()).toEqual(['ELODIE', 'HARPS', 'HIRES', 'Lick13', 'Lick6', 'Lick8'])
+    for (const row of rows) {
+      // name, n, offset ± err, jitter ± err, rms: no unrounded value such as 0.9502904
+      expect(row).toMatch(/^\s*\S+\s+\d+\s+-?[\d.]+ ± [\d.]+\s+[\d.]+ ± [\d.]+\s+[\d.]+$/)
+      for (const num of row.match(/\d+\.\d+/g) ?? []) expect(num.split('.')[1].length).toBeLessThanOrEqual(3)
+    }
+  })
 })
