@@ -87,6 +87,8 @@ export const routes: Route[] = [
   { method: 'post', path: '/api/models/:modelId/fit', guards: [fitModel('analyst')], handler: analyses.fitModel },
   { method: 'post', path: '/api/models/:modelId/duplicate', guards: [fitModel('analyst')], handler: analyses.duplicateModel },
   { method: 'delete', path: '/api/models/:modelId', guards: [fitModel('analyst')], handler: analyses.archiveModel },
+  { method: 'post', path: '/api/models/:modelId/overrule', guards: [fitModel('analyst')], handler: analyses.overrule },
+  { method: 'post', path: '/api/models/:modelId/gp-variant', guards: [fitModel('analyst')], handler: analyses.gpVariant },
   { method: 'post', path: '/api/stars/:starId/search', guards: [star('analyst')], handler: analyses.search },
 
   { method: 'post', path: '/api/models/:modelId/sampling', guards: [fitModel('analyst')], handler: sampling.start },

@@ -3,7 +3,7 @@ import { QueryTypes } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star } from '../db/models.ts'
 import { ValidationError } from '../errors.ts'
-import { toRvData, type RvData } from '../../shared/rv/index.ts'
+import { toRvData, INDICATOR_MIN_ROWS, type IndicatorColumn, type RvData } from '../../shared/rv/index.ts'
 import type { DataSelection } from '../../shared/api/analyses.ts'
 
 export interface Row {
@@ -72,4 +72,14 @@ export async function loadRv(s: Services, star: Star, instruments: string[] | nu
   }
   const { data, ids } = rvDataOf(used)
   return { rows, used, data, ids, selection: selection(used, nExcluded, names, rvHash(used)) }
+}
+
+/**
+ * The activity indicators of the rows used (one value per row, NaN where a row has none), in name
+ * order; indicators with fewer than the core's INDICATOR_MIN_ROWS values are left out.
+ */
+export function indicatorColumns(used: Row[]): IndicatorColumn[] {
+  const names = [...new Set(used.flatMap((r) => Object.keys(r.indicators ?? {})))].sort()
+  return names.map((name) => ({ name, value: Float64Array.from(used, (r) => { const v = r.indicators?.[name]; return typeof v === 'number' && Number.isFinite(v) ? v : NaN }) }))
+    .filter((c) => c.value.filter(Number.isFinite).length >= INDICATOR_MIN_ROWS)
 }

@@ -3,11 +3,13 @@ import type { Services } from '../services.ts'
 import { routeId, scope, signedInUser } from '../guards.ts'
 import {
   createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, runPeriodogramRequestSchema,
-  searchRequestSchema, updateModelRequestSchema,
+  searchRequestSchema, updateModelRequestSchema, overruleRequestSchema, gpVariantRequestSchema,
 } from '../../shared/api/analyses.ts'
+import * as activity from './activity.ts'
 import { analysisScope } from './guards.ts'
 import * as analyses from './service.ts'
 import { compareModels } from './compare.ts'
+import { ValidationError } from '../errors.ts'
 
 export async function runPeriodogram(req: Request, res: Response, s: Services): Promise<void> {
   const input = runPeriodogramRequestSchema.parse(req.body)
@@ -18,8 +20,12 @@ export async function listPeriodograms(_req: Request, res: Response, s: Services
   res.json(await analyses.listPeriodograms(s, scope(res).star!))
 }
 
-export async function showPeriodogram(_req: Request, res: Response, s: Services): Promise<void> {
-  res.json(await analyses.getPeriodogram(s, analysisScope(res).periodogram!.id))
+export async function showPeriodogram(req: Request, res: Response, s: Services): Promise<void> {
+  const full = req.query.full
+  if (full !== undefined && !['0', '1', 'true', 'false'].includes(String(full))) {
+    throw new ValidationError('full: use full=1 for every computed power, or leave it out for the plot copy.', 'full')
+  }
+  res.json(await analyses.getPeriodogram(s, analysisScope(res).periodogram!.id, { full: full === '1' || full === 'true' }))
 }
 
 export async function listModels(_req: Request, res: Response, s: Services): Promise<void> {
@@ -66,4 +72,14 @@ export async function search(req: Request, res: Response, s: Services): Promise<
 
 export async function compare(_req: Request, res: Response, s: Services): Promise<void> {
   res.json(await compareModels(s, scope(res).star!))
+}
+
+export async function overrule(req: Request, res: Response, s: Services): Promise<void> {
+  const input = overruleRequestSchema.parse(req.body ?? {})
+  res.json(await activity.overrule(s, signedInUser(res), scope(res).star!, analysisScope(res).model!, input))
+}
+
+export async function gpVariant(req: Request, res: Response, s: Services): Promise<void> {
+  const input = gpVariantRequestSchema.parse(req.body ?? {})
+  res.status(201).json(await activity.gpVariant(s, signedInUser(res), scope(res).star!, analysisScope(res).model!, input))
 }

@@ -5,16 +5,19 @@ import { analysisModels, type FitModel, type FitModelVersion, type PeriodogramRu
 import { ConflictError, NotFoundError, ValidationError } from '../errors.ts'
 import { record } from '../audit/service.ts'
 import { ComputeError, defaultPool, type ComputePool } from '../compute/pool.ts'
-import { contentHash, loadRv, selectRows, selection, starRows } from './data.ts'
+import { contentHash, indicatorColumns, instrumentsOf, loadRv, selectRows, selection, starRows } from './data.ts'
 import { fitJson, specFromFit } from './fit-json.ts'
+import { whiteNoise } from '../compute/fit-noise.ts'
+import type { ActivitySearchOutput } from '../compute/search-activity.ts'
 import type {
-  CreateModelRequest, DuplicateModelRequest, FitModelRequest, ModelDetail, ModelSpec, ModelSummary, ModelVersion,
+  CreateModelRequest, DuplicateModelRequest, FitModelRequest, FitResultJson, ModelDetail, ModelSpec, ModelSummary, ModelVersion,
   PeriodogramRun as PeriodogramRunJson, PeriodogramSummary, RunPeriodogramRequest, SearchRequest, SearchResponse, UpdateModelRequest,
 } from '../../shared/api/analyses.ts'
 import { modelSpecSchema } from '../../shared/api/analyses.ts'
+import { enforceTeamBound, fullCurveNote, readCurves, saveCurves, splitForStorage, withCurves } from './periodogram-store.ts'
 
 export function pool(s: Services): ComputePool { return s.compute ?? defaultPool() }
-const M = (s: Services) => analysisModels(s.sequelize, s.models)
+export const M = (s: Services) => analysisModels(s.sequelize, s.models)
 const ref = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null)
 const iso = (d: Date) => new Date(d).toISOString()
 /** JSON with sorted keys: PostgreSQL's JSONB does not keep key order, so specs are compared in this form. */
@@ -98,10 +101,10 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
   if (req.minPeriod !== undefined && req.maxPeriod !== undefined && !(req.maxPeriod > req.minPeriod)) {
     throw new ValidationError(`maxPeriod: must be larger than minPeriod (${req.minPeriod} d); the data cover ${baseline.toFixed(1)} d.`, 'maxPeriod')
   }
-  const { settings: grid, ...result } = await pool(s).run('periodogram', {
+  const { settings: grid, full, ...result } = await pool(s).run('periodogram', {
     t: Float64Array.from(t), y: Float64Array.from(y), dy: Float64Array.from(dy),
     minPeriod: req.minPeriod, maxPeriod: req.maxPeriod, oversample: req.oversample,
-    instrument: inst ? Int32Array.from(inst) : undefined, keplerian: req.kind === 'rv',
+    instrument: inst ? Int32Array.from(inst) : undefined, keplerian: req.kind === 'rv', full: true,
   }).catch((err: unknown) => {
     // the numerical core names the offending option (e.g. a grid too large)
     if (err instanceof ComputeError && err.remoteName === 'RangeError') {
@@ -112,10 +115,12 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
   })
   const { minPeriod, maxPeriod, oversample } = grid
   const top = result.peaks[0]
+  // curves go to periodogram_curves in binary (display copies + every power), the rest stays JSON
+  const stored = splitForStorage(result, full)
   const run = await s.sequelize.transaction(async (transaction) => {
     const r = await M(s).PeriodogramRun.create({
       starId: star.id, kind: req.kind, indicator: req.kind === 'indicator' ? req.indicator! : null, modelVersionId,
-      settings: { minPeriod, maxPeriod, oversample, instruments: req.instruments ?? null }, data: sel, result,
+      settings: { minPeriod, maxPeriod, oversample, instruments: req.instruments ?? null }, data: sel, result: stored.json,
       topPeak: top ? { period: top.period, frequency: top.frequency, power: top.power, fap: top.fap } : null,
       createdBy: actor.id,
     }, { transaction })
@@ -123,15 +128,31 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
       teamId: star.teamId, userId: actor.id, action: 'periodogram.run', entity: 'periodogram', entityId: r.id,
       detail: { starId: star.id, kind: req.kind, indicator: r.indicator, modelVersionId, nPoints: sel.nPoints, topPeriod: top?.period ?? null },
     }, transaction)
+    await saveCurves(s, transaction, r.id, stored.display, stored.full)
     return r
   })
+  await enforceTeamBound(s, star.teamId, s.config.periodogramTeamBytes, run.id)
   return getPeriodogram(s, run.id)
 }
 
-export async function getPeriodogram(s: Services, id: number): Promise<PeriodogramRunJson> {
+/**
+ * One run with its plot curves (≤ 4000 points each), or with every computed power when `full`
+ * (409 when that run's full curve was dropped under the team's bound or never stored).
+ */
+export async function getPeriodogram(s: Services, id: number, opts: { full?: boolean } = {}): Promise<PeriodogramRunJson> {
   const r = await M(s).PeriodogramRun.findByPk(id, { include: [{ model: s.models.User, as: 'creator', attributes: ['id', 'name'] }] })
   if (!r) throw new NotFoundError('Periodogram')
-  return runJson(r)
+  const json = runJson(r)
+  const curves = await readCurves(s, id, opts)
+  if (!curves) return json
+  const bound = s.config.periodogramTeamBytes
+  if (opts.full && curves.fullState !== 'stored') throw new ConflictError(`full: ${fullCurveNote(id, curves, false, bound)}.`, 'full')
+  const served = !!opts.full
+  json.result = withCurves(r.result, curves, served)
+  json.result.downsampling = served
+    ? `full grid (${r.result.grid.count} frequencies; Keplerian ${r.result.keplerian?.count ?? 0} periods); ${fullCurveNote(id, curves, true, bound)}`
+    : `${r.result.downsampling}; ${fullCurveNote(id, curves, false, bound)}`
+  return json
 }
 
 export async function listPeriodograms(s: Services, star: Star): Promise<PeriodogramSummary[]> {
@@ -214,10 +235,18 @@ export async function listModels(s: Services, star: Star): Promise<ModelSummary[
 
 /** Checks that the spec's instruments exist for this star (400 naming `spec.instruments`). */
 async function checkSpec(s: Services, star: Star, spec: ModelSpec): Promise<void> {
-  if (spec.instruments && spec.instruments.length) selectRows(await starRows(s, star), spec.instruments, 'spec.instruments')
+  const rows = spec.instruments?.length || spec.instrumentTerms?.length ? await starRows(s, star) : []
+  if (spec.instruments && spec.instruments.length) selectRows(rows, spec.instruments, 'spec.instruments')
+  if (spec.instrumentTerms?.length) {
+    const names = spec.instruments?.length ? spec.instruments : instrumentsOf(rows)
+    const bad = spec.instrumentTerms.find((x) => !names.includes(x.instrument))
+    if (bad) throw new ValidationError(`spec.instrumentTerms: "${bad.instrument}" is not among the model's instruments (${names.join(', ') || 'none'}).`, 'spec.instrumentTerms')
+    const twice = spec.instrumentTerms.find((x, k) => spec.instrumentTerms!.findIndex((y) => y.instrument === x.instrument) !== k)
+    if (twice) throw new ValidationError(`spec.instrumentTerms: "${twice.instrument}" is listed twice; give one line per instrument.`, 'spec.instrumentTerms')
+  }
 }
 
-async function addVersion(
+export async function addVersion(
   s: Services, actor: User, model: FitModel, fields: Pick<FitModelVersion, 'name' | 'spec' | 'status' | 'result' | 'note'>,
   transaction: Transaction,
 ): Promise<FitModelVersion> {
@@ -229,7 +258,7 @@ async function addVersion(
   return v
 }
 
-async function lockModel(s: Services, id: number, transaction: Transaction): Promise<FitModel> {
+export async function lockModel(s: Services, id: number, transaction: Transaction): Promise<FitModel> {
   const m = await M(s).FitModel.findOne({ where: { id, archivedAt: null }, lock: transaction.LOCK.UPDATE, transaction })
   if (!m) throw new NotFoundError('Model')
   return m
@@ -273,20 +302,33 @@ export async function updateModel(s: Services, actor: User, star: Star, model: F
   return modelDetail(s, model.id)
 }
 
+/**
+ * Fits a spec in the worker pool under its noise model (white, or planets + GP) with its pinned
+ * jitters; returns the stored JSON (with its `noise` section and, for a GP, the activity per row).
+ */
+export async function fitSpecJson(s: Services, star: Star, spec: ModelSpec, maxIterations?: number): Promise<FitResultJson> {
+  const nParamsMin = spec.planets.length * 5 + 2
+  const { data, ids, selection: sel } = await loadRv(s, star, spec.instruments, 'spec.instruments', Math.max(nParamsMin, 3))
+  const out = await pool(s).run('fit', {
+    data, planets: spec.planets, trend: spec.trend, maxIterations, noise: spec.noise, instrumentTerms: spec.instrumentTerms,
+  }).catch((err: unknown) => {
+    // the fitter names the offending option (a prior on a fixed parameter, a fixed phase without a value…)
+    if (err instanceof ComputeError && err.remoteName === 'RangeError') throw new ValidationError(`spec: ${err.message}`, 'spec')
+    throw err
+  })
+  const result = fitJson(out.fit, data, ids, star, sel)
+  const activity = out.activity
+  if (activity) result.residuals = result.residuals.map((r, i) => ({ ...r, activity: activity[i]! }))
+  return { ...result, noise: out.noise }
+}
+
 /** Fits the current version's spec in the worker pool and stores the result as the next version. */
 export async function fitModel(s: Services, actor: User, star: Star, model: FitModel, req: FitModelRequest): Promise<ModelDetail> {
   const cur = (await M(s).FitModelVersion.findOne({ where: { modelId: model.id, version: model.currentVersion } }))!
   const spec = cur.spec
-  const nParamsMin = spec.planets.length * 5 + 2
-  const { data, ids, selection: sel } = await loadRv(s, star, spec.instruments, 'spec.instruments', Math.max(nParamsMin, 3))
-  const out = await pool(s).run('fit', { data, planets: spec.planets, trend: spec.trend, maxIterations: req.maxIterations })
-    .catch((err: unknown) => {
-      // the fitter names the offending option (a prior on a fixed parameter, a fixed phase without a value…)
-      if (err instanceof ComputeError && err.remoteName === 'RangeError') throw new ValidationError(`spec: ${err.message}`, 'spec')
-      throw err
-    })
-  const result = fitJson(out.fit, data, ids, star, sel)
-  const status = out.fit.status === 'failed' ? 'failed' : 'fitted'
+  const result = await fitSpecJson(s, star, spec, req.maxIterations)
+  const sel = result.data
+  const status = result.stats.status === 'failed' ? 'failed' : 'fitted'
   await s.sequelize.transaction(async (transaction) => {
     const m = await lockModel(s, model.id, transaction)
     if (m.currentVersion !== cur.version) {
@@ -295,7 +337,10 @@ export async function fitModel(s: Services, actor: User, star: Star, model: FitM
     const v = await addVersion(s, actor, m, { name: cur.name, spec, status, result, note: 'fitted' }, transaction)
     await record(s, {
       teamId: star.teamId, userId: actor.id, action: 'model.fit', entity: 'model', entityId: m.id,
-      detail: { starId: star.id, version: v.version, status, converged: result.stats.converged, bic: result.stats.bic, nPoints: sel.nPoints, dataHash: sel.hash },
+      detail: {
+        starId: star.id, version: v.version, status, converged: result.stats.converged, bic: result.stats.bic, nPoints: sel.nPoints, dataHash: sel.hash,
+        noise: result.noise?.kind ?? 'white',
+      },
     }, transaction)
   })
   return modelDetail(s, model.id)
@@ -323,24 +368,26 @@ export async function archiveModel(s: Services, actor: User, star: Star, model: 
 
 /** Runs the numerical core's search (in the pool) and saves the chosen solution as a fitted model. */
 export async function search(s: Services, actor: User, star: Star, req: SearchRequest): Promise<SearchResponse> {
-  const { data, ids, selection: sel } = await loadRv(s, star, req.instruments, 'instruments', 10)
+  const { data, ids, used, selection: sel } = await loadRv(s, star, req.instruments, 'instruments', 10)
   // The core's defaults (SEARCH_DEFAULTS) unless the request sets an option: the same as the CLI.
-  const out = await pool(s).run('search', {
-    data, options: {
-      trend: req.trend, maxPlanets: req.maxPlanets, fapThreshold: req.fapThreshold, minPeriod: req.minPeriod, maxPeriod: req.maxPeriod,
-    },
-  }).catch((err: unknown) => {
+  // With activity indicators every signal is vetted against them (activity candidates left out of the model).
+  const indicators = indicatorColumns(used)
+  const options = { trend: req.trend, maxPlanets: req.maxPlanets, fapThreshold: req.fapThreshold, minPeriod: req.minPeriod, maxPeriod: req.maxPeriod }
+  const out: ActivitySearchOutput = await (indicators.length ? pool(s).run('activitySearch', { data, options, indicators }) : pool(s).run('search', { data, options })).catch((err: unknown) => {
     if (err instanceof ComputeError && err.remoteName === 'RangeError') {
       const field = /minPeriod|maxPeriod/.exec(err.message)?.[0] ?? 'minPeriod'
       throw new ValidationError(`${field}: ${err.message}`, field)
     }
     throw err
   })
-  const result = { ...fitJson(out.fit, data, ids, star, sel), search: out.report }
+  const result = { ...fitJson(out.fit, data, ids, star, sel), search: out.report, noise: whiteNoise(data, out.fit, data.instrumentNames.map(() => null)) }
   const name = `Search: ${out.planets} planet${out.planets === 1 ? '' : 's'}`
   const model = await createModel(s, actor, star, { name, spec: specFromFit(out.fit, out.trend, req.instruments ?? null) }, {
     status: out.fit.status === 'failed' ? 'failed' : 'fitted', result, note: 'search', action: 'model.search',
-    detail: { planets: out.planets, trend: out.trend, steps: out.steps.length, dataHash: sel.hash },
+    detail: {
+      planets: out.planets, trend: out.trend, steps: out.steps.length, dataHash: sel.hash,
+      activityCandidates: out.report.activity?.candidates.filter((c) => c.activity).map((c) => c.period) ?? [],
+    },
   })
   return {
     model,

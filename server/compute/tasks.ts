@@ -1,10 +1,11 @@
 // The computations the compute pool runs in its worker threads: thin wrappers around the numerical
 // core (shared/rv) that take and return structured-clonable plain data.
 import {
-  periodogramReport, downsampleCurve, fitSpec, searchPlanets, searchSummary, CURVE_POINTS, FAP_LEVELS,
-  type RvData, type FitResult, type PlanetStart, type TrendKind, type SearchOptions, type SearchStep, type PeriodogramReport, type SearchSummary,
+  periodogramReport, downsampleCurve, searchPlanets, searchSummary, CURVE_POINTS, FAP_LEVELS,
+  type RvData, type TrendKind, type SearchOptions, type SearchStep, type PeriodogramReport, type SearchSummary,
 } from '../../shared/rv/index.ts'
-import type { PlanetSpec } from '../../shared/api/analyses.ts'
+import { activitySearchTask, rotationGuessTask } from './search-activity.ts'
+import { fitWithNoise, type NoiseFitInput, type NoiseFitOutput, type PlainFit } from './fit-noise.ts'
 import { UPLOAD_TASKS } from '../uploads/tasks.ts'
 
 export { downsampleCurve, CURVE_POINTS, FAP_LEVELS }
@@ -20,34 +21,29 @@ export interface PeriodogramInput {
   instrument?: Int32Array
   /** Also the Keplerian periodogram (velocities: needs `instrument`). */
   keplerian?: boolean
+  /** Also every computed power (for storage, `PeriodogramReport.full`). */
+  full?: boolean
 }
 
 /** The core's periodogram report (`periodogramReport`): the same function and defaults as the CLI. */
 export function periodogramTask(inp: PeriodogramInput): PeriodogramReport {
   return periodogramReport({
     t: inp.t, y: inp.y, dy: inp.dy, instrument: inp.instrument, minPeriod: inp.minPeriod, maxPeriod: inp.maxPeriod, oversample: inp.oversample,
-    keplerian: inp.keplerian,
+    keplerian: inp.keplerian, full: inp.full,
   })
 }
 
-export interface FitInput {
-  data: RvData
-  planets: PlanetSpec[]
-  trend: TrendKind
-  maxIterations?: number
-}
-
-export type PlainFit = Omit<FitResult, 'history'>
-export interface FitOutput { fit: PlainFit; starts: PlanetStart[] }
+export type FitInput = NoiseFitInput
+export type { PlainFit }
+export type FitOutput = NoiseFitOutput
 
 /**
- * Fits a model spec with the core's `fitSpec` (starts from the exact linear scan for planets
- * given without a phase or K, per-planet priors flattened, one ML/MAP fit) — as the CLI does.
+ * Fits a model spec under its noise model (`fit-noise.ts`): white noise with the core's `fitSpec`
+ * (starts from the exact linear scan for planets given without a phase or K, per-planet priors
+ * flattened, one ML/MAP fit — as the CLI does; pinned jitters honoured), or planets + GP with `fitWithGp`.
  */
 export function fitTask(inp: FitInput): FitOutput {
-  const { fit: full, starts } = fitSpec(inp.data, inp.planets, { trend: inp.trend, maxIterations: inp.maxIterations })
-  const { history: _h, ...fit } = full
-  return { fit, starts }
+  return fitWithNoise(inp)
 }
 
 export interface SearchInput { data: RvData; options: SearchOptions }
@@ -77,6 +73,8 @@ export const TASKS = {
   periodogram: periodogramTask,
   fit: fitTask,
   search: searchTask,
+  activitySearch: activitySearchTask,
+  rotationGuess: rotationGuessTask,
   spin: spinTask,
   ...UPLOAD_TASKS,
 }

@@ -10,7 +10,7 @@ import { routes, type Route } from '../routes.ts'
 import { signedIn } from '../guards.ts'
 import { errorBodySchema } from '../../shared/api/errors.ts'
 import {
-  createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, runPeriodogramRequestSchema, searchRequestSchema, updateModelRequestSchema,
+  createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, overruleRequestSchema, gpVariantRequestSchema, runPeriodogramRequestSchema, searchRequestSchema, updateModelRequestSchema,
 } from '../../shared/api/analyses.ts'
 import { changePasswordRequestSchema, loginRequestSchema, registerRequestSchema, resetPasswordRequestSchema, resetRequestSchema } from '../../shared/api/auth.ts'
 import { deleteDatasetRequestSchema, updateMeasurementRequestSchema } from '../../shared/api/measurements.ts'
@@ -44,6 +44,8 @@ export const BODIES: Record<string, Schema> = {
   'patch /api/models/:modelId': updateModelRequestSchema,
   'post /api/models/:modelId/fit': fitModelRequestSchema,
   'post /api/models/:modelId/duplicate': duplicateModelRequestSchema,
+  'post /api/models/:modelId/overrule': overruleRequestSchema,
+  'post /api/models/:modelId/gp-variant': gpVariantRequestSchema,
   'post /api/stars/:starId/search': searchRequestSchema,
   'post /api/models/:modelId/sampling': startSamplingRequestSchema,
   'post /api/models/:modelId/report': freezeRequestSchema,

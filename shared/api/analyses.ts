@@ -206,6 +206,23 @@ export const updateModelRequestSchema = z.object({ name: nameSchema.optional(), 
 export type UpdateModelRequest = z.input<typeof updateModelRequestSchema>
 export const duplicateModelRequestSchema = z.object({ name: nameSchema.optional() })
 export type DuplicateModelRequest = z.infer<typeof duplicateModelRequestSchema>
+/** POST /api/models/:modelId/overrule — count an activity candidate of the search as a planet. */
+export const overruleRequestSchema = z.object({
+  /** The candidate's `signal` index in the search report. */
+  signal: z.number().int().min(0),
+  /** Why the analyst counts it as a planet (kept in the model's history). */
+  reason: z.string().trim().min(3, 'say in a few words why the signal is a planet').max(500),
+})
+export type OverruleRequest = z.infer<typeof overruleRequestSchema>
+/** POST /api/models/:modelId/gp-variant — the same planets with a GP noise model, fitted. */
+export const gpVariantRequestSchema = z.object({
+  name: nameSchema.optional(),
+  /** Rotation period (d) and its 1σ; default: the strongest significant activity-indicator peak. */
+  period: positive().optional(),
+  sigma: positive().optional(),
+  kernel: gpKernelSchema.optional(),
+})
+export type GpVariantRequest = z.infer<typeof gpVariantRequestSchema>
 export const fitModelRequestSchema = z.object({ maxIterations: z.number().int().min(1).max(2000).optional() })
 export type FitModelRequest = z.infer<typeof fitModelRequestSchema>
 
@@ -231,6 +248,36 @@ export const fitWarningSchema = z.object({
   message: z.string(),
 })
 export type FitWarning = z.infer<typeof fitWarningSchema>
+
+/** How one signal of the search was judged against the activity indicators. */
+export const activityCandidateSchema = z.object({
+  /** Index into the search's full fit (every signal found, planets and activity). */
+  signal: z.number().int(),
+  period: z.number(), K: z.number(), e: z.number(), omegaDeg: z.number(), tc: z.number(),
+  /** True: labelled an activity candidate (not counted as a planet). */
+  activity: z.boolean(),
+  matches: z.array(z.object({
+    indicator: z.string(), kind: z.enum(['period', 'harmonic', 'correlation']), relation: z.string().nullable(),
+    indicatorPeriod: z.number().nullable(), fap: z.number().nullable(),
+    pearson: z.number().nullable(), pearsonP: z.number().nullable(), spearman: z.number().nullable(),
+  })),
+  /** The evidence in plain words. */
+  cautions: z.array(z.string()),
+  /** Set once an analyst counted the signal as a planet. */
+  overruled: z.object({ by: userRefSchema.nullable(), at: z.string(), reason: z.string() }).nullable().optional(),
+})
+export type ActivityCandidate = z.infer<typeof activityCandidateSchema>
+export const activityReportSchema = z.object({
+  candidates: z.array(activityCandidateSchema),
+  indicators: z.array(z.object({
+    name: z.string(), n: z.number().int(),
+    peaks: z.array(z.object({ period: z.number(), fap: z.number() })),
+    pearson: z.number().nullable(), pearsonP: z.number().nullable(), spearman: z.number().nullable(),
+  })),
+  cautions: z.array(z.string()),
+  settings: z.object({ peakFap: z.number(), correlationP: z.number(), minAbsR: z.number() }),
+})
+export type ActivityReport = z.infer<typeof activityReportSchema>
 
 /** A rejection, warning or note of the search about one signal or the model (readable message). */
 export const searchFlagSchema = z.object({
@@ -258,8 +305,39 @@ export const searchReportSchema = z.object({
   signals: z.array(searchSignalSchema),
   alternatives: z.array(z.object({ description: z.string(), planets: z.number().int(), trend: trendSchema, bic: z.number(), lnL: z.number() })),
   settings: z.object({ minPeriod: z.number(), maxPeriod: z.number(), bicThreshold: z.number(), maxPlanets: z.number().int() }),
+  /** With activity indicators: every signal judged against them (activity candidates are not in the model). */
+  activity: activityReportSchema.optional(),
 })
 export type SearchReport = z.infer<typeof searchReportSchema>
+
+/** One hyperparameter of the noise model as fitted: value, 1σ (null when fixed or undetermined), unit. */
+export const noiseHyperSchema = z.object({
+  name: z.string(), symbol: z.string(), value: z.number(), error: z.number().nullable(), unit: z.string(), fixed: z.boolean(),
+})
+export type NoiseHyper = z.infer<typeof noiseHyperSchema>
+
+/** The fitted noise model: what the methods text, the report table and the plots need. */
+export const fitNoiseSchema = z.object({
+  kind: z.enum(['white', 'gp']),
+  kernel: gpKernelSchema.nullable(),
+  /** 'semiseparable (O(N))' or 'dense Cholesky' for a GP; null for white noise. */
+  solver: z.string().nullable(),
+  hyperparameters: z.array(noiseHyperSchema),
+  /** The priors as applied, in words. */
+  priors: z.array(z.string()),
+  /** Jitters pinned by the user (instrument → m/s). */
+  pinnedJitters: z.array(z.object({ instrument: z.string(), jitter: z.number() })),
+  lnL: z.number().nullable(), bic: z.number().nullable(),
+  /** Exact parameters to rebuild the GP (plots): kernel shape, amplitude(s) and jitters in the fit's instrument order. */
+  model: z.object({
+    kernel: z.object({ kind: gpKernelSchema, period: z.number(), decayTime: z.number(), shape: z.number() }),
+    amplitude: z.array(z.number()), jitter: z.array(z.number()), instruments: z.array(z.string()),
+  }).nullable(),
+  /** Plain words on how to read the fit under this noise model. */
+  note: z.string(),
+})
+export type FitNoise = z.infer<typeof fitNoiseSchema>
+
 
 export const fitResultSchema = z.object({
   planets: z.array(fittedPlanetSchema),
@@ -278,11 +356,17 @@ export const fitResultSchema = z.object({
   /** Reference time of the trend and of the reported Tc/Tp (full JD). */
   epoch: z.number(),
   /** Per measurement used: the model velocity (with its instrument's offset and the trend) and the residual, m/s. */
-  residuals: z.array(z.object({ measurementId: z.number().int(), model: z.number(), residual: z.number() })),
+  residuals: z.array(z.object({
+    measurementId: z.number().int(), model: z.number(), residual: z.number(),
+    /** GP noise model only: the GP's conditional mean at this row (the activity as its instrument sees it), m/s. */
+    activity: z.number().optional(),
+  })),
   warnings: z.array(fitWarningSchema),
   data: dataSelectionSchema,
   /** For a model made by the search: its flags, alias partners and alternatives. */
   search: searchReportSchema.nullable().optional(),
+  /** The noise model as fitted (absent in results stored before noise models existed: white noise). */
+  noise: fitNoiseSchema.optional(),
 })
 export type FitResultJson = z.infer<typeof fitResultSchema>
 

@@ -56,6 +56,9 @@ const cases: Case[] = [
   { method: 'post', route: '/api/models/:modelId/fit', expect: analyst(200), prepare: async () => ({ path: `/api/models/${await newModel()}/fit` }) },
   { method: 'post', route: '/api/models/:modelId/duplicate', path: '/api/models/MODEL/duplicate', expect: analyst(201) },
   { method: 'delete', route: '/api/models/:modelId', expect: analyst(204), prepare: async () => ({ path: `/api/models/${await newModel()}` }) },
+  // no activity candidates on this star: an analyst reaches the 400; reviewers 403, another team 404
+  { method: 'post', route: '/api/models/:modelId/overrule', path: '/api/models/MODEL/overrule', expect: analyst(400), body: { signal: 0, reason: 'transits seen' } },
+  { method: 'post', route: '/api/models/:modelId/gp-variant', path: '/api/models/MODEL/gp-variant', expect: analyst(201), body: { period: 20 } },
   { method: 'post', route: '/api/stars/:starId/search', path: '/api/stars/STAR/search', expect: analyst(201), body: { maxPlanets: 1, trend: 'none' } },
 ]
 
