@@ -1,6 +1,7 @@
 // Load test: N signed-in users on loopback against a running API, a realistic mix of reads and
 // computations for a bounded time; prints p50/p95/p99 per request kind, the errors, and the API's
-// memory (RSS) before, right after, and a minute after the load.
+// memory (RSS) before, right after, and a minute after the load, and the API's event-loop delay p99
+// over the last minute of the load (from /api/health; use --duration 60 or more).
 //
 //   node --import tsx scripts/load.ts [--url http://127.0.0.1:3000] [--users 50] [--duration 120]
 //        [--pid API_PID] [--settle 60] [--password starsway-demo]
@@ -190,12 +191,24 @@ function report(before: number | null, after: number | null, settled: number | n
   }
 }
 
+/** The API's own event-loop delay over its last minute (server/loop-delay.ts, in /api/health), or null. */
+async function loopDelay(): Promise<{ p99Ms: number; maxMs: number; seconds: number } | null> {
+  try {
+    const body = await (await fetch(`${BASE}/api/health`)).json() as { eventLoop?: { p99Ms: number; maxMs: number; seconds: number } }
+    return body.eventLoop ?? null
+  } catch { return null }
+}
+
 const { sessions, world } = await setUp()
 const before = rssMb(args.pid)
 const until = Date.now() + DURATION_MS
 console.log(`${sessions.length} sessions signed in; ${world.starIds.length} stars, ${world.models.size} models to fit; running ${args.duration} s…`)
 await Promise.all(sessions.map((s) => user(s, world, until)))
+const loop = await loopDelay()
 const after = rssMb(args.pid)
 if (args.pid) await new Promise((r) => setTimeout(r, SETTLE_MS))
 report(before, after, rssMb(args.pid))
+console.log(loop
+  ? `API event-loop delay over the last ${loop.seconds} s of the load (worst 10-s window): p99 ${loop.p99Ms.toFixed(0)} ms, max ${loop.maxMs.toFixed(0)} ms`
+  : 'API event-loop delay: not reported (/api/health has no eventLoop: an older server, or not started by server/index.ts)')
 process.exit([...errors.values()].some((n) => n > 0) ? 1 : 0)

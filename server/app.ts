@@ -13,6 +13,7 @@ import type { Models } from './db/models.ts'
 import type { Mailer } from './mail/mailer.ts'
 import type { Services } from './services.ts'
 import { routes } from './routes.ts'
+import { health } from './dev/routes.ts'
 import { errorForLog, errorMiddleware, HttpError, NotFoundError } from './errors.ts'
 import { normaliseEmail } from '../shared/api/auth.ts'
 import { refuseUnstorableText } from './input.ts'
@@ -86,6 +87,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(pinoHttp({
     logger,
     genReqId: (req) => (req.headers['x-request-id'] as string | undefined) ?? randomUUID(),
+    autoLogging: { ignore: (req) => req.url === '/api/health' }, // polled often; a line each would flood the log
     // one short line per request: no headers (they carry the session cookie)
     serializers: {
       req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: loggedUrl(req.url) }),
@@ -103,6 +105,8 @@ export function createApp(deps: AppDeps): Express {
       },
     },
   }))
+  // liveness first: no logging, body parsing, session lookup (a database query) or CSRF check
+  app.get('/api/health', (req, res) => { res.set('Cache-Control', 'no-store'); health(req, res) })
   app.use(cookieParser())
   app.use(express.json({ limit: '1mb' }))
   app.use(refuseUnstorableText)

@@ -6,21 +6,27 @@ import { errorForLog } from './errors.ts'
 import { createSequelize, initModels } from './db/index.ts'
 import { createMailer } from './mail/mailer.ts'
 import { startJobWorkers, type JobWorkers } from './jobs/index.ts'
+import { startLoopDelay } from './loop-delay.ts'
 
 const config = loadConfig()
-const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' })
+// asynchronous log writes: a synchronous write per request to a slow pipe or disk held the event
+// loop (CPU profile under load, issue 11); flushed before every exit below
+const logDestination = pino.destination({ dest: 1, sync: false })
+const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' }, logDestination)
+const exit = (code: number): never => { try { logDestination.flushSync() } catch { /* not ready yet */ } process.exit(code) }
+startLoopDelay()
 const sequelize = createSequelize(config.databaseUrl)
 try {
   await sequelize.authenticate()
 } catch (err) {
   const where = (() => { try { const u = new URL(config.databaseUrl); return `${u.hostname}:${u.port || 5432}${u.pathname}` } catch { return 'DATABASE_URL' } })()
   logger.fatal(`Cannot reach the database at ${where}: ${(err as Error).message}. Start PostgreSQL (npm start does) or fix DATABASE_URL.`)
-  process.exit(1)
+  exit(1)
 }
 // a crash is logged and ends the process with status 1: scripts/start.sh (or systemd, a container
 // runtime) starts it again; never keep serving in an unknown state
-process.on('uncaughtException', (err) => { logger.fatal({ err: errorForLog(err) }, 'uncaught exception: exiting'); process.exit(1) })
-process.on('unhandledRejection', (err) => { logger.fatal({ err: errorForLog(err) }, 'unhandled promise rejection: exiting'); process.exit(1) })
+process.on('uncaughtException', (err) => { logger.fatal({ err: errorForLog(err) }, 'uncaught exception: exiting'); exit(1) })
+process.on('unhandledRejection', (err) => { logger.fatal({ err: errorForLog(err) }, 'unhandled promise rejection: exiting'); exit(1) })
 const models = initModels(sequelize)
 const mailer = createMailer(config.smtp)
 const app = createApp({ config, sequelize, models, mailer, logger })
@@ -39,14 +45,14 @@ async function shutdown(signal: string): Promise<void> {
   if (stopping) return
   stopping = true
   logger.info(`${signal}: shutting down`)
-  const force = setTimeout(() => process.exit(1), 10_000)
+  const force = setTimeout(() => exit(1), 10_000)
   force.unref()
   server.close()
   server.closeIdleConnections()
   await workers?.stop().catch((err: unknown) => logger.error({ err }, 'stopping the job workers failed'))
   mailer.close()
   await sequelize.close()
-  process.exit(0)
+  exit(0)
 }
 process.on('SIGINT', () => void shutdown('SIGINT'))
 process.on('SIGTERM', () => void shutdown('SIGTERM'))

@@ -1,4 +1,3 @@
-import bcrypt from 'bcryptjs'
 import { Op, UniqueConstraintError } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { User } from '../db/models.ts'
@@ -6,13 +5,14 @@ import { ConflictError, UnauthorizedError, ValidationError } from '../errors.ts'
 import type { MeResponse, RegisterRequest, User as UserJson } from '../../shared/api/auth.ts'
 import { hashToken, newToken } from './tokens.ts'
 import { deleteUserSessions } from './sessions.ts'
+import { comparePassword, hashPassword } from './hasher.ts'
 import { acceptInvitationInTx, findOpenInvitation } from '../teams/service.ts'
 
 const RESET_HOURS = 1
 /** Hashes compared against when the e-mail is unknown (per cost), so both failures take the same time. */
 const dummyHashes = new Map<number, Promise<string>>()
 function dummyHash(cost: number): Promise<string> {
-  if (!dummyHashes.has(cost)) dummyHashes.set(cost, bcrypt.hash('starsway-no-such-user', cost))
+  if (!dummyHashes.has(cost)) dummyHashes.set(cost, hashPassword('starsway-no-such-user', cost).catch((err: unknown) => { dummyHashes.delete(cost); throw err }))
   return dummyHashes.get(cost)!
 }
 
@@ -28,7 +28,7 @@ export async function register(s: Services, input: RegisterRequest): Promise<Use
   if (await s.models.User.findOne({ where: { email: input.email } })) {
     throw new ConflictError('An account with this e-mail already exists: sign in instead.', 'email')
   }
-  const passwordHash = await bcrypt.hash(input.password, s.config.bcryptCost)
+  const passwordHash = await hashPassword(input.password, s.config.bcryptCost)
   try {
     return await s.sequelize.transaction(async (transaction) => {
       const user = await s.models.User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
@@ -45,7 +45,7 @@ export async function register(s: Services, input: RegisterRequest): Promise<Use
 /** Same message for an unknown e-mail and a wrong password (no user enumeration). */
 export async function login(s: Services, email: string, password: string): Promise<User> {
   const user = await s.models.User.findOne({ where: { email } })
-  const ok = await bcrypt.compare(password, user ? user.passwordHash : await dummyHash(s.config.bcryptCost))
+  const ok = await comparePassword(password, user ? user.passwordHash : await dummyHash(s.config.bcryptCost))
   if (!user || !ok) throw new UnauthorizedError('Wrong e-mail or password.')
   return user
 }
@@ -62,10 +62,10 @@ export async function me(s: Services, user: User): Promise<MeResponse> {
 
 /** Changes the password and ends every other session (token version bump); returns the updated user. */
 export async function changePassword(s: Services, user: User, currentPassword: string, newPassword: string): Promise<User> {
-  if (!(await bcrypt.compare(currentPassword, user.passwordHash))) {
+  if (!(await comparePassword(currentPassword, user.passwordHash))) {
     throw new ValidationError('The current password is wrong.', 'currentPassword')
   }
-  user.passwordHash = await bcrypt.hash(newPassword, s.config.bcryptCost)
+  user.passwordHash = await hashPassword(newPassword, s.config.bcryptCost)
   user.tokenVersion = user.tokenVersion + 1
   await user.save()
   return user
@@ -94,7 +94,7 @@ export async function requestReset(s: Services, email: string): Promise<void> {
 }
 
 export async function resetPassword(s: Services, token: string, newPassword: string): Promise<void> {
-  const passwordHash = await bcrypt.hash(newPassword, s.config.bcryptCost)
+  const passwordHash = await hashPassword(newPassword, s.config.bcryptCost)
   await s.sequelize.transaction(async (transaction) => {
     const reset = await s.models.PasswordReset.findOne({
       where: { tokenHash: hashToken(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } },

@@ -3,12 +3,18 @@ import { readFileSync } from 'node:fs'
 import type { Services } from '../services.ts'
 import { listDevMail } from '../mail/dev-server.ts'
 import { databaseError, NotFoundError, UnavailableError } from '../errors.ts'
+import { loopDelay } from '../loop-delay.ts'
 
 const version = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version
 
-/** Liveness: cheap, never touches the database (a load balancer may call it often). */
+/**
+ * Liveness: cheap, never touches the database (a load balancer may call it often). Answered before
+ * the body parser and the session lookup (server/app.ts). `eventLoop`: the API's recent event-loop
+ * delay when the process measures it (server/loop-delay.ts).
+ */
 export function health(_req: Request, res: Response): void {
-  res.json({ ok: true, version })
+  const eventLoop = loopDelay()
+  res.json(eventLoop ? { ok: true, version, eventLoop } : { ok: true, version })
 }
 
 const READY_TIMEOUT_MS = 2000
