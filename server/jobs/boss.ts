@@ -43,9 +43,9 @@ export async function installJobSchema(sequelize: Sequelize): Promise<void> {
 }
 
 /** A started pg-boss with its own small pool, for a process that works on jobs. */
-export async function startBoss(databaseUrl: string, onError: (err: Error) => void): Promise<PgBoss> {
+export async function startBoss(databaseUrl: string, onError: (err: Error) => void, applicationName?: string): Promise<PgBoss> {
   const boss = new PgBoss({
-    connectionString: databaseUrl, schema: BOSS_SCHEMA, max: 4,
+    connectionString: databaseUrl, schema: BOSS_SCHEMA, max: 4, ...(applicationName ? { application_name: applicationName } : {}),
     // maintenance also expires jobs whose worker vanished without a trace (backstop of the
     // heartbeat check in server/sampling/runner.ts)
     maintenanceIntervalSeconds: 60,

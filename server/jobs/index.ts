@@ -7,6 +7,7 @@ import type { Services } from '../services.ts'
 import { SAMPLING_QUEUE, startBoss } from './boss.ts'
 import { runSamplingJob, type RunControl } from '../sampling/runner.ts'
 import { reapStaleRuns } from '../sampling/service.ts'
+import { jobsAppName } from '../sampling/ensembles.ts'
 import { registerLimitWorkers } from '../limits/worker.ts'
 import { registerTriageWorkers } from '../triage/worker.ts'
 
@@ -42,7 +43,8 @@ export async function startJobWorkers(s: Services, opts: JobWorkerOptions = {}):
   const checkpointEvery = opts.checkpointEvery ?? cfg.checkpointEvery
   const log = opts.log ?? (() => {})
   const workerId = `${hostname()}:${process.pid}:${++counter}`
-  const boss = await startBoss(s.config.databaseUrl, (err) => log(`job queue error: ${err.message}`))
+  // the connections' name carries the slots: how the API counts the workers seen (parallel sampling)
+  const boss = await startBoss(s.config.databaseUrl, (err) => log(`job queue error: ${err.message}`), jobsAppName(workerId, concurrency))
 
   let stopping = false
   const listeners = new Set<() => void>()

@@ -25,7 +25,8 @@ export async function chainCsv(s: Services, run: SamplingRun): Promise<string> {
   const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors: input.model.priors as Prior[] })
   const fixed = (result.settings.fixed ?? planets.map((p) => p.fix ?? [])) as PlanetParam[][]
   const post = createLogPosterior(data, specFromFit(fit, { fix: fixed }))
-  const W = run.settings.walkers, D = post.nDim
+  // a parallel run's merged chain holds every ensemble's walkers (result.settings.walkers)
+  const W = result.settings.walkers, D = post.nDim
   if (rows.chain.length !== rows.steps.length * W * D) throw new ConflictError('The stored chain does not match the run\'s model; it cannot be written.')
   const keep: number[] = []
   for (let r = 0; r < rows.steps.length; r++) if (rows.steps[r]! % keptThin === 0 && rows.steps[r]! <= stepsDone) keep.push(r)

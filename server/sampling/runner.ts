@@ -9,6 +9,7 @@ import { samplingModels, type SamplingRun } from '../db/models-sampling.ts'
 import { STOP_CANCEL, STOP_SHUTDOWN, type ThreadData, type ThreadMessage } from './thread.ts'
 import type { SamplingProgress, SamplingResult } from '../../shared/api/sampling.ts'
 import type { ChainRows } from '../../shared/rv/chain-store.ts'
+import { ensembleEnded, parentOf, scheduleMergeCheck } from './ensembles.ts'
 
 export interface RunnerOptions {
   /** Who is working (host:pid:n), written to the row while the run is claimed. */
@@ -63,7 +64,7 @@ async function claim(s: Services, runId: number, jobId: string, opts: RunnerOpti
   const rows = await s.sequelize.query<{ id: number }>(
     `UPDATE sampling_runs SET state = 'running', worker_id = :worker, job_id = :job, heartbeat_at = now(),
        attempts = attempts + 1, started_at = COALESCE(started_at, now()), updated_at = now()
-     WHERE id = :id AND (state = 'queued' OR (state = 'running' AND (heartbeat_at IS NULL OR heartbeat_at < now() - make_interval(secs => :stale))))
+     WHERE id = :id AND COALESCE((settings->>'ensembles')::int, 1) <= 1 AND (state = 'queued' OR (state = 'running' AND (heartbeat_at IS NULL OR heartbeat_at < now() - make_interval(secs => :stale))))
      RETURNING id`,
     { replacements: { id: runId, worker: opts.workerId, job: jobId, stale: opts.staleSeconds }, type: QueryTypes.SELECT },
   )
@@ -85,6 +86,11 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
     return { state: row?.state ?? 'missing' }
   }
   const run = (await SamplingRun.findByPk(runId))!
+  // an ensemble of a parallel run: the parallel run is running once one of its ensembles is
+  const parentId = parentOf(run.settings)
+  if (parentId !== null) {
+    await s.sequelize.query(`UPDATE sampling_runs SET state = 'running', started_at = COALESCE(started_at, now()), updated_at = now() WHERE id = :p AND state = 'queued'`, { replacements: { p: parentId } })
+  }
   const resumeStep = run.checkpoint && run.checkpointStep > 0 ? run.checkpointStep : 0
   await SamplingRun.update({ resumedFromStep: resumeStep || null }, { where: { id: runId } })
   opts.log?.(`sampling run ${runId}: started (attempt ${run.attempts}${resumeStep ? `, resuming at step ${resumeStep}` : ''})`)
@@ -147,14 +153,20 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
           },
         )
       })
-    } catch (err) { opts.log?.(`sampling run ${runId}: checkpoint failed: ${String(err)}`) }
+    } catch (err) { opts.log?.(`sampling run ${runId}: checkpoint failed: ${String(err)}`); return }
+    // an ensemble's new rows: check whether the parallel run's ensembles agree now
+    if (parentId !== null && msg.state) scheduleMergeCheck(s, parentId, 1000, opts.log)
   }
   let chunkWrites: Promise<void> = Promise.resolve()
   const queueChunk = (msg: { step: number; rows: ChainRows; state?: Record<string, unknown> }) => { chunkWrites = chunkWrites.then(() => appendChunk(msg)) }
-  // cancel is read four times a second (a light query), so the thread stops within about 1/4 s + 10 steps
+  // cancel is read four times a second (a light query), so the thread stops within about 1/4 s + 10 steps;
+  // an ensemble also stops once its parallel run has ended (merged, or cancelled)
   const cancelPoll = setInterval(() => {
-    void s.sequelize.query<{ state: string }>('SELECT state FROM sampling_runs WHERE id = :id', { replacements: { id: runId }, type: QueryTypes.SELECT })
-      .then((r) => { if (r[0]?.state === 'cancelled') Atomics.store(stop, 0, STOP_CANCEL) })
+    void s.sequelize.query<{ state: string; parent: string | null }>(
+      'SELECT r.state, p.state AS parent FROM sampling_runs r LEFT JOIN sampling_runs p ON p.id = :parent WHERE r.id = :id',
+      { replacements: { id: runId, parent: parentId ?? 0 }, type: QueryTypes.SELECT },
+    )
+      .then((r) => { if (r[0]?.state === 'cancelled' || (r[0]?.parent && ['succeeded', 'failed', 'cancelled'].includes(r[0].parent))) Atomics.store(stop, 0, STOP_CANCEL) })
       .catch(() => undefined)
   }, 250)
   const timer = setInterval(() => serial(beat), opts.heartbeatMs ?? 1000)
@@ -218,7 +230,10 @@ export async function runSamplingJob(s: Services, runId: number, jobId: string, 
   }
   const final = (await SamplingRun.findByPk(runId))!
   opts.log?.(`sampling run ${runId}: ${final.state}`)
-  if (final.state === 'succeeded' || final.state === 'failed') await notify(s, final)
+  if (parentId !== null) {
+    // an ensemble mails nobody: its parallel run does, once merged
+    await ensembleEnded(s, parentId).catch((err) => opts.log?.(`parallel sampling run ${parentId}: closing failed: ${String(err)}`))
+  } else if (final.state === 'succeeded' || final.state === 'failed') await notify(s, final)
   return { state: final.state }
 }
 

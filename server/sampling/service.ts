@@ -16,6 +16,8 @@ import { MIN_N_OVER_TAU } from '../../shared/rv/mcmc.ts'
 import type { PlanetParam } from '../../shared/rv/index.ts'
 import { rvDataOf } from './thread.ts'
 import { notify } from './runner.ts'
+import { cancelEnsembles, composeProgress, ensemblesOf, isParallel, parentOf, workersSeen } from './ensembles.ts'
+import { stepsPerEnsemble } from '../../shared/rv/ensemble-merge.ts'
 import {
   SAMPLING_DEFAULTS, type SamplingRun as SamplingRunJson, type SamplingRunSummary, type SamplingSettings, type StartSamplingRequest,
   type SamplingEvent,
@@ -53,10 +55,13 @@ const LIGHT = { exclude: ['input', 'checkpoint', 'checkpointChain', 'checkpointL
 
 export async function loadRun(s: Services, id: number, withResult = true): Promise<SamplingRun | null> {
   const { SamplingRun } = samplingModels(s.sequelize, s.models)
-  return SamplingRun.findByPk(id, {
+  const run = await SamplingRun.findByPk(id, {
     attributes: withResult ? LIGHT : { exclude: [...LIGHT.exclude, 'result'] },
     include: [{ model: s.models.User, as: 'requester', attributes: ['id', 'name'] }],
   })
+  // a parallel run shows each ensemble's live progress (not stored: read with the run)
+  if (run && isParallel(run.settings)) run.progress = composeProgress(run, await ensemblesOf(s, run))
+  return run
 }
 
 /** A run with its frozen input (for the chain download). */
@@ -68,7 +73,8 @@ export async function loadRunWithInput(s: Services, id: number): Promise<Samplin
 export async function listRuns(s: Services, star: Star): Promise<SamplingRunSummary[]> {
   const { SamplingRun } = samplingModels(s.sequelize, s.models)
   const rows = await SamplingRun.findAll({
-    where: { starId: star.id }, attributes: LIGHT, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: 200,
+    // the ensembles of a parallel run are listed through it, not on their own
+    where: s.sequelize.and({ starId: star.id }, s.sequelize.literal(`settings->'ensemble' IS NULL`)), attributes: LIGHT, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: 200,
     include: [{ model: s.models.User, as: 'requester', attributes: ['id', 'name'] }],
   })
   return rows.map(runSummaryJson)
@@ -130,6 +136,9 @@ export interface RunEstimate {
   /** Wall-clock seconds for the expected steps and for the whole budget, from a timing of the log-posterior. */
   seconds: number
   maxSeconds: number
+  /** Ensembles run side by side (steps and seconds are those of each), and the job workers connected now. */
+  ensembles?: number
+  workers?: number
 }
 
 /** The posterior a run of this input samples (its free parameters: the model's fixed ones left out). */
@@ -154,7 +163,7 @@ export function posteriorOf(input: SamplingInput, fitVersion: FitModelVersion['r
  * parameters and the expected wall-clock seconds (plus a fixed allowance for the start-up fit and
  * the summaries): for the steps a run until convergence is expected to need, and for the budget.
  */
-export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['result'], walkers: number | null, steps: number, untilConverged = true): RunEstimate {
+export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['result'], walkers: number | null, steps: number, untilConverged = true, ensembles = 1): RunEstimate {
   const post = posteriorOf(input, fitVersion)
   const x = Float64Array.from(post.centre)
   // warm up first (the optimising compiler), then time short batches
@@ -173,9 +182,11 @@ export function estimateRun(input: SamplingInput, fitVersion: FitModelVersion['r
   let perEval = Infinity
   for (let b = 0; b < 5; b++) { const { n, elapsed } = time(6, 10); perEval = Math.min(perEval, elapsed / 1000 / n) }
   const w = walkers ?? defaultWalkersFor(post.nDim)
-  const expectedSteps = untilConverged ? Math.min(steps, Math.ceil((MIN_N_OVER_TAU * TAU_PER_PARAMETER * post.nDim * 4) / 3 / 100) * 100) : steps
+  const single = Math.ceil((MIN_N_OVER_TAU * TAU_PER_PARAMETER * post.nDim * 4) / 3 / 100) * 100
+  // K ensembles side by side: each needs about 1/K of one run's steps (ensemble-merge.ts)
+  const expectedSteps = untilConverged || ensembles > 1 ? Math.min(steps, ensembles > 1 ? stepsPerEnsemble(single, ensembles) : single) : steps
   const secs = (n: number) => Math.round((1.5 + 1.15 * w * n * perEval) * 10) / 10
-  return { nDim: post.nDim, names: post.names, walkers: w, steps, expectedSteps, seconds: secs(expectedSteps), maxSeconds: secs(steps) }
+  return { nDim: post.nDim, names: post.names, walkers: w, steps, expectedSteps, seconds: secs(expectedSteps), maxSeconds: secs(steps), ensembles }
 }
 
 /** Default walkers: max(32, 2 × free parameters) (even). */
@@ -188,8 +199,21 @@ export function settingsFor(req: StartSamplingRequest, nDim: number): SamplingSe
   const steps = req.steps ?? (untilConverged ? SAMPLING_DEFAULTS.steps : SAMPLING_DEFAULTS.fixedSteps)
   const walkers = req.walkers ?? defaultWalkersFor(nDim)
   if (walkers < 2 * nDim) throw new ValidationError(`walkers: at least ${2 * nDim} are needed for the ${nDim} free parameters of this model (twice their number).`, 'walkers')
-  return { walkers, steps, burn: req.burn ?? null, thin: req.thin ?? SAMPLING_DEFAULTS.thin, seed: req.seed ?? randomInt(1, 2 ** 31), untilConverged }
+  const ensembles = req.ensembles ?? 1
+  return { walkers, steps, burn: req.burn ?? null, thin: req.thin ?? SAMPLING_DEFAULTS.thin, seed: req.seed ?? randomInt(1, 2 ** 31), untilConverged, ...(ensembles > 1 ? { ensembles } : {}) }
 }
+
+/** Refuses more ensembles than job workers are connected now (each ensemble takes one). */
+export async function checkEnsembles(s: Services, ensembles: number): Promise<void> {
+  if (ensembles <= 1) return
+  const seen = await workersSeen(s)
+  if (ensembles > seen) {
+    throw new ValidationError(`ensembles: ${seen} job worker${seen === 1 ? ' is' : 's are'} connected now, so at most ${Math.max(seen, 1)} ensemble${seen > 1 ? 's' : ''} can run side by side; ask for fewer or start more workers (scripts/worker.ts).`, 'ensembles')
+  }
+}
+
+/** Seed of ensemble i of a parallel run: its own stream, fixed by the run's seed. */
+export const ensembleSeed = (seed: number, i: number): number => (seed + 7919 * (i + 1)) % 2 ** 31
 
 /** GET /api/models/:modelId/sampling/estimate: what a run with these settings would sample and how long it would take. */
 export async function estimateForModel(s: Services, star: Star, model: FitModel, req: StartSamplingRequest): Promise<RunEstimate> {
@@ -199,7 +223,8 @@ export async function estimateForModel(s: Services, star: Star, model: FitModel,
   const input = await inputFromVersion(s, star, version)
   const untilConverged = req.untilConverged ?? SAMPLING_DEFAULTS.untilConverged
   const steps = req.steps ?? (untilConverged ? SAMPLING_DEFAULTS.steps : SAMPLING_DEFAULTS.fixedSteps)
-  return estimateRun(input, version.result, req.walkers ?? null, steps, untilConverged)
+  const est = estimateRun(input, version.result, req.walkers ?? null, steps, untilConverged, req.ensembles ?? 1)
+  return { ...est, workers: await workersSeen(s) }
 }
 
 /** Inserts a run and queues its job. */
@@ -216,6 +241,22 @@ export async function enqueueRun(s: Services, fields: {
   return run
 }
 
+/**
+ * A parallel run: its own row (no job: its ensembles' workers merge into it) and K ensembles, each
+ * a run on the queue with its own seed that runs to the budget (the merge decides when to stop).
+ */
+export async function enqueueParallel(s: Services, fields: Parameters<typeof enqueueRun>[1], K: number): Promise<SamplingRun> {
+  const { SamplingRun } = samplingModels(s.sequelize, s.models)
+  const parent = await SamplingRun.create({
+    ...fields, progress: { stepsDone: 0, stepsTotal: fields.settings.steps, tau: null, etaSeconds: fields.estimateSeconds, acceptance: null, updatedAt: new Date().toISOString() },
+  })
+  for (let i = 0; i < K; i++) {
+    const { ensembles: _k, ...base } = fields.settings
+    await enqueueRun(s, { ...fields, settings: { ...base, seed: ensembleSeed(fields.settings.seed, i), untilConverged: false, ensemble: { of: parent.id, index: i, count: K } } })
+  }
+  return parent
+}
+
 /** POST /api/models/:modelId/sampling: a run of the model's current version. */
 export async function startRun(s: Services, actor: User, star: Star, model: FitModel, req: StartSamplingRequest): Promise<SamplingRunJson> {
   const { FitModelVersion } = analysisModels(s.sequelize, s.models)
@@ -224,11 +265,14 @@ export async function startRun(s: Services, actor: User, star: Star, model: FitM
   const input = await inputFromVersion(s, star, version)
   const nDim = posteriorOf(input, version.result).nDim
   const settings = settingsFor(req, nDim)
-  const estimate = estimateRun(input, version.result, settings.walkers, settings.steps, settings.untilConverged)
-  const run = await enqueueRun(s, {
+  const K = settings.ensembles ?? 1
+  await checkEnsembles(s, K)
+  const estimate = estimateRun(input, version.result, settings.walkers, settings.steps, settings.untilConverged, K)
+  const fields = {
     starId: star.id, modelId: model.id, modelVersionId: version.id, modelVersion: version.version,
     settings, input, estimateSeconds: estimate.seconds, requestedBy: actor.id,
-  })
+  }
+  const run = K > 1 ? await enqueueParallel(s, fields, K) : await enqueueRun(s, fields)
   await record(s, {
     teamId: star.teamId, userId: actor.id, action: 'sampling.start', entity: 'sampling', entityId: run.id,
     detail: { starId: star.id, modelId: model.id, version: version.version, settings, estimateSeconds: run.estimateSeconds },
@@ -240,6 +284,8 @@ export async function startRun(s: Services, actor: User, star: Star, model: FitM
 export async function cancelRun(s: Services, actor: User, star: Star, run: SamplingRun): Promise<SamplingRunJson> {
   const { SamplingRun } = samplingModels(s.sequelize, s.models)
   if (['succeeded', 'failed', 'cancelled'].includes(run.state)) throw new ConflictError(`The run has already ${run.state === 'cancelled' ? 'been cancelled' : run.state}.`)
+  const of = parentOf(run.settings)
+  if (of !== null) throw new ConflictError(`This run is ensemble ${run.settings.ensemble!.index + 1} of parallel run ${of}: cancel run ${of} (it stops every ensemble).`)
   const [n] = await SamplingRun.update(
     { state: 'cancelled', finishedAt: new Date(), error: `Cancelled by ${actor.name}.` },
     { where: { id: run.id, state: { [Op.in]: ['queued', 'running'] } } },
@@ -247,6 +293,11 @@ export async function cancelRun(s: Services, actor: User, star: Star, run: Sampl
   if (n === 0) throw new ConflictError('The run finished in the meantime.')
   if (run.state === 'queued' && run.jobId) {
     await jobSender(s).cancel(SAMPLING_QUEUE, run.jobId).catch(() => undefined)
+  }
+  if (isParallel(run.settings)) {
+    for (const k of await cancelEnsembles(s, run, actor.name)) {
+      if (k.was === 'queued' && k.jobId) await jobSender(s).cancel(SAMPLING_QUEUE, k.jobId).catch(() => undefined)
+    }
   }
   await record(s, { teamId: star.teamId, userId: actor.id, action: 'sampling.cancel', entity: 'sampling', entityId: run.id, detail: { starId: star.id, was: run.state } })
   return runJson((await loadRun(s, run.id))!)

@@ -5,12 +5,13 @@
 // rows. The handler stops it through a shared flag, read every 10 steps (the sampler's loop never
 // yields to messages).
 import { parentPort, workerData } from 'node:worker_threads'
-import { fitKeplerians, type PlanetParam, type PlanetStart, type Prior, type RvData } from '../../shared/rv/index.ts'
+import { fitKeplerians, type PlanetParam, type PlanetStart, type Prior } from '../../shared/rv/index.ts'
 import { samplePosterior, MIN_N_OVER_TAU, type SampleOptions, type SampleResult } from '../../shared/rv/mcmc.ts'
 import { stateFromJson, stateToJson } from '../../shared/rv/sampler.ts'
 import type { ChainRows } from '../../shared/rv/chain-store.ts'
 import type { SamplingInput } from '../db/models-sampling.ts'
 import type { SamplingSettings } from '../../shared/api/sampling.ts'
+import { rvDataOf } from './input.ts'
 
 export interface ThreadData {
   input: SamplingInput
@@ -41,13 +42,7 @@ export type ThreadMessage =
 export const STOP_CANCEL = 1
 export const STOP_SHUTDOWN = 2
 
-export function rvDataOf(input: SamplingInput): RvData {
-  const d = input.data
-  return {
-    t: Float64Array.from(d.t), y: Float64Array.from(d.y), dy: Float64Array.from(d.dy),
-    instrument: Int32Array.from(d.instrument), instrumentNames: d.instrumentNames,
-  }
-}
+export { rvDataOf }
 
 /**
  * One sampling run of a frozen input: the maximum-likelihood fit from the stored fitted values

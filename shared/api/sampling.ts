@@ -16,7 +16,7 @@ export const SAMPLING_DONE_STATES: readonly SamplingState[] = ['succeeded', 'fai
  */
 export const SAMPLING_DEFAULTS = { walkers: 32, steps: 100_000, fixedSteps: 5000, thin: 1, untilConverged: true } as const
 /** Limits of a request (the launcher's form takes its limits and messages from here). */
-export const SAMPLING_LIMITS = { walkersMin: 4, walkersMax: 512, stepsMin: 20, stepsMax: 200_000, thinMax: 1000, seedMax: 2 ** 32 - 1 } as const
+export const SAMPLING_LIMITS = { walkersMin: 4, walkersMax: 512, stepsMin: 20, stepsMax: 200_000, thinMax: 1000, seedMax: 2 ** 32 - 1, ensemblesMax: 16 } as const
 
 /** Body of POST /api/models/:modelId/sampling; every field optional (see SAMPLING_DEFAULTS). */
 export const startSamplingRequestSchema = z.object({
@@ -27,6 +27,8 @@ export const startSamplingRequestSchema = z.object({
   burn: z.number().int().min(0).optional(),
   thin: z.number().int().min(1).max(SAMPLING_LIMITS.thinMax).optional(),
   seed: z.number().int().min(0).max(SAMPLING_LIMITS.seedMax).optional(),
+  /** Independent ensembles on as many workers (parallel mode, merged when they agree); 1 by default, at most the workers seen. */
+  ensembles: z.number().int().min(1).max(SAMPLING_LIMITS.ensemblesMax).optional(),
 }).superRefine((v, ctx) => {
   const steps = v.steps ?? (v.untilConverged === false ? SAMPLING_DEFAULTS.fixedSteps : SAMPLING_DEFAULTS.steps)
   const thin = v.thin ?? SAMPLING_DEFAULTS.thin
@@ -40,6 +42,7 @@ export const samplingEstimateQuerySchema = z.object({
   walkers: z.coerce.number().int().min(SAMPLING_LIMITS.walkersMin).max(SAMPLING_LIMITS.walkersMax).optional(),
   steps: z.coerce.number().int().min(SAMPLING_LIMITS.stepsMin).max(SAMPLING_LIMITS.stepsMax).optional(),
   untilConverged: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  ensembles: z.coerce.number().int().min(1).max(SAMPLING_LIMITS.ensemblesMax).optional(),
 })
 
 /** GET /api/models/:modelId/sampling/estimate → what a run would sample and how long it would take. */
@@ -51,6 +54,10 @@ export const samplingEstimateSchema = z.object({
   expectedSteps: z.number().int(),
   /** Seconds for the expected steps and for the whole budget. */
   seconds: z.number(), maxSeconds: z.number(),
+  /** Job workers connected now (slots: runs they take at once): the most ensembles a parallel run can use. */
+  workers: z.number().int().optional(),
+  /** Ensembles the estimate is for (steps and seconds are per ensemble, run side by side). */
+  ensembles: z.number().int().optional(),
 })
 export type SamplingEstimate = z.infer<typeof samplingEstimateSchema>
 
@@ -58,6 +65,10 @@ export const samplingSettingsSchema = z.object({
   /** `burn` null: a quarter of the steps done. `untilConverged` absent on runs made before it existed (fixed length). */
   walkers: z.number().int(), steps: z.number().int(), burn: z.number().int().nullable(), thin: z.number().int(), seed: z.number().int(),
   untilConverged: z.boolean().optional(),
+  /** Parallel mode: the run is K ensembles (K > 1), each its own run on the queue, merged by this one. */
+  ensembles: z.number().int().optional(),
+  /** Set on each ensemble of a parallel run: the run it belongs to, its place (0-based) and K. */
+  ensemble: z.object({ of: z.number().int(), index: z.number().int(), count: z.number().int() }).optional(),
 })
 export type SamplingSettings = z.infer<typeof samplingSettingsSchema>
 
@@ -77,6 +88,11 @@ export const samplingProgressSchema = z.object({
   /** Mean acceptance fraction so far. */
   acceptance: z.number().nullable(),
   updatedAt: z.string(),
+  /** Parallel mode: each ensemble's own progress (run id, state, steps done, acceptance). */
+  ensembles: z.array(z.object({
+    index: z.number().int(), runId: z.number().int(), state: samplingStateSchema, stepsDone: z.number().int(),
+    acceptance: z.number().nullable(), attempts: z.number().int(),
+  })).optional(),
 })
 export type SamplingProgress = z.infer<typeof samplingProgressSchema>
 

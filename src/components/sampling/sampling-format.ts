@@ -30,8 +30,9 @@ export function defaultWalkers(nDim: number): number {
   return Math.max(SAMPLING_DEFAULTS.walkers, 2 * nDim)
 }
 
-export interface LauncherInput { walkers: string; steps: string; seed: string; untilConverged: boolean }
-export type LauncherErrors = Partial<Record<'walkers' | 'steps' | 'seed', string>>
+/** `ensembles` (parallel mode) is optional: blank or absent means one. */
+export interface LauncherInput { walkers: string; steps: string; seed: string; untilConverged: boolean; ensembles?: string }
+export type LauncherErrors = Partial<Record<'walkers' | 'steps' | 'seed' | 'ensembles', string>>
 
 const whole = (text: string): number | null => {
   const t = text.trim()
@@ -40,7 +41,7 @@ const whole = (text: string): number | null => {
 }
 
 /** Checks the launcher's fields as the server will (limits from the shared schema); a blank seed means "let the server choose". */
-export function validateLauncher(input: LauncherInput, nDim: number): LauncherErrors {
+export function validateLauncher(input: LauncherInput, nDim: number, workers: number | null = null): LauncherErrors {
   const errors: LauncherErrors = {}
   const walkers = whole(input.walkers)
   const need = Math.max(LIMITS.walkersMin, 2 * nDim)
@@ -55,6 +56,12 @@ export function validateLauncher(input: LauncherInput, nDim: number): LauncherEr
   if (input.seed.trim() !== '') {
     const seed = whole(input.seed)
     if (seed === null || seed > LIMITS.seedMax) errors.seed = `Seed must be a whole number from 0 to ${LIMITS.seedMax}`
+  }
+  if (input.ensembles !== undefined && input.ensembles.trim() !== '') {
+    const k = whole(input.ensembles)
+    const most = Math.min(LIMITS.ensemblesMax, Math.max(1, workers ?? LIMITS.ensemblesMax))
+    if (k === null || k < 1) errors.ensembles = 'Ensembles must be a whole number, 1 or more'
+    else if (k > most) errors.ensembles = workers !== null && workers < LIMITS.ensemblesMax ? `At most ${most}: ${workers} job worker${workers === 1 ? ' is' : 's are'} connected now` : `At most ${most} ensembles`
   }
   return errors
 }
