@@ -44,13 +44,17 @@ function bestMs(fn: () => void, repeats: number): number {
   return best
 }
 
-interface Reference { cython_1000: number; fast_1000: number; fast_10000: number; fast_100000: number; versions: Record<string, string> }
+interface Reference {
+  cython_1000: number; fast_1000: number; fast_10000: number; fast_100000: number
+  auto_1000?: number; auto_1000_err?: number; auto_1000_m?: number; versions: Record<string, string>
+}
 
-function runReference(): { ref: Reference | null; note: string } {
+function runReference(autoGrid?: { f0: number; df: number; count: number }): { ref: Reference | null; note: string } {
   const probe = spawnSync(PY, ['-c', 'import astropy'], { encoding: 'utf8' })
   if (probe.status !== 0) return { ref: null, note: `${PY} has no astropy: reference not timed` }
   const script = join(here, 'reference', 'periodogram_timing.py')
-  const res = spawnSync(PY, [script], {
+  const extra = autoGrid ? ['--auto-grid', String(autoGrid.f0), String(autoGrid.df), String(autoGrid.count)] : []
+  const res = spawnSync(PY, [script, ...extra], {
     encoding: 'utf8',
     env: { ...process.env, MALLOC_MMAP_THRESHOLD_: '4294967296', MALLOC_TRIM_THRESHOLD_: '4294967296', MALLOC_TOP_PAD_: '268435456' },
     maxBuffer: 1 << 20,
@@ -86,7 +90,15 @@ export async function benchPeriodogram(): Promise<BenchRow[]> {
   const small = dataset(200, 4)
   const peaksMs = bestMs(() => { const r = periodogram(small.t, small.y, small.dy); findPeaks(small.t, small.y, small.dy, r) }, 10)
 
-  const { ref, note } = runReference()
+  // the default call: periodogram() with its default grid (GRID_DEFAULTS) and method 'auto', N = 1000,
+  // against astropy's default LombScargle(...).power(f) (method 'auto') on the same grid
+  let autoRes = periodogram(d1.t, d1.y, d1.dy)
+  const autoMs = bestMs(() => { autoRes = periodogram(d1.t, d1.y, d1.dy) }, 7)
+  const autoGrid = autoRes.grid
+  const exact = periodogramDirect(d1.t, d1.y, d1.dy) // the same default grid, exact sums
+  let autoPeak = 0, autoErr = 0
+  for (let k = 0; k < exact.power.length; k++) { autoPeak = Math.max(autoPeak, exact.power[k]); autoErr = Math.max(autoErr, Math.abs(autoRes.power[k] - exact.power[k])) }
+  const { ref, note } = runReference({ f0: autoGrid.f0, df: autoGrid.df, count: autoGrid.count })
   const row = (name: string, oursMs: number, refMs: number | null, target: string, extra: Partial<BenchRow> = {}): BenchRow =>
     ({ name, oursMs, referenceMs: refMs, ratio: refMs === null ? null : oursMs / refMs, target, note, ...extra })
   rows.push(row('periodogram direct N=1000 M=100000 vs astropy cython / 10', directMs, ref ? ref.cython_1000 / 10 : null,
@@ -96,6 +108,9 @@ export async function benchPeriodogram(): Promise<BenchRow[]> {
     { maxRelError: rel, note: `${note}; max |fast − direct| / peak = ${rel.toExponential(2)}` }))
   rows.push(row('periodogram fast N=10000 M=100000 vs astropy fast', fast2Ms, ref?.fast_10000 ?? null, 'ratio ≤ 1'))
   rows.push(row('periodogram fast N=100000 M=1000000 vs astropy fast', fast3Ms, ref?.fast_100000 ?? null, 'ratio ≤ 1'))
+  rows.push(row(`periodogram default call (method auto → ${autoRes.method}, default grid M = ${autoGrid.count}) N=1000 vs astropy default power()`, autoMs, ref?.auto_1000 ?? null,
+    'ratio ≤ 1 and max |ours − exact| ≤ 1e-4 of the peak',
+    { maxRelError: autoErr / autoPeak, note: `${note}; ours max |auto − direct| / peak = ${(autoErr / autoPeak).toExponential(2)}${ref?.auto_1000_err !== undefined ? `; astropy default vs its exact (cython) ${ref.auto_1000_err.toExponential(2)}` : ''}` }))
   rows.push(row('periodogram + findPeaks N=200, default grid (M ≈ 9000)', peaksMs, null, 'information only (the fit search calls both)'))
   return rows
 }

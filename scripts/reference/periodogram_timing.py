@@ -2,6 +2,8 @@
 
 Run:  MALLOC_MMAP_THRESHOLD_=4294967296 MALLOC_TRIM_THRESHOLD_=4294967296 \
       MALLOC_TOP_PAD_=268435456 /usr/bin/python3 scripts/reference/periodogram_timing.py [--quick]
+With --auto-grid F0 DF M also times astropy's default call ls.power(f) (method 'auto') on that grid
+for N = 1000 ("auto_1000", ms) and its max error against the exact sums ("auto_1000_err", of the peak).
 Prints one JSON object: {"cython_1000", "fast_1000", "fast_10000", "fast_100000"} in ms
 (best of a few repeats) plus "versions". The data and grid match scripts/bench-periodogram.ts:
 t uniform on [0, 1000) d (sorted), sinusoid P = 7.3 d, K = 10 m/s plus N(0, 1..3) noise,
@@ -55,6 +57,19 @@ def main():
     f = grid(1_000_000)
     ls = LombScargle(t, y, dy, fit_mean=True, center_data=True, normalization='standard')
     out['fast_100000'] = best_ms(lambda: ls.power(f, method='fast', assume_regular_frequency=True), 2 if quick else 4)
+    # astropy's default call (method='auto') on the grid our periodogram() uses by default for the
+    # N = 1000 data set (f0, df, M given by scripts/bench-periodogram.ts: --auto-grid F0 DF M), and
+    # its max error against the exact sums (method='cython') as a fraction of the peak
+    if '--auto-grid' in sys.argv:
+        k = sys.argv.index('--auto-grid')
+        f0, df, m = float(sys.argv[k + 1]), float(sys.argv[k + 2]), int(sys.argv[k + 3])
+        t, y, dy = dataset(1000, 1)
+        fa = f0 + df * np.arange(m)
+        ls = LombScargle(t, y, dy, fit_mean=True, center_data=True, normalization='standard')
+        out['auto_1000'] = best_ms(lambda: ls.power(fa), 3 if quick else 7)
+        exact = ls.power(fa, method='cython')
+        out['auto_1000_err'] = float(np.max(np.abs(ls.power(fa) - exact)) / np.max(exact))
+        out['auto_1000_m'] = m
     out['versions'] = {'astropy': astropy.__version__, 'numpy': np.__version__, 'python': sys.version.split()[0]}
     print(json.dumps(out))
 
