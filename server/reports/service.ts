@@ -138,6 +138,8 @@ export async function loadVersion(s: Services, report: Report, version: number):
 export async function share(s: Services, actor: User, team: Team, report: Report, req: ShareRequest): Promise<Share> {
   let user: User | null = null
   let invitationId: number | null = null
+  /** The invitation waits for an owner's approval (an analyst shared): no invitation e-mail yet. */
+  let awaitingOwner = false
   if (req.userId !== undefined) {
     user = await s.models.User.findByPk(req.userId)
     const m = user ? await s.models.Membership.findOne({ where: { userId: user.id, teamId: team.id } }) : null
@@ -149,7 +151,9 @@ export async function share(s: Services, actor: User, team: Team, report: Report
     if (!m) {
       user = null
       const open = await s.models.Invitation.findOne({ where: { teamId: team.id, email, acceptedAt: null } })
-      invitationId = open && open.expiresAt > new Date() ? open.id : (await inviteOrRequest(s, actor, team, email, 'reviewer')).id
+      const inv = open && open.expiresAt > new Date() ? { id: open.id, pendingApproval: !!open.pendingApproval } : await inviteOrRequest(s, actor, team, email, 'reviewer')
+      invitationId = inv.id
+      awaitingOwner = inv.pendingApproval
     }
   }
   if (user && user.id === actor.id) throw new ValidationError('userId: you cannot share a report with yourself.', 'userId')
@@ -168,7 +172,10 @@ export async function share(s: Services, actor: User, team: Team, report: Report
     subject: `${actor.name} shares the report "${report.title}" (version ${report.currentVersion}) with you`,
     text: `Hello${user ? ` ${user.name}` : ''},\n\n${actor.name} asks you to review the report "${report.title}", version ${report.currentVersion}, on Starsway.\n` +
       (req.message ? `\n${req.message}\n` : '') +
-      (invitationId !== null ? `\nYou are invited to the team "${team.name}" as a reviewer in a separate e-mail: accept that invitation first, then open the report.\n` : '') +
+      (invitationId === null ? ''
+        : awaitingOwner
+          ? `\nTo open it you need to join the team "${team.name}" as a reviewer. An owner of the team has been asked to approve that; when they do, you will get an invitation in a separate e-mail: accept it, then open the report.\n`
+          : `\nYou are invited to the team "${team.name}" as a reviewer in a separate e-mail: accept that invitation first, then open the report.\n`) +
       `\nOpen the report to read it, download the PDF, comment and approve or request changes:\n\n${link}\n`,
   })
   return { id: created.id, user: ref(user), email, invited: invitationId !== null, sharedBy: ref(actor), version: created.version, createdAt: iso(created.createdAt) }

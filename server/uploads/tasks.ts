@@ -7,6 +7,7 @@ import {
   type DetectHints, type Detection, type ParsedRow, type RowProblem, type TableMapping,
 } from '../../shared/ingest/index.ts'
 import { ttToTdb, toBjdTdb, utcToTt, type Site, type Target } from '../../shared/time/index.ts'
+import type { FilePreview } from '../../shared/api/uploads.ts'
 
 export type TaskError = { code: string; message: string; field?: string }
 type Failed = { ok: false; error: TaskError }
@@ -40,19 +41,10 @@ export interface PreviewInput {
   descriptions: Uint8Array[]
 }
 
-export interface PreviewOutput {
+/** The preview fields the wizard shows (`FilePreview` of shared/api/uploads.ts), plus columns for the server's checks. */
+export interface PreviewOutput extends Pick<FilePreview,
+  'detection' | 'mapping' | 'rows' | 'problems' | 'problemCount' | 'warnings' | 'warningCount' | 'flaggedCount' | 'instruments' | 'rowCount' | 'mappingError'> {
   ok: true
-  detection: Detection
-  mapping: TableMapping
-  rows: ParsedRow[]
-  problems: RowProblem[]
-  problemCount: number
-  warnings: RowProblem[]
-  warningCount: number
-  flaggedCount: number
-  instruments: Array<{ name: string; count: number }>
-  rowCount: number
-  mappingError: TaskError | null
   /** Every good row's line, full time and instrument, for the overlap check against stored data. */
   lines: Int32Array
   times: Float64Array
