@@ -15,7 +15,7 @@ import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { createRandom } from '../shared/math/random.ts'
 import { benchPeriodogram, type BenchRow } from './bench-periodogram.ts'
-import { benchSampler, benchConverged } from './bench-sampler.ts'
+import { benchSampler, benchConverged, benchEnsembles } from './bench-sampler.ts'
 import { benchGp } from './bench-gp.ts'
 import { benchLimits } from './bench-limits.ts'
 import { benchUpload } from './bench-upload.ts'
@@ -149,7 +149,7 @@ async function main(): Promise<void> {
   if (!process.argv.includes('--skip-periodogram')) rows.push(...(await benchPeriodogram()))
   rows.push(benchKepler(), benchFitNearOptimum(), benchFitFromData(), benchThreePlanets())
   if (!process.argv.includes('--skip-search')) rows.push(...benchSearch()) // planet search at 200 and 2000 points, Keplerian periodogram vs numpy (scripts/bench-search.ts)
-  if (!process.argv.includes('--skip-sampler')) rows.push(...(await benchConverged()), ...(await benchSampler())) // sampler vs emcee, converged posterior, steps/s as the chain grows (scripts/bench-sampler.ts)
+  if (!process.argv.includes('--skip-sampler')) rows.push(...(await benchConverged()), ...(await benchEnsembles()), ...(await benchSampler())) // sampler vs emcee, converged posterior, steps/s as the chain grows (scripts/bench-sampler.ts)
   if (!process.argv.includes('--skip-gp')) rows.push(...benchGp()) // GP noise models: O(N) scaling, dense vs scipy cho_factor (scripts/bench-gp.ts)
   if (!process.argv.includes('--skip-limits')) rows.push(...(await benchLimits())) // injection–recovery grid, 1 and 2 workers (scripts/bench-limits.ts)
   if (!process.argv.includes('--skip-upload')) rows.push(...(await benchUpload())) // 100 000-row upload commit on a throwaway database (scripts/bench-upload.ts)
