@@ -21,6 +21,7 @@ import { benchLimits } from './bench-limits.ts'
 import { benchUpload } from './bench-upload.ts'
 import { benchTime } from './bench-time.ts'
 import { benchSearch } from './bench-search.ts'
+import { benchTriage } from './bench-triage.ts'
 import { solveKeplerArray, radialVelocity, fitKeplerians, searchPlanets, tpToTc, type RvData, type Keplerian } from '../shared/rv/index.ts'
 
 const here = dirname(fileURLToPath(import.meta.url))
@@ -153,6 +154,7 @@ async function main(): Promise<void> {
   if (!process.argv.includes('--skip-gp')) rows.push(...benchGp()) // GP noise models: O(N) scaling, dense vs scipy cho_factor (scripts/bench-gp.ts)
   if (!process.argv.includes('--skip-limits')) rows.push(...(await benchLimits())) // injection–recovery grid, 1 and 2 workers (scripts/bench-limits.ts)
   if (!process.argv.includes('--skip-upload')) rows.push(...(await benchUpload())) // 100 000-row upload commit on a throwaway database (scripts/bench-upload.ts)
+  if (!process.argv.includes('--skip-triage')) rows.push(...(await benchTriage())) // 100 stars × 200 points searched off the triage queue (scripts/bench-triage.ts)
   if (!process.argv.includes('--skip-time')) rows.push(...benchTime()) // UTC → BJD_TDB of 100 000 times vs astropy (scripts/bench-time.ts)
   if (json) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
   const f = (v: number | null | undefined): string => (v === null || v === undefined ? '—' : v >= 100 ? v.toFixed(0) : v.toPrecision(3))
