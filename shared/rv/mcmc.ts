@@ -14,6 +14,11 @@
  *
  * Then summaries (median, 16th and 84th percentiles, mean, sd) of every fitted and derived
  * quantity: M sin i and a with the stellar mass drawn from its error for every draw.
+ *
+ * With a GP noise model (`options.noise`, the model spec's `noise`), the walkers start around the MAP
+ * of "planets + GP" (`fitWithGp`, started from the white-noise fit) and the GP hyperparameters are
+ * sampled too (posterior-gp.ts); their summaries carry units (GP amplitude m/s, decay time and
+ * rotation period d, shape dimensionless).
  */
 import { fitKeplerians, type FitOptions, type FitResult, type PlanetParam } from './orbit-fit.ts'
 import type { RvData } from './orbit-data.ts'
@@ -21,6 +26,7 @@ import { nearestEpoch, tcToTp, tpToTc } from './model.ts'
 import { minimumMass, semiMajorAxis } from './derived.ts'
 import { createLogPosterior, specFromFit, samplingScales, planetLabel, fixedInFit, type SamplingPrior, type LogPosterior } from './posterior.ts'
 import { createRandom } from '../math/random.ts'
+import { fitWithGp, type GpFitResult, type GpHyperSpec } from './gp-fit.ts'
 import { runEnsemble, type SamplerState } from './sampler.ts'
 import { integratedTime, splitRhat, acceptanceFraction } from './diagnostics.ts'
 import { ChainStore, type ChainRows } from './chain-store.ts'
@@ -88,6 +94,8 @@ export interface SampleOptions {
   fix?: ReadonlyArray<readonly PlanetParam[] | undefined>
   /** Hard upper bound on e (default 0.99). */
   eMax?: number
+  /** GP noise model (the model spec's `noise` of kind 'gp'); absent or null: white noise. */
+  noise?: GpHyperSpec | null
   /** Called every `progressEvery` steps; return 'stop' to end the run early (the result says so). */
   onProgress?: (p: SampleProgress) => void | 'stop'
   progressEvery?: number
@@ -150,8 +158,10 @@ export interface SampleResult {
     /** Parameters held fixed, per planet. */
     fixed: PlanetParam[][]
   }
-  /** The maximum-likelihood fit the walkers started from. */
+  /** The maximum-likelihood fit the walkers started from (with a GP: the planets + GP MAP). */
   start: { lnPosterior: number; fitStatus: FitResult['status'] }
+  /** The GP hyperparameters' priors in words (empty for white noise). */
+  noisePriors: string[]
 }
 
 /**
@@ -266,6 +276,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   for (let i = 0; i < data.dy.length; i++) meanErr += data.dy[i]
   meanErr /= Math.max(data.dy.length, 1)
   spec.jitters = spec.jitters?.map((s) => Math.max(s, 0.1 * meanErr))
+  const gpFit = options.noise ? gpCentre(data, fit, spec, options.noise, fixed) : null
   const post = createLogPosterior(data, spec)
   const nDim = post.nDim
   const walkers = intOpt('walkers', options.walkers, Math.max(32, 2 * nDim), 2)
@@ -276,6 +287,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   // ---- starting ball
   const rng = createRandom(seed)
   const scales = samplingScales(fit, post)
+  if (gpFit) gpScales(gpFit, post, scales)
   const start = new Float64Array(walkers * nDim)
   const x = new Float64Array(nDim)
   if (!Number.isFinite(post.logProb(post.centre))) throw new RangeError('model: the fitted point lies outside the support of the posterior (check priors and eMax)')
@@ -372,6 +384,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
     warnings.push(`Some walkers barely moved (${stuck} of ${walkers} accepted under 5 % of their moves); they may be stuck in a region of low probability.`)
   }
   if (!fit.success) warnings.push(`The starting fit did not converge (${fit.message}); the walkers started from its last point.`)
+  if (gpFit && !gpFit.success) warnings.push(`The planets + GP fit the walkers started from did not converge (${gpFit.message}).`)
   const converged = !userStopped && shortOnes.length === 0 && badRhat.length === 0 && acc >= 0.15 && !(acc > 0.2 && accMin < 0.05)
 
   const { cols, fixedCols } = physicalColumns(data, fit, post, chain, nPost * walkers, options.starMass, seed)
@@ -410,7 +423,10 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
       seed, walkers, steps, burn, thin, stepsDone, stopped: userStopped, untilConverged,
       keptThin: store.thin, keptRows: store.rows, rhatGroups: groups, fixed,
     },
-    start: { lnPosterior: fit.stats.lnPosterior, fitStatus: fit.status },
+    start: gpFit
+      ? { lnPosterior: gpFit.stats.lnPosterior, fitStatus: gpFit.status === 'failed' ? 'failed' : gpFit.success ? 'converged' : 'max-iterations' }
+      : { lnPosterior: fit.stats.lnPosterior, fitStatus: fit.status },
+    noisePriors: post.noisePriors,
   }
 }
 
@@ -492,5 +508,64 @@ export function physicalColumns(
   }
   if (L.iSlope >= 0) { const c = col('slope', 'm/s/d'); for (let i = 0; i < nDraw; i++) c[i] = chain[i * nDim + L.iSlope] }
   if (L.iCurvature >= 0) { const c = col('curvature', 'm/s/d²'); for (let i = 0; i < nDraw; i++) c[i] = chain[i * nDim + L.iCurvature] }
+  const g = L.gp
+  if (g) {
+    const put = (name: string, unit: string, idx: number, held: number, map: (v: number) => number): void => {
+      const c = col(name, unit, idx < 0)
+      for (let i = 0; i < nDraw; i++) c[i] = idx < 0 ? held : map(chain[i * nDim + idx])
+    }
+    for (let k = 0; k < g.nAmp; k++) put(g.nAmp > 1 ? `GP amplitude ${data.instrumentNames[k]}` : 'GP amplitude', 'm/s', g.iAmp < 0 ? -1 : g.iAmp + k, g.fixed.amplitude[k], Math.exp)
+    put('GP decay time', 'd', g.iDecay, g.fixed.decayTime, Math.exp)
+    put('rotation period', 'd', g.iPeriod, g.fixed.period, (v) => v)
+    if (g.kernel === 'rotation') put('GP shape', '', g.iShape, g.fixed.shape, (v) => v)
+    else put('GP Γ', '', g.iShape, g.fixed.shape, Math.exp)
+  }
   return { cols, fixedCols }
+}
+
+/**
+ * The planets + GP MAP from the white-noise fit, written into `spec` as the sampler's centre (free
+ * planet parameters, offsets, jitters, trend, the hyperparameters' values; fixed ones stay).
+ */
+function gpCentre(data: RvData, fit: FitResult, spec: ReturnType<typeof specFromFit>, noise: GpHyperSpec, fixed: PlanetParam[][]): GpFitResult {
+  const jitter = Array.isArray(spec.jitter) ? spec.jitter : 'fit'
+  const g = fitWithGp(data, {
+    planets: fit.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })),
+    gp: noise, trend: spec.trend, epoch: spec.epoch, jitter, ...(jitter === 'fit' ? { jitterStart: spec.jitters } : {}),
+  })
+  if (g.status === 'failed') return g
+  spec.planets = spec.planets.map((p, k) => {
+    const q = g.planets[k], fx = new Set(fixed[k])
+    return {
+      ...p,
+      ...(fx.has('period') ? {} : { period: q.period }), ...(fx.has('K') ? {} : { K: q.K }),
+      ...(fx.has('e') ? {} : { e: q.e }), ...(fx.has('omegaDeg') ? {} : { omegaDeg: q.omegaDeg }),
+      ...(fx.has('tc') || fx.has('tp') ? {} : { tc: q.tc, tp: q.tp }),
+    }
+  })
+  spec.offsets = g.instruments.map((s) => s.offset)
+  if (jitter === 'fit') spec.jitters = g.noise.jitter.map((s, k) => Math.max(s, spec.jitters?.[k] ?? 0.01, 0.01))
+  spec.slope = g.trend.slope
+  spec.curvature = g.trend.curvature
+  const k = g.noise.kernel
+  spec.noise = {
+    ...noise,
+    period: { ...noise.period, ...(noise.period.fixed ? {} : { start: k.period }) },
+    decayTime: { ...noise.decayTime, value: noise.decayTime?.fixed ? noise.decayTime.value : k.decayTime },
+    shape: { ...noise.shape, value: noise.shape?.fixed ? noise.shape.value : k.kind === 'rotation' ? k.shape : k.roughness },
+    amplitude: { ...noise.amplitude, value: noise.amplitude?.fixed ? noise.amplitude.value : g.noise.amplitude },
+  }
+  return g
+}
+
+/** Starting-ball scales of the GP coordinates from the MAP's Laplace errors (fallbacks where NaN). */
+function gpScales(g: GpFitResult, post: LogPosterior, sc: Float64Array): void {
+  const c = post.layout.gp
+  if (!c) return
+  const ok = (v: number, fb: number): number => (Number.isFinite(v) && v > 0 ? v : fb)
+  const u = g.noiseUncertainty, k = g.noise.kernel
+  if (c.iAmp >= 0) for (let j = 0; j < c.nAmp; j++) sc[c.iAmp + j] = ok((u.amplitude[j] ?? NaN) / g.noise.amplitude[j], 0.1)
+  if (c.iDecay >= 0) sc[c.iDecay] = ok(u.decayTime / k.decayTime, 0.2)
+  if (c.iPeriod >= 0) sc[c.iPeriod] = ok(u.period, 0.02 * k.period)
+  if (c.iShape >= 0) sc[c.iShape] = k.kind === 'rotation' ? ok(u.shape, 0.05) : ok(u.shape / k.roughness, 0.2)
 }

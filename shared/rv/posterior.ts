@@ -13,6 +13,8 @@
  *   per instrument  offset
  *   per instrument  ln s (only when jitters are sampled)
  *   trend        slope [, curvature]                  (about `epoch`)
+ *   GP noise     (with `spec.noise`) ln amplitude(s), ln decay time, rotation period, shape — the
+ *                free ones; priors and likelihood in ./posterior-gp.ts
  *
  * Likelihood (Ford 2006): ln L = −½ Σ_i [ r_i² / (σ_i² + s_k²) + ln 2π(σ_i² + s_k²) ], the same
  * as the fitter's; offsets and trend are sampled, not profiled.
@@ -37,6 +39,8 @@
 import { addKeplerian, tcToTp, tpToTc, nearestEpoch, type Keplerian } from './model.ts'
 import { checkRvData, type RvData } from './orbit-data.ts'
 import { E_MAX, type TrendKind, type FitResult, type PlanetParam } from './orbit-fit.ts'
+import type { GpHyperSpec } from './gp-fit.ts'
+import { gpTerm, type GpCoords } from './posterior-gp.ts'
 
 const TWO_PI = 2 * Math.PI
 const DEG = Math.PI / 180
@@ -75,6 +79,11 @@ export interface PosteriorSpec {
   priors?: SamplingPrior[]
   /** Hard upper bound on e (default E_MAX = 0.99 of the fitter). */
   eMax?: number
+  /**
+   * Correlated noise: a GP (the model spec's `noise` of kind 'gp', as `GpHyperSpec`); its values are the
+   * sampler's centre, `fixed` ones are held. Absent: white noise.
+   */
+  noise?: GpHyperSpec | null
 }
 
 /** Where one planet's coordinates sit in the sampling vector (−1: held fixed or not in this mode). */
@@ -103,6 +112,8 @@ export interface PosteriorLayout {
   iJitter: number
   iSlope: number
   iCurvature: number
+  /** The GP hyperparameters' coordinates (null: white noise). */
+  gp: GpCoords | null
 }
 
 export interface LogPosterior {
@@ -121,6 +132,8 @@ export interface LogPosterior {
   logPrior(x: ArrayLike<number>): number
   /** Sampling point of the spec's centre values. */
   centre: Float64Array
+  /** The GP hyperparameters' priors in words (empty for white noise). */
+  noisePriors: string[]
 }
 
 const LETTERS = 'bcdefghijklmnopqrstuvwxyz'
@@ -205,7 +218,9 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
   let iSlope = -1, iCurvature = -1
   if (trend !== 'none') { iSlope = centre.length; names.push('slope'); units.push('m/s/d'); centre.push(spec.slope ?? 0) }
   if (trend === 'quadratic') { iCurvature = centre.length; names.push('curvature'); units.push('m/s/d²'); centre.push(spec.curvature ?? 0) }
+  const gp = spec.noise ? gpTerm(data, spec.noise, (name, unit, v) => { names.push(name); units.push(unit); centre.push(v); return centre.length - 1 }) : null
   const nDim = centre.length
+  const maxPlanetPeriod = gp ? gp.maxPlanetPeriod : Infinity
 
   // ---- priors, checked and compiled
   const priors = (spec.priors ?? []).map((pr, j) => {
@@ -255,6 +270,7 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
         const lnP = x[c.lnP]
         if (!(lnP < 700 && lnP > -700)) return -Infinity
         P = Math.exp(lnP)
+        if (P > maxPlanetPeriod) return -Infinity
         jac += lnP
       }
       if (c.lnK >= 0) {
@@ -292,6 +308,7 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
       }
     }
     for (let d = iOffset; d < nDim; d++) if (!Number.isFinite(x[d])) return -Infinity
+    if (gp) jac += gp.prior(x)
     return jac
   }
 
@@ -335,6 +352,10 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
     const curv = iCurvature >= 0 ? x[iCurvature] : 0
     for (let i = 0; i < n; i++) model[i] = x[iOffset + instrument[i]] + slope * dt[i] + curv * dt2[i]
     for (let k = 0; k < nPl; k++) addKeplerian(t, orbits[k], model)
+    if (gp) {
+      for (let i = 0; i < n; i++) model[i] = y[i] - model[i]
+      return gp.logLikelihood(model, s2)
+    }
     let chi2 = 0, logDet = 0
     if (fixedJitter) {
       for (let i = 0; i < n; i++) { const r = y[i] - model[i]; chi2 += r * r / (dy2[i] + s2[instrument[i]]) }
@@ -387,8 +408,8 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
   }
   return {
     nDim, names, units, epoch, eMax, centre: Float64Array.from(centre),
-    layout: { nPlanets: nPl, planets: coords, nInst, iOffset, iJitter, iSlope, iCurvature },
-    logProb, logLikelihood, logPrior,
+    layout: { nPlanets: nPl, planets: coords, nInst, iOffset, iJitter, iSlope, iCurvature, gp: gp ? gp.coords : null },
+    logProb, logLikelihood, logPrior, noisePriors: gp ? gp.priors : [],
   }
 }
 
