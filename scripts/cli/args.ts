@@ -38,6 +38,7 @@ ${inputHelp()}`,
       'max-planets': { type: 'string' }, 'fap-threshold': { type: 'string' },
       planet: { type: 'string', multiple: true }, prior: { type: 'string', multiple: true }, 'max-iterations': { type: 'string' },
       'star-mass': { type: 'string' }, 'star-mass-err': { type: 'string' },
+      noise: { type: 'string' }, 'rotation-period': { type: 'string' }, 'gp-kernel': { type: 'string' }, 'decay-time': { type: 'string' },
     },
     help: `usage: cli.ts fit FILE|- [options]
 
@@ -60,6 +61,20 @@ model (one --planet per planet, in order b, c, …):
 both:
   --star-mass M        stellar mass, solar masses (M sin i and a are given with it)
   --star-mass-err E    its 1σ error, solar masses
+noise (stellar activity as a Gaussian process):
+  --noise auto|white|gp  auto (default): a search on a table with activity-indicator columns
+                       (bisector, FWHM, S-index …) or with --rotation-period ties a GP to the
+                       rotation period and searches planets on top of it, printing
+                       "N planets + M activity candidates", the GP hyperparameters and the BIC of
+                       planets + white noise and planets + GP; otherwise white noise.
+                       white: the plain search or fit. gp: a GP (needs a rotation period from
+                       --rotation-period, or, in a search, from an indicator's periodogram)
+  --rotation-period D[,SIGMA]  rotation period, days, the centre of its Gaussian prior and its
+                       1σ (default 10 % of D)
+  --gp-kernel K        rotation (default; two damped oscillators at P and P/2, O(N)) or
+                       quasi-periodic (exp-sine-squared × squared exponential, dense Cholesky)
+  --decay-time D       start of the decay time of the active regions, days (> half the period;
+                       default twice the rotation period)
 ${inputHelp()}`,
   },
 }

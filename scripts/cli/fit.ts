@@ -1,5 +1,6 @@
 // `cli.ts fit`: the core's search (no --planet) or the core's fitSpec (one --planet per planet),
-// the same functions and defaults as the server's compute tasks.
+// the same functions and defaults as the server's compute tasks. With activity indicators in the
+// table, a rotation period or --noise gp, the GP paths of ./fit-noise.ts take over.
 import { roundByUncertainty } from '../../shared/report/round.ts'
 import { planetSpecSchema } from '../../shared/api/analyses.ts'
 import {
@@ -9,6 +10,7 @@ import {
 import { UsageError, num, str, list, type Parsed } from './args.ts'
 import { load } from './load.ts'
 import { fmt, table, finiteOrNull, instrumentTable, UNITS, PEAK_CAUTION, type CliIo } from './format.ts'
+import { noiseOptions, noiseRoute, runActivitySearch, runGpModel } from './fit-noise.ts'
 
 const PLANET_KEYS = ['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'] as const
 
@@ -95,8 +97,18 @@ function options(p: Parsed): Options {
 
 export function runFit(p: Parsed, io: CliIo): void {
   const o = options(p)
-  const { data, input } = load(p, io)
+  const noise = noiseOptions(p)
+  const { data, input, indicators } = load(p, io)
   const t0 = performance.now()
+  // a fixed number of planets (--planets N) keeps the plain search unless a GP is asked for
+  const route = noiseRoute(noise, o.spec !== null, indicators.length > 0 && o.planets === 'auto')
+  const common = { data, input, starMass: o.starMass, starMassErr: o.starMassErr, json: !!p.values.json, io, t0 }
+  if (route === 'activity') {
+    if (o.planets !== 'auto') throw new UsageError('the search with activity decides the number of planets itself: drop --planets N with --noise gp or --rotation-period')
+    runActivitySearch(common, indicators, noise, { minPeriod: o.minPeriod, maxPeriod: o.maxPeriod, maxPlanets: o.maxPlanets, trend: o.trend })
+    return
+  }
+  if (route === 'gp-model') { runGpModel(common, o.spec!, o.trend as TrendKind, noise, o.maxIterations); return }
   let fit: FitResult, steps: SearchStep[] = [], report: SearchSummary | null = null
   try {
     if (o.spec) {

@@ -4,7 +4,7 @@ import {
   decodeTableBytes, detectTable, parseTable, formatProblems, IngestError,
   type DetectHints, type TimeFormat, type VelocityUnit,
 } from '../../shared/ingest/index.ts'
-import { toRvData, baseline, type RvData } from '../../shared/rv/index.ts'
+import { toRvData, baseline, type RvData, type IndicatorColumn } from '../../shared/rv/index.ts'
 import { UsageError, str, type Parsed } from './args.ts'
 import type { CliIo } from './format.ts'
 
@@ -12,7 +12,8 @@ const UNITS = ['m/s', 'km/s']
 const TIME_FORMAT = /^(jd|bjd|mjd|days|jd-\d+(\.\d+)?)$/
 
 export interface InputInfo { file: string; rows: number; instruments: string[]; unit: string; timeFormat: string; baselineDays: number }
-export interface Loaded { data: RvData; input: InputInfo }
+/** `indicators`: the table's activity-indicator columns, one value per row of `data` (NaN where empty). */
+export interface Loaded { data: RvData; input: InputInfo; indicators: IndicatorColumn[] }
 
 function columnRef(flag: string, s: string | undefined): string | number | undefined {
   if (s === undefined) return undefined
@@ -74,8 +75,10 @@ export function load(p: Parsed, io: CliIo, readStdin: () => Buffer = () => readF
     const { data } = toRvData({
       time: rows.map((r) => r.time), rv: rows.map((r) => r.rv), error: rows.map((r) => r.error), instrument: rows.map((r) => r.instrument),
     })
+    const keys = [...new Set(rows.flatMap((r) => Object.keys(r.indicators)))]
+    const indicators = keys.map((name) => ({ name, value: Float64Array.from(rows, (r) => r.indicators[name] ?? NaN) }))
     return {
-      data,
+      data, indicators,
       input: {
         file: name, rows: data.t.length, instruments: data.instrumentNames, unit: detection.mapping.unit,
         timeFormat: detection.mapping.timeFormat, baselineDays: baseline(data.t),

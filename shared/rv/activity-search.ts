@@ -182,7 +182,7 @@ export function searchWithActivity(data: RvData, opts: ActivitySearchOptions = {
   } else {
     const best = rotationFromIndicators(white, peakFap)
     if (best) {
-      const P = best.peak.period
+      const P = Number(best.peak.period.toPrecision(4))
       rotation = { period: P, sigma: Math.max(P * P / span, ACTIVITY_SEARCH_DEFAULTS.minSigmaFraction * P), source: `'${best.indicator}' periodogram (FAP ${fmtFap(best.peak.fap)})` }
       rotationColumn = indicators.find((c) => c.name === best.indicator) ?? null
       const words = `'${best.indicator}' has its strongest peak at ${fmtP(P)} d (FAP ${fmtFap(best.peak.fap)}): the star's rotation or activity cycle, modelled by the GP.`
