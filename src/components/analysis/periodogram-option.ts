@@ -90,7 +90,11 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
   const [min, max] = input.range ?? [run.settings.minPeriod, run.settings.maxPeriod]
   const curve = run.result.curve.period.map((p, i) => [p, run.result.curve.power[i]!])
   const window = run.result.window.period.map((p, i) => [p, run.result.window.power[i]!])
-  const top = Math.max(...run.result.curve.power, ...run.result.fapLevels.map((l) => l.power), ...(run.result.keplerian?.curve.power ?? []), 0.05)
+  // a loop, not Math.max(...): a full curve has more points than a call can take arguments
+  let top = 0.05
+  for (const xs of [run.result.curve.power, run.result.fapLevels.map((l) => l.power), run.result.keplerian?.curve.power ?? []]) for (const x of xs) if (x > top) top = x
+  /** ECharts thins long curves per pixel keeping each pixel's extremes ('minmax'), so peaks stay visible. */
+  const thin = run.result.curve.period.length > 8000 ? { sampling: 'minmax' as const } : {}
   const mainHeight = showWindow ? '58%' : undefined
   const grids: NonNullable<EChartsOption['grid']> = showWindow
     ? [{ left: 72, right: 24, top: compact ? 36 : 48, height: mainHeight }, { left: 72, right: 24, bottom: 64, height: '17%' }]
@@ -114,7 +118,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
     label: { formatter: `model ${formatPeriod(p)} d`, position: 'insideEndBottom' as const, color: '#2e7d4f', fontSize: 10 },
   }))
   const series: NonNullable<EChartsOption['series']> & unknown[] = [{
-    type: 'line', name: 'Power', data: curve, showSymbol: false, xAxisIndex: 0, yAxisIndex: 0,
+    type: 'line', name: 'Power', data: curve, showSymbol: false, xAxisIndex: 0, yAxisIndex: 0, ...thin,
     lineStyle: { width: 1, color: input.color ?? '#28507a' }, itemStyle: { color: input.color ?? '#28507a' },
     markLine: { silent: true, symbol: 'none', data: [...fapLines, ...planetLines] },
   }]
@@ -132,7 +136,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
     // same 0…1 scale: the statistic the search uses, drawn beside the sinusoid's power.
     series.push({
       type: 'line', name: KEPLERIAN_SERIES, data: kp.curve.period.map((p, i) => [p, kp.curve.power[i]!]), showSymbol: false,
-      xAxisIndex: 0, yAxisIndex: 0, z: 1, lineStyle: { width: 1, color: KEPLERIAN_COLOR, opacity: 0.85 }, itemStyle: { color: KEPLERIAN_COLOR },
+      xAxisIndex: 0, yAxisIndex: 0, z: 1, lineStyle: { width: 1, color: KEPLERIAN_COLOR, opacity: 0.85 }, itemStyle: { color: KEPLERIAN_COLOR }, ...thin,
     })
   }
   if (showWindow) {
