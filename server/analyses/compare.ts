@@ -25,6 +25,22 @@ export const RULE = `Among models fitted to the same data, the preferred one sta
 
 const planetsWord = (n: number) => `${n} planet${n === 1 ? '' : 's'}`
 
+/** Equal to 1 part in 10⁶ (or 10⁻⁶ absolute near 0): what a refit of the same model on the same data gives. */
+const same = (a: number, b: number) => Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(a), Math.abs(b))
+
+/**
+ * Marks the rows that repeat an earlier model (lower id) exactly: same data, planets, trend and
+ * noise model, BIC and ln L equal to 10⁻⁶ (a copy fitted again, or "fit as a new model" of an unchanged form).
+ */
+export function markDuplicates(rows: CompareRow[]): void {
+  const byId = [...rows].sort((a, b) => a.modelId - b.modelId)
+  for (const [i, r] of byId.entries()) {
+    const first = byId.slice(0, i).find((q) => !q.sameAs && q.dataHash === r.dataHash && q.planets === r.planets && q.trend === r.trend &&
+      (q.noise ?? 'white') === (r.noise ?? 'white') && same(q.bic, r.bic) && same(q.lnL, r.lnL))
+    if (first) r.sameAs = { modelId: first.modelId, name: first.name, version: first.version }
+  }
+}
+
 /** The comparison table of a star's fitted models (current versions), preferred one by the BIC rule. */
 export async function compareModels(s: Services, star: Star): Promise<CompareResponse> {
   const { FitModel, FitModelVersion } = analysisModels(s.sequelize, s.models)
@@ -42,8 +58,10 @@ export async function compareModels(s: Services, star: Star): Promise<CompareRes
       lnL: r.stats.lnL, bic: r.stats.bic, deltaBic: null, rms: r.stats.rms ?? NaN,
       jitters: r.instruments.map((i) => ({ instrument: i.name, jitter: i.jitter ?? 0 })),
       nPoints: r.stats.nPoints, dataHash: r.data.hash, comparable: false, preferred: false, evidence: null, reading: '',
+      noise: v.spec.noise?.kind === 'gp' ? 'gp' : 'white', sameAs: null,
     })
   }
+  markDuplicates(rows)
   rows.sort((a, b) => a.bic - b.bic || a.modelId - b.modelId)
   if (!rows.length) {
     return { rows, preferredModelId: null, rule: RULE, reading: 'No fitted models yet: fit a model or run the search.' }
@@ -53,8 +71,9 @@ export async function compareModels(s: Services, star: Star): Promise<CompareRes
   for (const r of rows) counts.set(r.dataHash, (counts.get(r.dataHash) ?? 0) + 1)
   let refHash = rows[0]!.dataHash
   for (const r of rows) if (counts.get(r.dataHash)! > counts.get(refHash)!) refHash = r.dataHash
-  const group = rows.filter((r) => r.dataHash === refHash)
-  for (const r of group) r.comparable = true
+  for (const r of rows) if (r.dataHash === refHash) r.comparable = true
+  // a duplicate is read through the model it repeats, never compared with it (ΔBIC ~1e-11 means nothing)
+  const group = rows.filter((r) => r.dataHash === refHash && !r.sameAs)
   // the BIC rule over planet counts
   const best = new Map<number, CompareRow>()
   for (const r of group) if (!best.has(r.planets) || r.bic < best.get(r.planets)!.bic) best.set(r.planets, r)
@@ -66,6 +85,10 @@ export async function compareModels(s: Services, star: Star): Promise<CompareRes
   }
   chosen.preferred = true
   for (const r of rows) {
+    if (r.sameAs) {
+      r.reading = `Same model as "${r.sameAs.name}" (v${r.sameAs.version}): the same fit to the same data, shown once.`
+      continue
+    }
     if (!r.comparable) {
       r.reading = 'Fitted to different data (other instruments, exclusions or new points): its BIC cannot be compared with the preferred model\'s.'
       continue
@@ -87,7 +110,9 @@ export async function compareModels(s: Services, star: Star): Promise<CompareRes
       (d >= 0 ? `${EVIDENCE_WORDS[next.evidence!]} evidence for the preferred model (Kass & Raftery 1995).`
         : `it fits better, but not by the ${BIC_THRESHOLD} that an extra planet must gain.`)
   } else reading += ' It is the only fitted model on these data.'
-  const excluded = rows.length - group.length
+  const dups = rows.filter((r) => r.sameAs).length
+  if (dups) reading += ` ${dups} model${dups === 1 ? ' repeats' : 's repeat'} another one exactly and ${dups === 1 ? 'is' : 'are'} shown with it.`
+  const excluded = rows.filter((r) => !r.comparable).length
   if (excluded) reading += ` ${excluded} model${excluded === 1 ? ' was' : 's were'} fitted to different data and are not compared.`
   return { rows, preferredModelId: chosen.modelId, rule: RULE, reading }
 }

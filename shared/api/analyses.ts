@@ -451,6 +451,10 @@ export const compareRowSchema = z.object({
   /** Kass & Raftery (1995) grade of |ΔBIC| against the preferred model (null for the preferred itself or when not comparable). */
   evidence: evidenceSchema.nullable(),
   reading: z.string(),
+  /** Noise model of the fit (spec.noise): white noise with jitters, or a Gaussian process. */
+  noise: z.enum(['white', 'gp']).optional(),
+  /** The same model as an earlier one (same data, planets, trend and noise; BIC and ln L equal to 10⁻⁶): shown in that one's row, never compared with it. */
+  sameAs: z.object({ modelId: z.number().int(), name: z.string(), version: z.number().int() }).nullable().optional(),
 })
 export type CompareRow = z.infer<typeof compareRowSchema>
 export const compareResponseSchema = z.object({

@@ -58,4 +58,20 @@ describe('CompareTable', () => {
     await wrapper.find('[data-test="compare-row-2"]').trigger('keydown', { key: 'Enter' })
     expect(wrapper.emitted('select')).toEqual([[1], [2]])
   })
+
+  it('shows an exact repeat of a model in that model\'s row ("same model as …"), never as a ΔBIC of 1e-11, and the noise model per row', async () => {
+    const dup = { ...compare.rows[0]!, modelId: 3, name: '2 planets (copy)', version: 1, bic: 1142.9 + 1.27e-11, deltaBic: null, preferred: false, sameAs: { modelId: 2, name: '2 planets', version: 2 }, reading: 'Same model as "2 planets" (v2)' }
+    const gp = { ...compare.rows[1]!, modelId: 4, name: '1 planet + GP', noise: 'gp' as const }
+    wrapper = mountWithApp(CompareTable, { props: { compare: { ...compare, rows: [compare.rows[0]!, dup, compare.rows[1]!, gp] } } })
+    await settle()
+    expect(wrapper.find('[data-test="compare-row-3"]').exists()).toBe(false)
+    expect(wrapper.findAll('tbody tr')).toHaveLength(3)
+    const same = wrapper.find('[data-test="compare-same-3"]')
+    expect(same.text()).toBe('same model as “2 planets (copy)” v1')
+    expect(wrapper.text()).not.toMatch(/e-11/)
+    await same.find('a').trigger('click')
+    expect(wrapper.emitted('select')).toEqual([[3]])
+    expect(wrapper.find('[data-test="compare-noise-2"]').text()).toBe('white + jitter')
+    expect(wrapper.find('[data-test="compare-noise-4"]').text()).toBe('GP')
+  })
 })
