@@ -36,30 +36,47 @@ export function denseCovariance(t: Float64Array, scale: Float64Array, noiseVar: 
 }
 
 /**
- * In-place Cholesky C = L Lᵀ (row by row, Cholesky–Banachiewicz: both inner operands are contiguous
- * row prefixes). Rows are taken four at a time so each earlier row is read once for all four (a
- * quarter of the memory traffic, four independent sums). Returns false if C is not numerically
- * positive definite. `choleskyRowByRow` is the plain one-row form, kept as its reference.
+ * In-place Cholesky C = L Lᵀ (Cholesky–Banachiewicz, rows of L in order; both inner operands are
+ * contiguous row prefixes). Register-tiled: rows are taken four at a time and, against them, the
+ * earlier rows four at a time, so one pass over k feeds sixteen independent sums (4 × 4 tile, eight
+ * loads per sixteen multiply–adds, no reduction chain longer than the tile); the tile's own columns
+ * are then finished in order. The 4 × 4 diagonal blocks and the last n mod 4 rows go row by row.
+ * Returns false if C is not numerically positive definite. `choleskyRowByRow` is the plain form,
+ * kept as its reference (same factor to rounding; tests/shared/rv/gp/dense.spec.ts).
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
   let i0 = 0
   for (; i0 + 3 < n; i0 += 4) {
     const r0 = i0 * n, r1 = r0 + n, r2 = r1 + n, r3 = r2 + n
-    // columns j < i0: four rows against row j at once
-    for (let j = 0; j < i0; j++) {
-      const rj = j * n
-      let s0 = 0, s1 = 0, s2 = 0, s3 = 0
-      for (let k = 0; k < j; k++) {
-        const l = a[rj + k]
-        s0 += a[r0 + k] * l; s1 += a[r1 + k] * l; s2 += a[r2 + k] * l; s3 += a[r3 + k] * l
+    for (let j0 = 0; j0 < i0; j0 += 4) {
+      const q0 = j0 * n, q1 = q0 + n, q2 = q1 + n, q3 = q2 + n
+      let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s10 = 0, s11 = 0, s12 = 0, s13 = 0
+      let s20 = 0, s21 = 0, s22 = 0, s23 = 0, s30 = 0, s31 = 0, s32 = 0, s33 = 0
+      for (let k = 0; k < j0; k++) {
+        const b0 = a[q0 + k], b1 = a[q1 + k], b2 = a[q2 + k], b3 = a[q3 + k]
+        let x = a[r0 + k]; s00 += x * b0; s01 += x * b1; s02 += x * b2; s03 += x * b3
+        x = a[r1 + k]; s10 += x * b0; s11 += x * b1; s12 += x * b2; s13 += x * b3
+        x = a[r2 + k]; s20 += x * b0; s21 += x * b1; s22 += x * b2; s23 += x * b3
+        x = a[r3 + k]; s30 += x * b0; s31 += x * b1; s32 += x * b2; s33 += x * b3
       }
-      const d = a[rj + j]
-      a[r0 + j] = (a[r0 + j] - s0) / d
-      a[r1 + j] = (a[r1 + j] - s1) / d
-      a[r2 + j] = (a[r2 + j] - s2) / d
-      a[r3 + j] = (a[r3 + j] - s3) / d
+      // finish the four columns j0..j0+3 in order (in-tile terms k = j0..j−1)
+      let d = a[q0 + j0]
+      const l00 = (a[r0 + j0] - s00) / d, l10 = (a[r1 + j0] - s10) / d, l20 = (a[r2 + j0] - s20) / d, l30 = (a[r3 + j0] - s30) / d
+      a[r0 + j0] = l00; a[r1 + j0] = l10; a[r2 + j0] = l20; a[r3 + j0] = l30
+      let c = a[q1 + j0]; d = a[q1 + j0 + 1]
+      const l01 = (a[r0 + j0 + 1] - s01 - l00 * c) / d, l11 = (a[r1 + j0 + 1] - s11 - l10 * c) / d
+      const l21 = (a[r2 + j0 + 1] - s21 - l20 * c) / d, l31 = (a[r3 + j0 + 1] - s31 - l30 * c) / d
+      a[r0 + j0 + 1] = l01; a[r1 + j0 + 1] = l11; a[r2 + j0 + 1] = l21; a[r3 + j0 + 1] = l31
+      c = a[q2 + j0]; let c2 = a[q2 + j0 + 1]; d = a[q2 + j0 + 2]
+      const l02 = (a[r0 + j0 + 2] - s02 - l00 * c - l01 * c2) / d, l12 = (a[r1 + j0 + 2] - s12 - l10 * c - l11 * c2) / d
+      const l22 = (a[r2 + j0 + 2] - s22 - l20 * c - l21 * c2) / d, l32 = (a[r3 + j0 + 2] - s32 - l30 * c - l31 * c2) / d
+      a[r0 + j0 + 2] = l02; a[r1 + j0 + 2] = l12; a[r2 + j0 + 2] = l22; a[r3 + j0 + 2] = l32
+      c = a[q3 + j0]; c2 = a[q3 + j0 + 1]; const c3 = a[q3 + j0 + 2]; d = a[q3 + j0 + 3]
+      a[r0 + j0 + 3] = (a[r0 + j0 + 3] - s03 - l00 * c - l01 * c2 - l02 * c3) / d
+      a[r1 + j0 + 3] = (a[r1 + j0 + 3] - s13 - l10 * c - l11 * c2 - l12 * c3) / d
+      a[r2 + j0 + 3] = (a[r2 + j0 + 3] - s23 - l20 * c - l21 * c2 - l22 * c3) / d
+      a[r3 + j0 + 3] = (a[r3 + j0 + 3] - s33 - l30 * c - l31 * c2 - l32 * c3) / d
     }
-    // the 4 × 4 diagonal block, row by row
     for (let i = i0; i < i0 + 4; i++) {
       const ri = i * n
       for (let j = i0; j <= i; j++) {
@@ -67,10 +84,7 @@ export function choleskyInPlace(a: Float64Array, n: number): boolean {
         let s = 0
         for (let k = 0; k < j; k++) s += a[ri + k] * a[rj + k]
         const v = a[ri + j] - s
-        if (i === j) {
-          if (!(v > 0)) return false
-          a[ri + i] = Math.sqrt(v)
-        } else a[ri + j] = v / a[rj + j]
+        if (i === j) { if (!(v > 0)) return false; a[ri + i] = Math.sqrt(v) } else a[ri + j] = v / a[rj + j]
       }
     }
   }
