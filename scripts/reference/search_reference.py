@@ -37,7 +37,10 @@ def kepler_E(M, e):
     E = M + e * np.sin(M) if e < 0.8 else np.pi * np.ones_like(M)
     for _ in range(60):
         f = E - e * np.sin(E) - M
-        E = E - f / (1 - e * np.cos(E))
+        dE = f / (1 - e * np.cos(E))
+        E = E - dE
+        if np.max(np.abs(dE)) < 1e-13:  # Newton converged (the next step would be below 1e-26)
+            break
     return E
 
 
