@@ -12,6 +12,7 @@ import { ROLE_RANK, type Role } from '../../shared/api/common.ts'
 import { diffSnapshots, snapshotFingerprint } from '../../shared/report/diff.ts'
 import { parameterRows } from '../../shared/report/table.ts'
 import { buildSnapshot } from './snapshot.ts'
+import { limitsSnapshot } from './limits-page.ts'
 import type {
   Approval, FreezeRequest, ReportDetail, ReportSummary, ReportVersion, ReportVersionItem, Review, ReviewRequest, Share, ShareRequest,
 } from '../../shared/api/reports.ts'
@@ -36,7 +37,8 @@ export async function freeze(s: Services, actor: User, star: Star, model: FitMod
   const existing = await R(s).Report.findOne({ where: { modelId: model.id } })
   const title = req.title ?? existing?.title ?? `${star.name}: ${model.name}`
   const snapshot = await buildSnapshot(s, actor, star, model, title, req.samplingRunId)
-  const fingerprint = snapshotFingerprint(snapshot)
+  snapshot.limits = req.limitsRunId !== undefined ? await limitsSnapshot(s, star, req.limitsRunId) : null // server/reports/limits-page.ts
+  const fingerprint = snapshotFingerprint(snapshot) + (snapshot.limits ? `|limits ${snapshot.limits.runId}` : '')
   const out = await s.sequelize.transaction(async (transaction) => {
     let report = existing ? await R(s).Report.findByPk(existing.id, { transaction, lock: transaction.LOCK.UPDATE }) : null
     let prev: ReportVersionRow | null = null

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { userRefSchema, type UserRef } from './common.ts'
 import type { CompareRow, DataSelection, FitResultJson, ModelSpec, PeriodogramPeak } from './analyses.ts'
+import type { LimitsResult, LimitsSettings } from './limits.ts'
 
 // Reports: frozen solutions (immutable versions), sharing with co-authors, comments and approvals.
 // Browser-safe. Units: days, m/s, degrees; times full JD.
@@ -9,6 +10,8 @@ import type { CompareRow, DataSelection, FitResultJson, ModelSpec, PeriodogramPe
 export const freezeRequestSchema = z.object({
   /** A succeeded sampling run of this model version, whose credible intervals enter the report. */
   samplingRunId: z.number().int().positive().optional(),
+  /** A succeeded detection-limit run of this star, whose completeness map and table enter the report. */
+  limitsRunId: z.number().int().positive().optional(),
   title: z.string().trim().min(1).max(200).optional(),
 })
 export type FreezeRequest = z.infer<typeof freezeRequestSchema>
@@ -97,9 +100,19 @@ export interface ReportSnapshot {
   periodogram: SnapshotPeriodogram | null
   residualPeriodogram: SnapshotPeriodogram | null
   sampling: SnapshotSampling | null
+  /** The detection-limit run chosen at freezing (absent in versions frozen before limits could be included). */
+  limits?: SnapshotLimits | null
   comparison: { rows: Array<Pick<CompareRow, 'modelId' | 'name' | 'version' | 'planets' | 'trend' | 'bic' | 'deltaBic' | 'evidence' | 'preferred' | 'comparable'>>; rule: string; reading: string } | null
   settings: { fit: { trend: string; instruments: string[] | null; iterations: number; status: string }; sampling: SamplingSettingsSnapshot | null }
   methods: { text: string; references: Array<{ key: string; citation: string }> }
+}
+
+/** A finished detection-limit run as frozen in a report (server/reports/limits-page.ts). */
+export interface SnapshotLimits {
+  runId: number; seed: number; settings: LimitsSettings; modelId: number | null; modelVersion: number | null; finishedAt: string | null
+  result: LimitsResult
+  /** The non-detection statement (shared/report/limits.ts nonDetectionSentence). */
+  sentence: string
 }
 
 export interface SnapshotChange { field: string; from: string; to: string }
