@@ -13,6 +13,7 @@ import { solutionGrid, type GridCell } from '../../shared/report/solution-grid.t
 import { snapshotTimeSystem } from '../../shared/report/time-label.ts'
 import { cornerInputOf } from '../../shared/report/corner-option.ts'
 import { cornerOption, periodogramOption, phaseOption, renderSvg, residualsOption, timeSeriesOption } from './charts.ts'
+import { limitsPage } from './limits-page.ts'
 
 const require = createRequire(import.meta.url)
 let fonts: { regular: Buffer; bold: Buffer } | undefined
@@ -148,6 +149,8 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
     doc.moveDown(0.5)
     plot(renderSvg(corner, 620, 620), CONTENT_W)
   }
+
+  limitsPage(s, { newPage: () => doc.addPage(), h1, para, plot, table }) // detection limits when frozen with them (limits-page.ts)
 
   // ---- methods and provenance
   doc.addPage()
