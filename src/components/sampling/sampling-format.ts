@@ -1,5 +1,6 @@
 // How sampling settings are checked and results are written on screen: defaults and limits of a
 // run, a time estimate, credible intervals "median +plus −minus unit", and the diagnostics in words.
+import { formatCount } from '@/format/index.ts'
 import type { FitResultJson } from '@shared/api/analyses.ts'
 import type { ParameterSummary, SamplingEstimate, SamplingResult, SamplingRunSummary } from '@shared/api/sampling.ts'
 import { SAMPLING_DEFAULTS, SAMPLING_LIMITS } from '@shared/api/sampling.ts'
@@ -52,7 +53,7 @@ export function validateLauncher(input: LauncherInput, nDim: number, workers: nu
   const steps = whole(input.steps)
   if (steps === null || steps <= 0) errors.steps = 'Steps must be a whole number greater than 0'
   else if (steps < LIMITS.stepsMin) errors.steps = `At least ${LIMITS.stepsMin} steps`
-  else if (steps > LIMITS.stepsMax) errors.steps = `At most ${LIMITS.stepsMax.toLocaleString('en-US')} steps`
+  else if (steps > LIMITS.stepsMax) errors.steps = `At most ${formatCount(LIMITS.stepsMax)} steps`
   if (input.seed.trim() !== '') {
     const seed = whole(input.seed)
     if (seed === null || seed > LIMITS.seedMax) errors.seed = `Seed must be a whole number from 0 to ${LIMITS.seedMax}`
