@@ -1,10 +1,11 @@
 // Binary form of stored periodogram curves (table periodogram_curves, migration 0012): a few named
 // curves, each n powers as Float32 and its abscissa either regenerated from a regular frequency
-// grid (f0, df: 16 bytes) or stored as Float64 periods when the grid is irregular. Little-endian.
+// grid (f0, df: 16 bytes), stored as Float64 periods when the grid is irregular, or as Float32
+// periods for plot copies (7 digits: 0.0004 d at 7000 d, far below a pixel). Little-endian.
 //
 //   'SWPC' u8 version=1 u8 curves u16 0
-//   per curve: u8 nameLength, name (UTF-8), u8 mode (0 grid, 1 periods), u32 n,
-//              mode 0: f64 f0, f64 df | mode 1: f64 period × n;  then f32 power × n
+//   per curve: u8 nameLength, name (UTF-8), u8 mode (0 grid, 1 f64 periods, 2 f32 periods), u32 n,
+//              mode 0: f64 f0, f64 df | mode 1: f64 period × n | mode 2: f32 period × n;  then f32 power × n
 //
 // Curves are kept in increasing period (decreasing frequency), the order the API serves.
 // Float32 keeps 7 significant digits of a power in 0…1 (plenty for drawing; the peak list keeps full
@@ -13,7 +14,7 @@
 export interface PeriodCurve { period: number[]; power: number[] }
 export type StoredCurve =
   | { name: string; grid: { f0: number; df: number }; power: ArrayLike<number> }
-  | { name: string; period: ArrayLike<number>; power: ArrayLike<number> }
+  | { name: string; period: Float64Array | Float32Array; power: ArrayLike<number> }
 
 const MAGIC = 0x43505753 // 'SWPC' read as a little-endian u32
 const VERSION = 1
@@ -41,15 +42,15 @@ export function frequencyCurve(name: string, frequency: ArrayLike<number>, power
   return { name, period, power }
 }
 
-/** A curve already in increasing period (e.g. a display copy): periods kept as Float64. */
+/** A plot copy already in increasing period: periods and powers kept as Float32. */
 export function periodCurve(name: string, c: PeriodCurve): StoredCurve {
-  return { name, period: Float64Array.from(c.period), power: Float32Array.from(c.power) }
+  return { name, period: Float32Array.from(c.period), power: Float32Array.from(c.power) }
 }
 
 export function encodeCurves(curves: StoredCurve[]): Buffer {
   const names = curves.map((c) => Buffer.from(c.name, 'utf8'))
   let size = 8
-  curves.forEach((c, i) => { size += 1 + names[i]!.length + 1 + 4 + ('grid' in c ? 16 : 8 * c.power.length) + 4 * c.power.length })
+  curves.forEach((c, i) => { size += 1 + names[i]!.length + 1 + 4 + ('grid' in c ? 16 : c.period.BYTES_PER_ELEMENT * c.power.length) + 4 * c.power.length })
   const buf = Buffer.alloc(size)
   const v = new DataView(buf.buffer, buf.byteOffset, buf.byteLength)
   v.setUint32(0, MAGIC, true); v.setUint8(4, VERSION); v.setUint8(5, curves.length)
@@ -59,9 +60,11 @@ export function encodeCurves(curves: StoredCurve[]): Buffer {
     v.setUint8(o, name.length); o += 1
     name.copy(buf, o); o += name.length
     const n = c.power.length
-    v.setUint8(o, 'grid' in c ? 0 : 1); o += 1
+    const f32 = !('grid' in c) && c.period instanceof Float32Array
+    v.setUint8(o, 'grid' in c ? 0 : f32 ? 2 : 1); o += 1
     v.setUint32(o, n, true); o += 4
     if ('grid' in c) { v.setFloat64(o, c.grid.f0, true); v.setFloat64(o + 8, c.grid.df, true); o += 16 }
+    else if (f32) for (let k = 0; k < n; k++, o += 4) v.setFloat32(o, c.period[k]!, true)
     else for (let k = 0; k < n; k++, o += 8) v.setFloat64(o, c.period[k]!, true)
     for (let k = 0; k < n; k++, o += 4) v.setFloat32(o, c.power[k]!, true)
   })
@@ -84,7 +87,9 @@ export function decodeCurves(buf: Uint8Array): Map<string, PeriodCurve> {
     if (mode === 0) {
       const f0 = v.getFloat64(o, true), df = v.getFloat64(o + 8, true); o += 16
       for (let i = 0; i < n; i++) period[i] = 1 / (f0 + (n - 1 - i) * df)
-    } else for (let i = 0; i < n; i++, o += 8) period[i] = v.getFloat64(o, true)
+    } else if (mode === 2) for (let i = 0; i < n; i++, o += 4) period[i] = v.getFloat32(o, true)
+    else if (mode === 1) for (let i = 0; i < n; i++, o += 8) period[i] = v.getFloat64(o, true)
+    else throw new Error(`stored periodogram curve mode ${mode} is not known`)
     for (let i = 0; i < n; i++, o += 4) power[i] = v.getFloat32(o, true)
     out.set(name, { period, power })
   }
