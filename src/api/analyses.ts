@@ -1,6 +1,6 @@
 import { request } from './http.ts'
 import type {
-  CompareResponse, CreateModelRequest, FitModelRequest, ModelDetail, ModelSummary, ModelVersion,
+  CompareResponse, CreateModelRequest, FitModelRequest, GpVariantRequest, ModelDetail, OverruleRequest, ModelSummary, ModelVersion,
   PeriodogramRun, PeriodogramSummary, RunPeriodogramRequest, SearchRequest, SearchResponse, UpdateModelRequest,
 } from '@shared/api/analyses.ts'
 
@@ -26,3 +26,7 @@ export const archiveModel = (modelId: number) => request<void>(`/models/${modelI
 export const searchSignals = (starId: number, body: SearchRequest = {}) =>
   request<SearchResponse>(`/stars/${starId}/search`, { method: 'POST', body })
 export const compareModels = (starId: number) => request<CompareResponse>(`/stars/${starId}/models/compare`)
+export const overruleSignal = (modelId: number, body: OverruleRequest) =>
+  request<ModelDetail>(`/models/${modelId}/overrule`, { method: 'POST', body })
+export const gpVariant = (modelId: number, body: GpVariantRequest = {}) =>
+  request<ModelDetail>(`/models/${modelId}/gp-variant`, { method: 'POST', body })

@@ -9,6 +9,7 @@ import {
   defaultModelName, planetForm, planetFormFromFit, specToForm, type ModelForm,
 } from '@/components/analysis/model-form.ts'
 import { asyncState, track, type AsyncState } from './async-state.ts'
+import type { RotationSuggestion } from '@/components/analysis/noise-form.ts'
 
 export type PeriodogramSettings = Pick<RunPeriodogramRequest, 'minPeriod' | 'maxPeriod' | 'oversample' | 'instruments'>
 /** Options of the automatic search (blank: the core's defaults, as in the CLI). */
@@ -209,6 +210,52 @@ export const useAnalysisStore = defineStore('analysis', () => {
     return found
   }
 
+  /**
+   * The strongest significant activity-indicator peak (FAP below 0.001, the vetting's level) of the
+   * indicator periodograms on the page, else of the search's indicator diagnostics: the GP's P_rot offer.
+   */
+  const rotationSuggestion = computed<RotationSuggestion | null>(() => {
+    let best: RotationSuggestion | null = null
+    const offer = (indicator: string, period: number, fap: number) => {
+      if (fap < 1e-3 && (!best || fap < best.fap)) best = { indicator, period, fap }
+    }
+    for (const [name, state] of Object.entries(indicators)) {
+      const top = state.data?.result.peaks[0]
+      if (top) offer(name, top.period, top.fap)
+    }
+    if (!best) for (const d of search.data?.report.activity?.indicators ?? selected.data?.current.result?.search?.activity?.indicators ?? []) {
+      const top = d.peaks[0]
+      if (top) offer(d.name, top.period, top.fap)
+    }
+    return best
+  })
+
+  /** After a change made on the server (overrule, planets + GP): select the model, refresh lists, comparison and residuals. */
+  async function showChanged(detail: ModelDetail | null) {
+    if (!detail) return null
+    const id = need()
+    selected.data = detail
+    selected.error = null
+    editFrom(detail)
+    residuals.data = null
+    await Promise.all([
+      track(models, () => api.listModels(id)),
+      track(compare, () => api.compareModels(id)),
+      detail.current.status === 'fitted' ? runResiduals() : Promise.resolve(null),
+    ])
+    return detail
+  }
+
+  /** Counts an activity candidate of the search as a planet (a new fitted version, with who and why in its note). */
+  async function overrule(modelId: number, signal: number, reason: string) {
+    return showChanged(await track(fitting, () => api.overruleSignal(modelId, { signal, reason })))
+  }
+
+  /** "Planets + GP": the model's planets with a GP noise model (P_rot from the strongest indicator peak), fitted as a new model. */
+  async function gpVariant(modelId: number) {
+    return showChanged(await track(fitting, () => api.gpVariant(modelId)))
+  }
+
   const versionLoad = asyncState<ModelVersion>()
   /** Puts the spec of an older version of the selected model into the form (a fit then adds a new version). */
   async function loadVersion(modelId: number, version: number) {
@@ -238,6 +285,6 @@ export const useAnalysisStore = defineStore('analysis', () => {
 
   return {
     rv, residuals, indicators, settings, searchSettings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
-    versionLoad, fitted, load, loadVersion, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
+    versionLoad, fitted, rotationSuggestion, overrule, gpVariant, load, loadVersion, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
   }
 })

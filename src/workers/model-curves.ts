@@ -6,6 +6,7 @@
 import {
   addKeplerian, curveTimes, keplerianOf, modelVelocity, phaseCurve, phaseOf, type CurveTrend, type PlanetElements,
 } from '@shared/rv/index.ts'
+import { gpActivity, type GpCurveInput, type GpCurveOutput } from './gp-curve.ts'
 
 export { phaseOf }
 export type CurvePlanet = PlanetElements
@@ -21,6 +22,8 @@ export interface CurvesInput {
   end: number
   /** Fewest samples of a regular time curve (default of the core, 2000). */
   samples?: number
+  /** A GP noise model as fitted: its activity curve ±1σ is drawn, and removed from the folded points. */
+  gp?: GpCurveInput | null
 }
 
 export interface FoldedPlanet {
@@ -37,10 +40,12 @@ export interface CurvesOutput {
   /** 'regular' grid, or 'segments' around the measurements (the orbit is too short for a grid over the whole span). */
   sampling: 'regular' | 'segments'
   folded: FoldedPlanet[]
+  /** With a GP: the activity curve on the time grid and at each point. */
+  gp?: GpCurveOutput | null
 }
 
 export function computeCurves(input: CurvesInput): CurvesOutput {
-  const shortest = Math.min(...input.planets.map((p) => p.period), Infinity)
+  const shortest = Math.min(...input.planets.map((p) => p.period), input.gp?.kernel.period ?? Infinity)
   const sampling = curveTimes(input.points.map((p) => p.time), input.start, input.end, shortest, input.samples ? { minSamples: input.samples } : {})
   const v = modelVelocity(input.planets, input.trend, sampling.time)
   const timeCurve: Array<[number, number | null]> = []
@@ -51,11 +56,13 @@ export function computeCurves(input: CurvesInput): CurvesOutput {
     else { timeCurve.push([t, v[i]!]); last = t }
   }
   const pt = Float64Array.from(input.points, (p) => p.time)
+  const gp = input.gp ? gpActivity(input.gp, input.points, sampling.time) : null
   const folded = input.planets.map((p): FoldedPlanet => {
     const own = new Float64Array(pt.length)
     addKeplerian(pt, keplerianOf(p), own)
-    const points = input.points.map((q, i): [number, number, number, number] => [phaseOf(q.time, p.period, p.tc), own[i]! + q.residual, q.error, q.id])
+    // with a GP, the planet's signal is shown with the GP prediction (the activity) removed
+    const points = input.points.map((q, i): [number, number, number, number] => [phaseOf(q.time, p.period, p.tc), own[i]! + q.residual - (gp ? gp.atPoints[i]! : 0), q.error, q.id])
     return { points, curve: phaseCurve(p), instruments: input.points.map((q) => q.instrument) }
   })
-  return { timeCurve, sampling: sampling.mode, folded }
+  return { timeCurve, sampling: sampling.mode, folded, gp }
 }

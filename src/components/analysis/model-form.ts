@@ -4,6 +4,7 @@ import type {
   FittedPlanet, ModelSpec, ModelSpecInput, PlanetParamName, PlanetSpec, PriorSpec, Trend,
 } from '@shared/api/analyses.ts'
 import { toNumber } from '@/components/app/rules.ts'
+import { noiseToSpec, specToNoiseForm, type NoiseForm } from './noise-form.ts'
 
 export type PriorKind = 'none' | 'gaussian' | 'uniform'
 /** The parameters a planet row shows: the phase is given as Tc or Tp (one of them). */
@@ -34,6 +35,8 @@ export interface ModelForm {
   /** Instruments fitted; all of the star's when every one is ticked. */
   instruments: string[]
   planets: PlanetForm[]
+  /** Noise model (absent: white noise); NoiseModelSection.vue edits it. */
+  noise?: NoiseForm
 }
 
 /** Highest eccentricity the fitter accepts (the API's limit). */
@@ -142,6 +145,7 @@ export function formErrors(form: ModelForm): FormErrors {
       if (pr.b) byField[`planets.${i}.${p}.prior.b`] = pr.b
     }
   })
+  if (form.noise) for (const [k, v] of Object.entries(noiseToSpec(form.noise).errors)) byField[`noise.${k}`] = v
   return { byField, count: Object.keys(byField).length }
 }
 
@@ -174,7 +178,8 @@ export function formToSpec(form: ModelForm, allInstruments: string[]): ModelSpec
     return spec
   })
   const every = allInstruments.length > 0 && allInstruments.every((name) => form.instruments.includes(name))
-  return { planets, trend: form.trend, instruments: every ? null : [...form.instruments].sort() }
+  const noise = form.noise?.kind === 'gp' ? { noise: noiseToSpec(form.noise).spec } : {}
+  return { planets, trend: form.trend, instruments: every ? null : [...form.instruments].sort(), ...noise }
 }
 
 /** The form for a stored spec (e.g. to edit a saved model). */
@@ -183,6 +188,7 @@ export function specToForm(name: string, spec: ModelSpec | ModelSpecInput, allIn
     name,
     trend: spec.trend ?? 'none',
     instruments: spec.instruments ? [...spec.instruments] : [...allInstruments],
+    noise: specToNoiseForm(spec.noise),
     planets: spec.planets.map((p) => {
       const form = planetForm(p.period, p.K ?? null, p.e ?? null)
       if (p.omegaDeg !== undefined) form.params.omegaDeg.value = String(p.omegaDeg)

@@ -86,6 +86,8 @@ export function buildTimeChart(points: PlotPoint[], result: FitResultJson, curve
       xAxisIndex: 0, yAxisIndex: 0, z: 4, silent: true, lineStyle: { color: MODEL_COLOR, width: 1.2 }, itemStyle: { color: MODEL_COLOR },
     })
   }
+  const gp = curves?.gp ?? null
+  if (gp) series.push(...gpSeries(gp, curves!, offset))
   series.push({
     type: 'line', name: 'zero', data: [], xAxisIndex: 1, yAxisIndex: 1, silent: true,
     markLine: { silent: true, symbol: 'none', label: { show: false }, lineStyle: { color: '#777', type: 'dashed' }, data: [{ yAxis: 0 }] },
@@ -94,7 +96,7 @@ export function buildTimeChart(points: PlotPoint[], result: FitResultJson, curve
   return {
     animation: false,
     textStyle: { fontFamily: 'Roboto, sans-serif' },
-    legend: { top: 6, left: 'center', data: [...styles.keys(), ...(curves ? ['Model'] : [])] },
+    legend: { top: 6, left: 'center', data: [...styles.keys(), ...(curves ? ['Model'] : []), ...(gp ? [GP_MODEL, GP_NAME, GP_BAND] : [])] },
     grid: [{ ...grid, top: 44, height: '50%' }, { ...grid, bottom: 76, height: '20%' }],
     tooltip: tooltip(lookup, timeScale),
     axisPointer: { link: [{ xAxisIndex: 'all' }] },
@@ -109,10 +111,37 @@ export function buildTimeChart(points: PlotPoint[], result: FitResultJson, curve
     ],
     yAxis: [
       { type: 'value', gridIndex: 0, scale: true, name: 'RV − offset [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge },
-      { type: 'value', gridIndex: 1, scale: true, name: 'Residual [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge, splitNumber: 3 },
+      { type: 'value', gridIndex: 1, scale: true, name: gp ? 'Residual (with activity) [m/s]' : 'Residual [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge, splitNumber: 3 },
     ],
     series,
   }
+}
+
+const GP_COLOR = '#D55E00'
+const GP_NAME = 'GP activity'
+const GP_BAND = 'GP ±1σ'
+const GP_MODEL = 'Model + GP'
+
+/**
+ * A GP noise model's activity curve: over the residuals (mean, and its ±1σ band as two faint lines),
+ * and the planets + trend + activity over the velocities.
+ */
+function gpSeries(gp: NonNullable<CurvesOutput['gp']>, curves: CurvesOutput, offset: number): Series {
+  const bound = (sign: 1 | -1) => gp.curve.map(([t, m, sd]) => [t - offset, m === null || sd === null ? null : m + sign * sd])
+  const both = curves.timeCurve.map(([t, v], i) => {
+    const g = gp.curve[i]?.[1]
+    return [t - offset, v === null || g === null || g === undefined ? null : v + g]
+  })
+  const line = (name: string, data: unknown[], axis: number, extra: object = {}) => ({
+    type: 'line' as const, name, data, showSymbol: false, xAxisIndex: axis, yAxisIndex: axis, silent: true, connectNulls: false,
+    lineStyle: { color: GP_COLOR, width: 1.2 }, itemStyle: { color: GP_COLOR }, ...extra,
+  })
+  return [
+    line(GP_MODEL, both, 0, { z: 4, lineStyle: { color: GP_COLOR, width: 1, type: 'dashed' } }),
+    line(GP_BAND, bound(1), 1, { z: 1, lineStyle: { color: GP_COLOR, width: 0.8, opacity: 0.45 } }),
+    line(GP_BAND, bound(-1), 1, { z: 1, lineStyle: { color: GP_COLOR, width: 0.8, opacity: 0.45 } }),
+    line(GP_NAME, gp.curve.map(([t, m]) => [t - offset, m]), 1, { z: 4 }),
+  ] as Series
 }
 
 /** One planet's signal against orbital phase, the other planets, the trend and offsets removed. */
@@ -143,7 +172,7 @@ export function buildFoldedChart(
     toolbox: toolbox(`phase-folded-${label}`),
     dataZoom: [{ type: 'inside', xAxisIndex: 0, filterMode: 'none' }],
     xAxis: { type: 'value', min: -0.5, max: 0.5, name: 'Orbital phase from Tc [cycles]', nameLocation: 'middle', nameGap: 26, splitLine: split, axisLine: edge },
-    yAxis: { type: 'value', scale: true, name: 'RV of this planet [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge },
+    yAxis: { type: 'value', scale: true, name: curves.gp ? 'RV of this planet, GP activity removed [m/s]' : 'RV of this planet [m/s]', nameLocation: 'middle', nameGap: 50, splitLine: split, axisLine: edge },
     series,
   }
 }
