@@ -131,7 +131,13 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
     await saveCurves(s, transaction, r.id, stored.display, stored.full)
     return r
   })
-  await enforceTeamBound(s, star.teamId, s.config.periodogramTeamBytes, run.id)
+  const bound = await enforceTeamBound(s, star.teamId, s.config.periodogramTeamBytes, run.id)
+  if (bound.dropped.length) {
+    await record(s, {
+      teamId: star.teamId, userId: actor.id, action: 'periodogram.curves_dropped', entity: 'periodogram', entityId: run.id,
+      detail: { runIds: bound.dropped, keptBytes: bound.bytes, limitBytes: s.config.periodogramTeamBytes },
+    })
+  }
   return getPeriodogram(s, run.id)
 }
 

@@ -99,6 +99,8 @@ describe('stored runs', () => {
     expect(kept.result.curve).toEqual(first.result.curve)
     expect(kept.result.peaks).toEqual(first.result.peaks)
     expect(kept.result.downsampling).toMatch(/full curve dropped on/)
+    const audit = await t.models.AuditEntry.findOne({ where: { action: 'periodogram.curves_dropped', entityId: second.id } })
+    expect(audit?.detail).toMatchObject({ runIds: [first.id] })
     // a run alone over the bound still keeps its own full curve (the bound never refuses a run)
     t.config.periodogramTeamBytes = 10
     const third = (await a.post(`/api/stars/${vela}/periodograms`, { kind: 'rv', oversample: 3 }).expect(201)).body as PeriodogramRun
