@@ -358,7 +358,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
     }
     const rej = rejections(data, next[1], k, D.oneInstrumentShare) // the new planet is the last one
     if (rej.length) { flags.push(...rej); break }
-    const doubts = candidateDoubts(data, next[1], k)
+    const doubts = candidateDoubts(data, next[1], k, bicThreshold)
     if (doubts.length) {
       const p = next[1].planets[k]
       candidates.push({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, deltaLnL: dLnL, deltaBic: next[1].stats.bic - chosenAt[k][1].stats.bic, flags: doubts, fit: next[1] })

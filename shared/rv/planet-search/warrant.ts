@@ -229,11 +229,13 @@ export const CARRIER_SHARE = 0.5
 /**
  * Doubts that make a newly added signal a flagged candidate instead of a planet (empty: none).
  * Today one: ≥ {@link CARRIER_SHARE} of its likelihood gain comes from one instrument whose span is
- * shorter than the period, while the whole data set spans more than the period (so the other
- * instruments could have seen it and mostly do not). A period beyond the baseline is not a doubt
- * here (every instrument then sees part of an orbit; that is the 'period-beyond-baseline' warning).
+ * shorter than the period, while the whole data set spans more than the period, and the other
+ * instruments do not detect it on their own: their gain at the fitted orbit is below the BIC bar
+ * for one more planet in their data alone, (bicThreshold + 5 ln N_others) / 2 (Schwarz 1978; five
+ * orbital elements). A period beyond the baseline is not a doubt here (every instrument then sees
+ * part of an orbit; that is the 'period-beyond-baseline' warning).
  */
-export function candidateDoubts(data: RvData, fit: FitResult, index: number): SignalFlag[] {
+export function candidateDoubts(data: RvData, fit: FitResult, index: number, bicThreshold = 10): SignalFlag[] {
   if (data.instrumentNames.length < 2) return []
   const p = fit.planets[index]
   let tmin = Infinity, tmax = -Infinity
@@ -242,8 +244,15 @@ export function candidateDoubts(data: RvData, fit: FitResult, index: number): Si
   const shares = instrumentShares(data, fit, index)
   const top = shares.reduce((a, b) => (b.share > a.share ? b : a))
   if (!(top.share >= CARRIER_SHARE && top.span < p.period && p.period < baseline)) return []
+  const k = data.instrumentNames.indexOf(top.name)
+  let nOthers = 0
+  for (let i = 0; i < data.t.length; i++) if (data.instrument[i] !== k) nOthers++
+  let others = 0
+  for (const sh of shares) if (sh !== top) others += sh.dLnL
+  const bar = nOthers > 0 ? (bicThreshold + 5 * Math.log(nOthers)) / 2 : 0
+  if (others >= bar) return []
   return [{
     kind: 'candidate-short-instrument', severity: 'warning', period: p.period, instrument: top.name,
-    message: `The ${fmtP(p.period)}-d signal (K = ${p.K.toFixed(1)} m/s, e = ${p.e.toFixed(2)}) is a candidate, not counted as a planet: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name}, whose ${top.span.toFixed(0)}-d span is shorter than the period, while the other instruments, covering ${(baseline / p.period).toFixed(0)} cycles over the ${baseline.toFixed(0)}-d baseline, give the rest. Check ${top.name}'s systematics; more data from the other instruments would decide.`,
+    message: `The ${fmtP(p.period)}-d signal (K = ${p.K.toFixed(1)} m/s, e = ${p.e.toFixed(2)}) is a candidate, not counted as a planet: ${(top.share * 100).toFixed(0)} % of its likelihood gain comes from ${top.name}, whose ${top.span.toFixed(0)}-d span is shorter than the period, and the other instruments (${nOthers} points over the ${baseline.toFixed(0)}-d baseline) give ΔlnL = ${others.toFixed(1)}, below the ${bar.toFixed(1)} that would detect it on their own. Check ${top.name}'s systematics; more data from the other instruments would decide.`,
   }]
 }
