@@ -12,7 +12,11 @@ describe('the planner chart option', () => {
     const o = planChartOption(p) as { xAxis: { name: string }; yAxis: { name: string }; series: Array<{ name: string; data: number[][]; markLine?: { data: Array<{ xAxis: number }> } }> }
     expect(o.xAxis.name).toBe('JD (UTC) − 2461384')
     expect(o.yAxis.name).toContain('(m/s)')
-    expect(o.series[1].data.map((d) => d[1])).toEqual([2, 2, 2]) // hi − lo stacked on lo
-    expect(o.series[2].markLine!.data.map((d) => d.xAxis)).toEqual([expect.closeTo(1.2, 9), expect.closeTo(2.1, 9)])
+    // one polygon: the 84 % points forwards, then the 16 % points (drawn backwards)
+    expect(o.series[0].data.map((d) => d[1])).toEqual([1, 2, 3, -1, 0, 1])
+    const drawn = (o.series[0] as unknown as { renderItem: (p: { dataIndex: number }, api: { coord: (q: number[]) => number[] }) => { shape: { points: number[][] } } | null })
+      .renderItem({ dataIndex: 0 }, { coord: (q) => q })!.shape.points
+    expect(drawn.map((q) => q[1])).toEqual([1, 2, 3, 1, 0, -1])
+    expect(o.series[1].markLine!.data.map((d) => d.xAxis)).toEqual([expect.closeTo(1.2, 9), expect.closeTo(2.1, 9)])
   })
 })
