@@ -7,6 +7,7 @@ import * as samplingHandlers from '../../server/sampling/routes.ts'
 import * as reportHandlers from '../../server/reports/routes.ts'
 import * as limitsHandlers from '../../server/limits/routes.ts'
 import * as planHandlers from '../../server/plan/routes.ts'
+import * as triageHandlers from '../../server/triage/routes.ts'
 import { hashToken, newToken } from '../../server/auth/tokens.ts'
 import { signIn, type Client } from './client.ts'
 import { analyst, anyone, EMAIL, member, owner, personaClient as freshClient, PERSONAS, signedIn, type Expect, type Persona } from './roles.ts'
@@ -170,8 +171,8 @@ async function personaClient(p: Persona, route: string): Promise<Client> {
 describe('access to every route', () => {
   it('covers every route of the routes table', () => {
     // the analysis routes have their own table in analyses-access.spec.ts, the sampling routes in sampling-access.spec.ts,
-    // the detection-limit and planner routes in limits-access.spec.ts
-    const elsewhere = new Set<unknown>([...Object.values(analysisHandlers), ...Object.values(samplingHandlers), ...Object.values(reportHandlers), ...Object.values(limitsHandlers), ...Object.values(planHandlers)])
+    // the detection-limit and planner routes in limits-access.spec.ts, the survey-triage routes in triage-access.spec.ts
+    const elsewhere = new Set<unknown>([...Object.values(analysisHandlers), ...Object.values(samplingHandlers), ...Object.values(reportHandlers), ...Object.values(limitsHandlers), ...Object.values(planHandlers), ...Object.values(triageHandlers)])
     const inTable = routes.filter((r) => !elsewhere.has(r.handler)).map((r) => `${r.method.toUpperCase()} ${r.path}`).sort()
     const tested = cases.map((c) => `${c.method.toUpperCase()} ${c.route}`).sort()
     expect(tested).toEqual(inTable)
