@@ -4,18 +4,17 @@ import type {
 import type { Measurement } from '@/api/types.ts'
 
 import { INSTRUMENT_COLORS, INSTRUMENT_SYMBOLS, EXCLUDED_COLOR, EXCLUDED_NAME, instrumentStyles, type InstrumentStyle } from '@shared/report/palette.ts'
+import { displayOffset } from '@shared/time/labels.ts'
 
 export { INSTRUMENT_COLORS, INSTRUMENT_SYMBOLS, EXCLUDED_COLOR, EXCLUDED_NAME, instrumentStyles, type InstrumentStyle }
 
 /**
- * The round offset subtracted from full Julian dates so axis labels stay short: whole multiples of
- * 50 000 d (2 450 000 for 1995–2132), the usual reduced-date convention (common practice).
+ * The round offset subtracted from full Julian dates so axis labels stay short: the one home of the
+ * reduced display epoch, shared/time `displayOffset` (whole multiples of 10 000 d), the same for
+ * every chart, table and export.
  */
-export function timeOffset(times: number[]): number {
-  if (times.length === 0) return 0
-  const min = Math.min(...times)
-  if (min < 100000) return 0
-  return Math.floor(min / 50000) * 50000
+export function timeOffset(times: ArrayLike<number>): number {
+  return displayOffset(times)
 }
 
 /** "2 450 000" with thin spaces between thousands. */

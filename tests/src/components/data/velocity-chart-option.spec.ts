@@ -10,9 +10,9 @@ const m = (id: number, instrument: string, time: number, excluded = false): Meas
 })
 
 describe('velocity chart option', () => {
-  it('reduces full Julian dates by a round 50 000 d and labels the axis with it', () => {
+  it('reduces full Julian dates by the shared display epoch (multiples of 10 000 d, shared/time displayOffset) and labels the axis with it', () => {
     expect(timeOffset([2452944.7, 2454500.1])).toBe(2450000)
-    expect(timeOffset([2460100.2])).toBe(2450000)
+    expect(timeOffset([2460100.2])).toBe(2460000)
     expect(timeOffset([150.5, 300])).toBe(0)
     expect(timeAxisLabel('BJD', 2450000)).toBe('BJD − 2\u2009450\u2009000 [d]')
     expect(timeAxisLabel('days', 0)).toBe('days [d]')
