@@ -91,15 +91,19 @@ export async function reportPdf(input: PdfInput): Promise<Buffer> {
   ]], [135, 95, 95, 85, 105])
   const g = solutionGrid(s)
   h2(g.sampled ? 'Solution (posterior medians, 16th–84th percentiles)' : 'Solution (maximum likelihood, ±1σ)')
-  if (g.columns.length) {
-    const valueW = Math.max(70, Math.min(150, (CONTENT_W - 250) / g.columns.length))
+  if (!g.columns.length) para('No planets in this model.', 9)
+  {
+    const valueW = Math.max(70, Math.min(150, (CONTENT_W - 250) / Math.max(1, g.columns.length)))
     for (const sec of g.sections) {
-      const cols = sec.rows[0]?.cells.length === g.columns.length ? g.columns : ['all planets']
-      table([sec.title, 'Unit', ...cols], sec.rows.map((r) => [r.label, r.unit, ...r.cells.map((c) => gridText(c, g.sampled && !sec.title.startsWith('Long-term'), r.shift))]),
+      if (!g.columns.length && !sec.title.startsWith('Noise')) continue
+      const star = sec.title.startsWith('Noise') // the GP's hyperparameters: the star's, from the fit
+      const cols = !star && sec.rows[0]?.cells.length === g.columns.length ? g.columns : [star ? 'value (fit)' : 'all planets']
+      table([sec.title, 'Unit', ...cols], sec.rows.map((r) => [r.label, r.unit, ...r.cells.map((c) => gridText(c, g.sampled && !star && !sec.title.startsWith('Long-term'), r.shift))]),
         [140, 110, ...cols.map(() => valueW)])
+      if (sec.note) para(sec.note, 8)
     }
-    para(`Derived quantities use M★ = ${plainValue(s.star.massMsun, s.star.massErrMsun)} M☉. Times are ${ts.label} (full Julian dates minus ${formatPlain(ts.offset, 10)}).${g.sections.length > 2 ? ` Drifts are per year about the reference epoch ${formatPlain(s.result.epoch, 10)}.` : ''}`, 8)
-  } else para('No planets in this model.', 9)
+    if (g.columns.length) para(`Derived quantities use M★ = ${plainValue(s.star.massMsun, s.star.massErrMsun)} M☉. Times are ${ts.label} (full Julian dates minus ${formatPlain(ts.offset, 10)}).${g.sections.some((x) => x.title.startsWith('Long-term')) ? ` Drifts are per year about the reference epoch ${formatPlain(s.result.epoch, 10)}.` : ''}`, 8)
+  }
   h2('Instruments')
   table(['Instrument', 'n', 'Zero point (m/s)', 'Jitter (m/s)', 'rms (m/s)'],
     instrumentRows(s).map((i) => [i.name, String(i.n),

@@ -159,6 +159,7 @@ export async function buildSnapshot(s: Services, actor: User, star: Star, model:
     periodogram: periodogram ? periodogram.settings : null, residualPeriodogram: !!resRun,
     planets: result.planets.length, trend: v.spec.trend ?? 'none', compared: !!comparison,
     derived: result.planets.some((p) => p.msiniMjup !== null), sampling: sampling ? sampling.settings : null,
+    noise: result.noise ?? null,
   })
   return {
     format: 'starsway-report/1', title, frozenAt: new Date().toISOString(), frozenBy: { id: actor.id, name: actor.name },

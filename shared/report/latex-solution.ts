@@ -27,6 +27,12 @@ function oneLine(text: string): string {
   return text.replace(/[\r\n]+/g, ' ')
 }
 
+/** Plain words with a few symbols (σ, Γ, ², ×, −) as LaTeX the kernel compiles without extra packages. */
+function texNote(text: string): string {
+  const map: Record<string, string> = { 'σ': '$\\sigma$', 'Γ': '$\\Gamma$', '²': '$^2$', '×': '$\\times$', '−': '$-$', '–': '--', 'τ': '$\\tau$', 'λ': '$\\lambda$' }
+  return escapeLatex(oneLine(text)).replace(/[σΓ²×−–τλ]/g, (c) => map[c]!)
+}
+
 /** The orbit table (`table` or `table*`) of a snapshot. */
 export function orbitTableTex(s: ReportSnapshot): string {
   const g = solutionGrid(s)
@@ -52,7 +58,8 @@ export function orbitTableTex(s: ReportSnapshot): string {
   }
   lines.push('\\hline', '\\end{tabular}')
   const notes: string[] = [`$^\\dagger$ ${g.timeUnitTex}`, `stellar mass $M_{\\ast} = ${formatPlain(s.star.massMsun)} \\pm ${formatPlain(s.star.massErrMsun)}\\,M_\\odot$ for the derived quantities`]
-  if (g.sections.length > 2) notes.push(`drift terms about the reference epoch ${formatPlain(s.result.epoch, 10)}`)
+  if (g.sections.some((x) => x.title.startsWith('Long-term'))) notes.push(`drift terms about the reference epoch ${formatPlain(s.result.epoch, 10)}`)
+  for (const sec of g.sections) if (sec.note) notes.push(texNote(sec.note.replace(/\.$/, '')))
   lines.push('\\par\\smallskip', `{\\footnotesize ${notes.join('; ')}.}`)
   lines.push(`\\end{${env}}`)
   return lines.join('\n')

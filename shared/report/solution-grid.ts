@@ -38,7 +38,12 @@ export interface GridRow {
   cells: Array<GridCell | null>
 }
 
-export interface GridSection { title: string; rows: GridRow[] }
+export interface GridSection {
+  title: string
+  rows: GridRow[]
+  /** A sentence printed under the section (the noise model's priors). */
+  note?: string
+}
 
 export interface SolutionGrid {
   /** Column headings: the planets' labels. */
@@ -136,5 +141,33 @@ export function solutionGrid(s: ReportSnapshot): SolutionGrid {
       }),
     })
   }
+  const noise = noiseSection(s)
+  if (noise) sections.push(noise)
   return { columns: planets, sections, timeUnit: time.label, timeUnitTex: time.tex, sampled: !!s.sampling }
+}
+
+const TEX_SYMBOL: Record<string, string> = { P_rot: '$P_\\mathrm{rot}$', 'τ_d': '$\\tau_\\mathrm{d}$', 'λ': '$\\lambda$', f: '$f$', 'Γ': '$\\Gamma$', h: '$h$' }
+const texUnitOf = (u: string): string => (u === 'm/s' ? 'm\\,s$^{-1}$' : u)
+const texEscape = (t: string): string => t.replace(/[\\{}$&#^_%~]/g, (c) => `\\${c}`)
+
+/**
+ * The GP noise model as one more section (one cell per row: the hyperparameters are the star's, not a
+ * planet's), values from the fit (maximum a posteriori with Laplace errors); its priors as the note.
+ */
+function noiseSection(s: ReportSnapshot): GridSection | null {
+  const n = s.result.noise
+  if (!n || n.kind !== 'gp') return null
+  return {
+    title: `Noise model (GP, ${n.kernel} kernel)`,
+    note: `GP priors: ${n.priors.join('; ')}.`,
+    rows: n.hyperparameters.map((h) => {
+      const texSym = TEX_SYMBOL[h.symbol] ?? `$h_\\mathrm{${texEscape(h.symbol.replace(/^h_/, ''))}}$`
+      const words = h.name.charAt(0).toUpperCase() + h.name.slice(1)
+      return {
+        id: `noise.${h.symbol}`, label: `${words} ${h.symbol}`, unit: h.unit, texLabel: `${texEscape(words)} ${texSym}`, texUnit: texUnitOf(h.unit),
+        shift: 0, scale: 1, isTime: false,
+        cells: [{ key: `noise.${h.symbol}`, value: h.value, error: h.fixed ? 0 : h.error, median: null, plus: null, minus: null }],
+      }
+    }),
+  }
 }

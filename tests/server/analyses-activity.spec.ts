@@ -2,10 +2,15 @@
 // ~23 d that the bisector span and S-index follow: fixtures/demo/README.md): a fit with a GP noise
 // model, pinned jitters, the search's activity candidates, the one-click overrule recorded as a model
 // version and an audit entry, and "planets + GP" beside "planets + white noise" in the comparison.
+import { execFileSync } from 'node:child_process'
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { startTestApp, type TestApp } from '../helpers/app.ts'
 import { signIn, type Client } from './client.ts'
 import type { CompareResponse, ModelDetail, SearchResponse } from '../../shared/api/analyses.ts'
+import type { ReportVersion } from '../../shared/api/reports.ts'
 
 // fixtures/demo/README.md: rotation 23 d, spot lifetime ≈ 45 d; Kestrel jitter 1.5, Osprey 1.8 m/s.
 const TARN_ROTATION = 23
@@ -14,6 +19,7 @@ let t: TestApp
 let a: Client
 let tarn: number
 let search: SearchResponse
+let gpModelId: number
 
 beforeAll(async () => {
   t = await startTestApp({ seed: true })
@@ -37,6 +43,7 @@ describe('noise models in the fit', () => {
   it('fits planets + GP (rotation kernel) and states the noise model: hyperparameters with errors and units, priors, ln L, BIC', async () => {
     const m = await fit('GP only', { planets: [], noise: { kind: 'gp', kernel: 'rotation', period: { value: 23.4, source: 'a test value' } } })
     const r = m.current.result!
+    gpModelId = m.id
     expect(m.current.status).toBe('fitted')
     expect(r.noise?.kind).toBe('gp')
     expect(r.noise?.solver).toMatch(/semiseparable/)
@@ -150,5 +157,43 @@ describe('the search weighs activity', () => {
     const reviewerless = await a.post(`/api/models/${white.id}/gp-variant`, { period: -1 })
     expect(reviewerless.status).toBe(400)
     expect(reviewerless.body.error.field).toBe('period')
+  }, 600_000)
+})
+
+describe('the report states the noise model', () => {
+  it('methods text, solution grid, LaTeX and PDF carry the kernel, hyperparameters with errors and the priors', async () => {
+    const frozen = await a.post(`/api/models/${gpModelId}/report`, {})
+    expect(frozen.status, JSON.stringify(frozen.body).slice(0, 400)).toBe(201)
+    const v: ReportVersion = (await a.get(`/api/reports/${frozen.body.id}/versions/1`).expect(200)).body
+    const m = v.snapshot.methods
+    expect(m.text).toMatch(/Gaussian process/)
+    expect(m.text).toMatch(/rotation kernel .* O\(N\) semiseparable solver \(Foreman-Mackey et al\. 2017\)/)
+    expect(m.text).toMatch(/rotation period P_rot = 2\d\.\d+ ± \d/)
+    expect(m.text).toMatch(/with priors: rotation period ~ N\(23\.4/)
+    expect(m.references.map((r) => r.key)).toEqual(expect.arrayContaining(['FM17', 'RW06', 'Ford06']))
+    const { solutionGrid } = await import('../../shared/report/solution-grid.ts')
+    const g = solutionGrid(v.snapshot)
+    const sec = g.sections.find((x) => x.title.startsWith('Noise model'))!
+    expect(sec.title).toBe('Noise model (GP, rotation kernel)')
+    expect(sec.rows.map((r) => r.id)).toEqual(['noise.P_rot', 'noise.τ_d', 'noise.f', 'noise.h'])
+    expect(sec.rows[0]!.cells[0]!.error).toBeGreaterThan(0)
+    expect(sec.note).toMatch(/^GP priors: rotation period ~ N/)
+    const tex = (await a.get(`/api/reports/${frozen.body.id}/versions/1/latex`).expect(200)).text
+    expect(tex).toContain('\\emph{Noise model}')
+    expect(tex).toMatch(/Rotation period \$P_\\mathrm\{rot\}\$ & d & \\multicolumn\{1\}\{c\}\{\$2\d\.\d+ \\pm/)
+    expect(tex).toMatch(/GP priors: rotation period \\textasciitilde\{\} N\(23\.4\d*, [\d.]+\$\^2\$\) d/)
+    const pdf = await a.get(`/api/reports/${frozen.body.id}/versions/1/pdf`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = []
+      res.on('data', (c: Buffer) => chunks.push(c)); res.on('end', () => cb(null, Buffer.concat(chunks)))
+    })
+    expect(pdf.status).toBe(200)
+    const pdflatex = ['/usr/bin/pdflatex', '/usr/local/bin/pdflatex'].find((p) => existsSync(p))
+    if (!pdflatex) { console.log('pdflatex is not installed here: the LaTeX table was checked as text only, not compiled.'); return }
+    const dir = mkdtempSync(join(tmpdir(), 'starsway-gp-tex-'))
+    try {
+      writeFileSync(join(dir, 'paper.tex'), `\\documentclass{article}\n\\begin{document}\n${tex}\n\\end{document}\n`)
+      execFileSync(pdflatex, ['-interaction=nonstopmode', '-halt-on-error', 'paper.tex'], { cwd: dir, stdio: 'pipe', timeout: 60_000 })
+      expect(existsSync(join(dir, 'paper.pdf'))).toBe(true)
+    } finally { rmSync(dir, { recursive: true, force: true }) }
   }, 600_000)
 })
