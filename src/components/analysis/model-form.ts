@@ -1,7 +1,7 @@
 // The parameter form of a fit model as plain data, its validation and its translation to and from
 // the API's model spec. The components only render this; tests check it through them.
 import type {
-  FittedPlanet, ModelSpec, ModelSpecInput, PlanetParamName, PlanetSpec, PriorSpec, Trend,
+  FittedPlanet, InstrumentTermSpec, ModelSpec, ModelSpecInput, PlanetParamName, PlanetSpec, PriorSpec, Trend,
 } from '@shared/api/analyses.ts'
 import { toNumber } from '@/components/app/rules.ts'
 import { noiseToSpec, specToNoiseForm, type NoiseForm } from './noise-form.ts'
@@ -37,6 +37,8 @@ export interface ModelForm {
   planets: PlanetForm[]
   /** Noise model (absent: white noise); NoiseModelSection.vue edits it. */
   noise?: NoiseForm
+  /** Pinned instrument jitters (absent: all fitted); InstrumentTermsSection.vue edits them. */
+  instrumentTerms?: InstrumentTermSpec[]
 }
 
 /** Highest eccentricity the fitter accepts (the API's limit). */
@@ -179,7 +181,8 @@ export function formToSpec(form: ModelForm, allInstruments: string[]): ModelSpec
   })
   const every = allInstruments.length > 0 && allInstruments.every((name) => form.instruments.includes(name))
   const noise = form.noise?.kind === 'gp' ? { noise: noiseToSpec(form.noise).spec } : {}
-  return { planets, trend: form.trend, instruments: every ? null : [...form.instruments].sort(), ...noise }
+  const terms = form.instrumentTerms?.filter((t) => form.instruments.includes(t.instrument))
+  return { planets, trend: form.trend, instruments: every ? null : [...form.instruments].sort(), ...noise, ...(terms?.length ? { instrumentTerms: terms } : {}) }
 }
 
 /** The form for a stored spec (e.g. to edit a saved model). */
@@ -189,6 +192,7 @@ export function specToForm(name: string, spec: ModelSpec | ModelSpecInput, allIn
     trend: spec.trend ?? 'none',
     instruments: spec.instruments ? [...spec.instruments] : [...allInstruments],
     noise: specToNoiseForm(spec.noise),
+    ...(spec.instrumentTerms?.length ? { instrumentTerms: spec.instrumentTerms.map((t) => ({ ...t })) } : {}),
     planets: spec.planets.map((p) => {
       const form = planetForm(p.period, p.K ?? null, p.e ?? null)
       if (p.omegaDeg !== undefined) form.params.omegaDeg.value = String(p.omegaDeg)

@@ -6,6 +6,7 @@ import type { VueWrapper } from '@vue/test-utils'
 import InstrumentTermsSection from '@/components/analysis/InstrumentTermsSection.vue'
 import { rowsToTerms, termsToRows } from '@/components/analysis/instrument-terms.ts'
 import { modelSpecSchema } from '@shared/api/analyses.ts'
+import { formToSpec, specToForm } from '@/components/analysis/model-form.ts'
 import { mountWithApp, settle } from '../../mount.ts'
 
 let wrapper: VueWrapper | undefined
@@ -37,5 +38,11 @@ describe('instrument terms', () => {
     await wrapper.find('[data-test="jitter-Osprey"] input').setValue('-4')
     await settle()
     expect(wrapper.find('[data-test="jitter-Osprey"]').text()).toContain('Jitter must not be negative')
+  })
+  it('goes into the model spec from the form and back (instruments not fitted are left out)', () => {
+    const form = specToForm('m', { planets: [], instrumentTerms: [{ instrument: 'Osprey', jitter: 2 }] }, ['Kestrel', 'Osprey'])
+    expect(form.instrumentTerms).toEqual([{ instrument: 'Osprey', jitter: 2 }])
+    expect(formToSpec(form, ['Kestrel', 'Osprey']).instrumentTerms).toEqual([{ instrument: 'Osprey', jitter: 2 }])
+    expect(formToSpec({ ...form, instruments: ['Kestrel'] }, ['Kestrel', 'Osprey']).instrumentTerms).toBeUndefined()
   })
 })
