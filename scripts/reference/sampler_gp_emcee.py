@@ -14,7 +14,8 @@ e < 0.99, flat in w, Tc, offset, flat in s (+ ln s); h log-uniform on [0.01, 100
 f uniform on [0, 1]. Kepler's equation by vectorised Newton (fit_kepler_model.py).
 
   /usr/bin/python3 scripts/reference/sampler_gp_emcee.py IN.json OUT.json
-      IN: {t, y, dy, start, scale, walkers, maxSteps, checkEvery, groups, seed, prot: {mu, sigma}, period: {min, max}}
+      IN: {t, y, dy, start, scale, walkers, maxSteps, checkEvery, groups, seed, prot: {mu, sigma}, period: {min, max},
+           fixed: {decayTime, shape} (optional: held at these values, their coordinates left out)}
       runs emcee until every coordinate has N > 50 tau (get_autocorr_time, a quarter discarded) and
       rank-normalised split-R-hat < 1.01; writes medians, 16/84 % of the physical parameters, the
       Monte-Carlo error of each median (sd / sqrt(N / tau)), steps, wall and CPU ms, versions.
@@ -37,14 +38,20 @@ E_MAX = 0.99
 LN2PI = np.log(2 * np.pi)
 
 
-def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax):
+def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax, fixed=None):
     n = len(t)
     dy2 = dy * dy
     T = t.max() - t.min()
     tau = np.abs(t[:, None] - t[None, :])
 
+    fixed = fixed or {}
+
     def log_prob(x):
-        lnP, lnK, hh, kk, tc, off, lns, lnh, lnL, prot, f = x
+        if fixed:
+            lnP, lnK, hh, kk, tc, off, lns, lnh, prot = x
+            lnL, f = np.log(fixed['decayTime']), fixed['shape']
+        else:
+            lnP, lnK, hh, kk, tc, off, lns, lnh, lnL, prot, f = x
         e = hh * hh + kk * kk
         if not e < E_MAX or abs(lnP) > 700 or abs(lnK) > 700 or abs(lns) > 350:
             return -np.inf
@@ -57,7 +64,7 @@ def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax):
         hi = 10 * max(T, prot)
         if not (prot / 2 < L < hi):
             return -np.inf
-        lp = lnP + lnK + lns - 0.5 * ((prot - prot_mu) / prot_sigma) ** 2 - np.log(np.log(hi / (prot / 2)))
+        lp = lnP + lnK + lns - 0.5 * ((prot - prot_mu) / prot_sigma) ** 2 - (0 if fixed else np.log(np.log(hi / (prot / 2))))
         w = np.arctan2(kk, hh) if e > 0 else 0.0
         tp = tc_to_tp(tc, P, e, w)
         E = ecc_anomaly(2 * np.pi * (t - tp) / P, e)
@@ -81,20 +88,28 @@ def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax):
     return log_prob
 
 
-def physical(chain, t):
-    lnP, lnK, hh, kk, tc, off, lns, lnh, lnL, prot, f = chain.T
+def physical(chain, fixed):
+    if fixed:
+        lnP, lnK, hh, kk, tc, off, lns, lnh, prot = chain.T
+    else:
+        lnP, lnK, hh, kk, tc, off, lns, lnh, lnL, prot, f = chain.T
     e = hh * hh + kk * kk
-    return {
+    out = {
         'P b': np.exp(lnP), 'K b': np.exp(lnK), 'e b': e, 'Tc b': tc, 'offset North': off, 'jitter North': np.exp(lns),
-        'GP amplitude': np.exp(lnh), 'GP decay time': np.exp(lnL), 'rotation period': prot, 'GP shape': f,
+        'GP amplitude': np.exp(lnh), 'rotation period': prot,
     }
+    if not fixed:
+        out['GP decay time'] = np.exp(lnL)
+        out['GP shape'] = f
+    return out
 
 
 def main(inp, out):
     with open(inp) as fh:
         d = json.load(fh)
     t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
-    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'])
+    fixed = d.get('fixed')
+    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed)
     seed = int(d.get('seed', 1))
     rng = np.random.default_rng(seed)
     start = np.asarray(d['start'], dtype=float)
@@ -131,12 +146,12 @@ def main(inp, out):
     flat = sampler.get_chain(discard=burn, flat=True)
     n_eff = (n - burn) * walkers / float(np.max(tau))
     summary = {}
-    for name, v in physical(flat, t).items():
+    for name, v in physical(flat, fixed).items():
         q16, q50, q84 = np.percentile(v, [16, 50, 84])
         summary[name] = {'median': q50, 'lo': q16, 'hi': q84, 'mcError': float(np.std(v) / np.sqrt(n_eff))}
     res = {
         'source': 'emcee EnsembleSampler (stretch move) with a dense numpy/scipy GP likelihood (scipy.linalg.cho_factor)',
-        'converged': converged, 'steps': int(n), 'walkers': walkers, 'tauMax': float(np.max(tau)), 'rhatMax': float(np.max(rh)),
+        'fixed': fixed, 'converged': converged, 'steps': int(n), 'walkers': walkers, 'tauMax': float(np.max(tau)), 'rhatMax': float(np.max(rh)),
         'acceptance': float(np.mean(sampler.acceptance_fraction)), 'ms': ms, 'cpuMs': cpu_ms,
         'versions': {'python': sys.version.split()[0], 'numpy': np.__version__, 'scipy': scipy.__version__, 'emcee': emcee.__version__},
         'parameters': summary,
