@@ -42,7 +42,7 @@ describe('instrument terms', () => {
   it('goes into the model spec from the form and back (instruments not fitted are left out)', () => {
     const form = specToForm('m', { planets: [], instrumentTerms: [{ instrument: 'Osprey', jitter: 2 }] }, ['Kestrel', 'Osprey'])
     expect(form.instrumentTerms).toEqual([{ instrument: 'Osprey', jitter: 2 }])
-    expect(formToSpec(form, ['Kestrel', 'Osprey']).instrumentTerms).toEqual([{ instrument: 'Osprey', jitter: 2 }])
-    expect(formToSpec({ ...form, instruments: ['Kestrel'] }, ['Kestrel', 'Osprey']).instrumentTerms).toBeUndefined()
+    expect(formToSpec(form, ['Kestrel', 'Osprey'])?.instrumentTerms).toEqual([{ instrument: 'Osprey', jitter: 2 }])
+    expect(formToSpec({ ...form, instruments: ['Kestrel'] }, ['Kestrel', 'Osprey'])?.instrumentTerms).toBeUndefined()
   })
 })
