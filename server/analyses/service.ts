@@ -386,9 +386,12 @@ export async function search(s: Services, actor: User, star: Star, req: SearchRe
     }
     throw err
   })
-  const result = { ...fitJson(out.fit, data, ids, star, sel), search: out.report, noise: whiteNoise(data, out.fit, data.instrumentNames.map(() => null)) }
+  const result = { ...fitJson(out.fit, data, ids, star, sel), search: out.report, noise: out.fitNoise ?? whiteNoise(data, out.fit, data.instrumentNames.map(() => null)) }
+  const rows = out.activityRows
+  if (rows) result.residuals = result.residuals.map((r, i) => ({ ...r, activity: rows[i]! }))
   const name = `Search: ${out.planets} planet${out.planets === 1 ? '' : 's'}`
-  const model = await createModel(s, actor, star, { name, spec: specFromFit(out.fit, out.trend, req.instruments ?? null) }, {
+  const spec = { ...specFromFit(out.fit, out.trend, req.instruments ?? null), ...(out.noise ? { noise: out.noise } : {}) }
+  const model = await createModel(s, actor, star, { name: out.noise ? `${name} + GP` : name, spec }, {
     status: out.fit.status === 'failed' ? 'failed' : 'fitted', result, note: 'search', action: 'model.search',
     detail: {
       planets: out.planets, trend: out.trend, steps: out.steps.length, dataHash: sel.hash,

@@ -1,18 +1,23 @@
-// The search when the star has activity indicators: the core's planet search with its indicators
-// (every kept signal vetted, `activity-vetting.ts`); in automatic mode the signals labelled activity
-// candidates are left out of the model, which is refitted with the planets alone, and reported with
-// their evidence. Also the rotation period a GP starts from: the strongest significant indicator peak.
+// The search when the star has activity indicators: the core's `searchWithActivity` (as the CLI runs
+// it): the white-noise search vets every signal against the indicators (activity candidates are not
+// counted as planets and are reported with their evidence and their orbit, for an overrule), then
+// planets are searched on top of a GP tied to the rotation period; the noise model with the lower BIC
+// makes the model. Also the rotation period a GP starts from: the strongest significant indicator peak.
 import {
-  fitSpec, indicatorDiagnostics, searchPlanets, searchSummary, VETTING_DEFAULTS,
+  indicatorDiagnostics, meanEpoch, searchSummary, searchWithActivity, VETTING_DEFAULTS,
   type Correlation, type IndicatorColumn, type RvData, type SearchOptions, type SearchStep, type TrendKind,
 } from '../../shared/rv/index.ts'
-import type { ActivityReport } from '../../shared/api/analyses.ts'
-import type { PlainFit } from './fit-noise.ts'
+import type { ActivityReport, FitNoise, GpNoiseSpec } from '../../shared/api/analyses.ts'
+import { gpAsPlainFit, gpNoise, type PlainFit } from './fit-noise.ts'
 
 export interface ActivitySearchInput { data: RvData; options: SearchOptions; indicators: IndicatorColumn[] }
 export interface ActivitySearchOutput {
   fit: PlainFit; planets: number; trend: TrendKind; steps: SearchStep[]
   report: ReturnType<typeof searchSummary> & { activity?: ActivityReport }
+  /** When planets + GP is preferred: the spec's noise model, the result's noise section and the activity per row. */
+  noise?: GpNoiseSpec
+  fitNoise?: FitNoise
+  activityRows?: Float64Array
 }
 
 const num = (v: number | undefined | null): number | null => (v !== undefined && v !== null && Number.isFinite(v) ? v : null)
@@ -20,14 +25,18 @@ const corr = (c: Correlation | null) => ({ pearson: num(c?.pearson), pearsonP: n
 
 export function activitySearchTask(inp: ActivitySearchInput): ActivitySearchOutput {
   const { data, options } = inp
-  const r = searchPlanets(data, { ...options, indicators: inp.indicators.length ? inp.indicators : undefined })
-  const summary = searchSummary(r)
-  const { history: _h, ...full } = r.fit
-  if (!r.activity) return { fit: full, planets: r.planets, trend: r.trend, steps: r.steps, report: summary }
-  const v = r.activity
-  const auto = (options.planets ?? 'auto') === 'auto'
-  const labelled = auto ? new Set(v.activity) : new Set<number>()
-  const candidates: ActivityReport['candidates'] = v.candidates.map((c, j) => {
+  // One science path: the CLI's search for a table with indicator columns (`searchWithActivity`):
+  // the white-noise search with its vetting first, then planets on top of a GP tied to the rotation period.
+  const r = searchWithActivity(data, {
+    indicators: inp.indicators, search: { trend: options.trend, falseAlarm: options.falseAlarm, bicThreshold: options.bicThreshold, maxPlanets: options.maxPlanets },
+    minPeriod: options.minPeriod, maxPeriod: options.maxPeriod, ...(options.maxPlanets !== undefined ? { maxPlanets: options.maxPlanets } : {}),
+  })
+  const w = r.whiteSearch
+  const summary = searchSummary(w)
+  const { history: _h, ...full } = w.fit
+  const span = full.planets.length ? Math.max(...data.t) - Math.min(...data.t) : 1
+  const v = w.activity
+  const candidates: ActivityReport['candidates'] = (v?.candidates ?? []).map((c, j) => {
     const p = full.planets[j]!
     return {
       signal: j, period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, activity: c.activity,
@@ -37,23 +46,38 @@ export function activitySearchTask(inp: ActivitySearchInput): ActivitySearchOutp
       cautions: c.cautions, overruled: null,
     }
   })
+  const extra = r.activity.filter((a) => a.source !== 'velocities').flatMap((a) => a.evidence)
   const activity: ActivityReport = {
     candidates,
-    indicators: v.indicators.map((d) => ({ name: d.name, n: d.n, peaks: d.peaks.slice(0, 3).map((q) => ({ period: q.period, fap: q.fap })), ...corr(d.rv) })),
-    cautions: v.cautions,
-    settings: { peakFap: v.settings.peakFap, correlationP: v.settings.correlationP, minAbsR: v.settings.minAbsR },
+    indicators: (v?.indicators ?? []).map((d) => ({ name: d.name, n: d.n, peaks: d.peaks.slice(0, 3).map((q) => ({ period: q.period, fap: q.fap })), ...corr(d.rv) })),
+    cautions: [...new Set([...r.cautions, ...extra])],
+    settings: { peakFap: v?.settings.peakFap ?? VETTING_DEFAULTS.peakFap, correlationP: v?.settings.correlationP ?? VETTING_DEFAULTS.correlationP, minAbsR: v?.settings.minAbsR ?? VETTING_DEFAULTS.minAbsR },
   }
-  if (!labelled.size) return { fit: full, planets: r.planets, trend: r.trend, steps: r.steps, report: { ...summary, activity } }
-  // The model keeps the planets only: refit them from the search's values (the activity signals go to the residuals).
-  const keep = full.planets.map((_, j) => j).filter((j) => !labelled.has(j))
-  const specs = keep.map((j) => { const p = full.planets[j]!; return { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc } })
-  const { history: _h2, ...fit } = fitSpec(data, specs, { trend: r.trend }).fit
-  const signals = summary.signals.filter((sg) => !labelled.has(sg.planet)).map((sg) => ({ ...sg, planet: keep.indexOf(sg.planet) }))
-  const flags = [...summary.flags, ...candidates.filter((c) => labelled.has(c.signal)).map((c) => ({
+  // the kept planets: signals of the white search whose period is one of the final planets'
+  const finalPeriods = r.planets.map((p) => p.period)
+  const near = (a: number, b: number) => Math.abs(1 / a - 1 / b) <= 1 / Math.max(span, 1)
+  const signals = summary.signals.flatMap((sg) => { const k = finalPeriods.findIndex((p) => near(p, sg.period)); return k < 0 ? [] : [{ ...sg, planet: k }] })
+  const labelled = candidates.filter((c) => c.activity)
+  const flags = [...summary.flags, ...labelled.map((c) => ({
     kind: 'activity', severity: 'rejection' as const, period: c.period, instrument: null,
-    message: `The ${c.period.toPrecision(4)}-d signal is an activity candidate and is not counted as a planet: ${c.cautions[0] ?? 'it follows an activity indicator.'} Overrule it to count it as a planet, or model the activity with a GP.`,
+    message: `The ${c.period.toPrecision(4)}-d signal is an activity candidate and is not counted as a planet: ${c.cautions[0] ?? 'it follows an activity indicator.'} Overrule it to count it as a planet.`,
   }))]
-  return { fit, planets: keep.length, trend: r.trend, steps: r.steps, report: { ...summary, signals, flags, activity } }
+  const noiseWords = r.preferred === 'gp'
+    ? `Planets + GP preferred: BIC ${r.bic.gp?.toFixed(1)} against ${r.bic.white.toFixed(1)} with white noise and the same planets.`
+    : r.bic.gp !== null ? `White noise kept: BIC ${r.bic.white.toFixed(1)} against ${r.bic.gp.toFixed(1)} with a GP.` : null
+  if (noiseWords) activity.cautions.push(noiseWords)
+  const report = { ...summary, signals, flags, activity }
+  const epoch = meanEpoch(data.t)
+  if (r.preferred === 'gp' && r.gpFit && r.rotation) {
+    const g = r.gpFit
+    const noise = { kind: 'gp' as const, kernel: g.noise.kernel.kind, period: { value: r.rotation.period, sigma: r.rotation.sigma, source: r.rotation.source } }
+    return {
+      fit: gpAsPlainFit(data, g, g.trend.epoch ?? epoch), planets: r.planets.length, trend: g.trend.kind, steps: w.steps, report,
+      noise, fitNoise: gpNoise(data, noise, g, data.instrumentNames.map(() => null)), activityRows: g.activity,
+    }
+  }
+  const { history: _h2, ...white } = r.whiteFit ?? w.fit
+  return { fit: white, planets: r.planets.length, trend: w.trend, steps: w.steps, report }
 }
 
 export interface IndicatorPeakInput { data: RvData; indicators: IndicatorColumn[] }

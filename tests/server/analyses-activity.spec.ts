@@ -103,6 +103,11 @@ describe('the search weighs activity', () => {
     expect(search.model.current.spec.planets.length).toBe(search.model.planets)
     expect(search.model.current.spec.planets.every((p) => labelled.every((c) => Math.abs(p.period - c.period) > 1e-6))).toBe(true)
     expect(search.report.flags.some((f) => f.kind === 'activity' && f.severity === 'rejection')).toBe(true)
+    // the same search as the CLI's for a table with indicators: planets + GP is kept when its BIC is lower
+    expect(search.model.current.spec.noise?.kind).toBe('gp')
+    expect(search.model.current.result!.noise?.kind).toBe('gp')
+    expect(search.report.activity!.cautions.join(' ')).toMatch(/Planets \+ GP preferred: BIC/)
+    expect(search.model.name).toMatch(/\+ GP$/)
   })
 
   it('overrules a label with one click: a new fitted version whose note says who, which period, why; audited', async () => {
