@@ -65,4 +65,21 @@ describe('a spotted star with a GP noise model in the browser', () => {
     await page.waitForTimeout(500)
     await plots.locator('[data-test="time-chart"]').screenshot({ path: join(shots, 'activity-gp-curve.png') })
   }), 600000)
+
+  it('search → activity candidate with its evidence → one-click overrule recorded in the model history', () => browser.scenario('activity-overrule', async () => {
+    await page.locator('[data-test="run-search"]').click()
+    const report = page.locator('[data-test="activity-candidates"]')
+    await report.waitFor({ timeout: 300000 }) // the search with a GP, on a possibly busy machine
+    const labelled = report.locator('tr[data-activity="true"]').first()
+    await labelled.waitFor()
+    expect(await labelled.innerText()).toMatch(/not a planet/)
+    await report.screenshot({ path: join(shots, 'activity-candidates.png') })
+    const signal = (await labelled.getAttribute('data-test'))!.replace('activity-candidate-', '')
+    await labelled.locator(`[data-test="overrule-${signal}"]`).click()
+    await labelled.locator('[data-test="overrule-reason"] input').fill('seen in transit photometry')
+    await labelled.locator('[data-test="overrule-confirm"]').click()
+    await page.locator(`[data-test="activity-candidate-${signal}"] [data-test="overruled"]`).waitFor({ timeout: 300000 })
+    const meta = await page.locator('[data-test="fit-results"] .meta').first().innerText()
+    expect(meta).toMatch(/overruled the .*-d activity label .*Reason: seen in transit photometry/)
+  }), 900000)
 })
