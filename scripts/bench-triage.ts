@@ -89,4 +89,6 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     if (process.argv.includes('--json')) { process.stdout.write(JSON.stringify({ rows }) + '\n'); return }
     for (const r of rows) console.log(`${r.name}\n  ours ${(r.oursMs / 1000).toFixed(1)} s, budget ${(r.referenceMs! / 1000).toFixed(0)} s\n  ${r.note}`)
   }).catch((e) => { console.error(e); process.exitCode = 1 })
+    // one standalone run stayed alive after printing (a handle left by the stopped workers): end it here
+    .finally(() => setTimeout(() => process.exit(process.exitCode ?? 0), 1000).unref())
 }
