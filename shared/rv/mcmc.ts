@@ -276,7 +276,7 @@ export function samplePosterior(data: RvData, model: FitResult | FitOptions, opt
   for (let i = 0; i < data.dy.length; i++) meanErr += data.dy[i]
   meanErr /= Math.max(data.dy.length, 1)
   spec.jitters = spec.jitters?.map((s) => Math.max(s, 0.1 * meanErr))
-  const gpFit = options.noise ? gpCentre(data, fit, spec, options.noise, fixed) : null
+  const gpFit = options.noise ? gpCentre(data, fit, spec, options.noise, fixed, 0.1 * meanErr) : null
   const post = createLogPosterior(data, spec)
   const nDim = post.nDim
   const walkers = intOpt('walkers', options.walkers, Math.max(32, 2 * nDim), 2)
@@ -527,7 +527,7 @@ export function physicalColumns(
  * The planets + GP MAP from the white-noise fit, written into `spec` as the sampler's centre (free
  * planet parameters, offsets, jitters, trend, the hyperparameters' values; fixed ones stay).
  */
-function gpCentre(data: RvData, fit: FitResult, spec: ReturnType<typeof specFromFit>, noise: GpHyperSpec, fixed: PlanetParam[][]): GpFitResult {
+function gpCentre(data: RvData, fit: FitResult, spec: ReturnType<typeof specFromFit>, noise: GpHyperSpec, fixed: PlanetParam[][], jitterFloor: number): GpFitResult {
   const jitter = Array.isArray(spec.jitter) ? spec.jitter : 'fit'
   const g = fitWithGp(data, {
     planets: fit.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })),
@@ -544,7 +544,8 @@ function gpCentre(data: RvData, fit: FitResult, spec: ReturnType<typeof specFrom
     }
   })
   spec.offsets = g.instruments.map((s) => s.offset)
-  if (jitter === 'fit') spec.jitters = g.noise.jitter.map((s, k) => Math.max(s, spec.jitters?.[k] ?? 0.01, 0.01))
+  // the white fit's jitters took up the activity: the GP fit's, floored as for white noise, are the centre
+  if (jitter === 'fit') spec.jitters = g.noise.jitter.map((s) => Math.max(s, jitterFloor, 0.01))
   spec.slope = g.trend.slope
   spec.curvature = g.trend.curvature
   const k = g.noise.kernel
