@@ -4,6 +4,8 @@ import * as api from '@/api/sampling.ts'
 import { SAMPLING_DONE_STATES } from '@shared/api/sampling.ts'
 import type { SamplingEstimate, SamplingEvent, SamplingRun, SamplingRunSummary, StartSamplingRequest } from '@shared/api/sampling.ts'
 import { asyncState, track } from './async-state.ts'
+import { fetchModelVersion } from '@/api/analyses.ts'
+import type { ModelVersion } from '@shared/api/analyses.ts'
 
 const POLL_MS = 1500
 /** After cancelling a running run: how often to look for its partial result (20 tries). */
@@ -148,5 +150,11 @@ export const useSamplingStore = defineStore('sampling', () => {
   /** Address of a run's chain as CSV. */
   const chainCsvUrl = (runId: number) => api.samplingChainCsvUrl(runId)
 
-  return { runs, run, starting, cancelling, estimate, following, load, loadRuns, open, start, cancel, stopFollowing, loadEstimate, chainCsvUrl }
+  /** The fitted model version a run sampled (its points and offsets for the band plot). */
+  const runVersion = asyncState<ModelVersion>()
+  async function loadRunVersion(modelId: number, version: number): Promise<ModelVersion | null> {
+    return track(runVersion, () => fetchModelVersion(modelId, version))
+  }
+
+  return { runs, run, starting, cancelling, estimate, following, runVersion, load, loadRuns, open, start, cancel, stopFollowing, loadEstimate, loadRunVersion, chainCsvUrl }
 })
