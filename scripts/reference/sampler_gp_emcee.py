@@ -8,7 +8,8 @@ Model: v = K[cos(nu + w) + e cos w] + offset; residuals r ~ N(0, C) with
 (two damped oscillators at Prot and Prot/2, Foreman-Mackey et al. 2017, AJ 154, 220, §4), built element by
 element and factored by scipy.linalg.cho_factor: ln L = -1/2 (r^T C^-1 r + ln det C + n ln 2 pi).
 Coordinates (ln P, ln K, sqrt(e) cos w, sqrt(e) sin w, Tc, offset, ln s, ln h, ln L, Prot, f); priors:
-flat in P (Jacobian + ln P) on (0, 5 T] and within the stated uniform range [pmin, pmax], flat in K (+ ln K),
+flat in P (Jacobian + ln P) on (0, 5 T] and within the stated uniform range [pmin, pmax], Tc within P/2 of the
+start's Tc (one revolution), flat in K (+ ln K),
 e < 0.99, flat in w, Tc, offset, flat in s (+ ln s); h log-uniform on [0.01, 1000]; L log-uniform on
 (Prot/2, 10 max(T, Prot)) with its normalisation -ln ln(20 max(T, Prot)/Prot); Prot ~ N(mu, sigma);
 f uniform on [0, 1]. Kepler's equation by vectorised Newton (fit_kepler_model.py).
@@ -38,7 +39,7 @@ E_MAX = 0.99
 LN2PI = np.log(2 * np.pi)
 
 
-def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax, fixed=None):
+def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax, fixed=None, tc0=0.0):
     n = len(t)
     dy2 = dy * dy
     T = t.max() - t.min()
@@ -56,7 +57,7 @@ def make_log_prob(t, y, dy, prot_mu, prot_sigma, pmin, pmax, fixed=None):
         if not e < E_MAX or abs(lnP) > 700 or abs(lnK) > 700 or abs(lns) > 350:
             return -np.inf
         P, K = np.exp(lnP), np.exp(lnK)
-        if not (pmin <= P <= pmax and P <= 5 * T):
+        if not (pmin <= P <= pmax and P <= 5 * T) or abs(tc - tc0) > P / 2:
             return -np.inf
         if not (np.log(0.01) <= lnh <= np.log(1000)) or not (0 <= f <= 1) or not prot > 0 or lnL > 700:
             return -np.inf
@@ -109,7 +110,7 @@ def main(inp, out):
         d = json.load(fh)
     t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
     fixed = d.get('fixed')
-    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed)
+    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed, float(d['start'][4]))
     seed = int(d.get('seed', 1))
     rng = np.random.default_rng(seed)
     start = np.asarray(d['start'], dtype=float)

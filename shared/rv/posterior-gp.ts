@@ -15,8 +15,10 @@
  *
  * With a GP a planet's long-period, flat-in-P tail is no longer held off by the data (the GP and the
  * offsets take up what a slow orbit would explain, and a flat prior in P grows its volume without
- * bound): `posterior.ts` then bounds every free period to at most 5 × the baseline (the search's
- * longest period; stated among the priors). Narrower stated priors remain the user's to give.
+ * bound, and once K is small Tc roams over every revolution): `posterior.ts` then bounds every free
+ * period to at most 5 × the baseline (the search's longest period) and each Tc to one revolution
+ * around its centre (|Tc − Tc₀| ≤ P/2; the phase is periodic, so this loses nothing), both stated
+ * among the priors. Narrower stated priors remain the user's to give.
  *
  * Likelihood: rotation kernel by the O(N) semiseparable pass (gp/semiseparable.ts), quasi-periodic by
  * dense Cholesky (gp/dense.ts); rows sorted by time once here. A covariance that is not positive
@@ -165,7 +167,7 @@ export function gpTerm(data: RvData, g: GpHyperSpec, push: (name: string, unit: 
       ? (g.shape?.fixed ? `GP shape factor fixed at ${shape0}` : 'GP shape factor (P/2 harmonic share) uniform on [0, 1]')
       : (g.shape?.fixed ? `GP Γ fixed at ${shape0}` : `GP Γ log-uniform on [${GAMMA_MIN}, ${GAMMA_MAX}]`),
     g.amplitude?.fixed ? `GP amplitude fixed at ${coords.fixed.amplitude.join(', ')} m/s` : `GP amplitude${nAmp > 1 ? ' per instrument' : ''} log-uniform on [${AMP_MIN}, ${AMP_MAX}] m/s`,
-    `planet periods at most ${maxPlanetPeriod.toFixed(0)} d (5 × the baseline)`,
+    `planet periods at most ${maxPlanetPeriod.toFixed(0)} d (5 × the baseline); each Tc within half a period of its centre`,
   ]
   return { coords, prior, logLikelihood, priors, maxPlanetPeriod }
 }

@@ -292,7 +292,11 @@ export function createLogPosterior(data: RvData, spec: PosteriorSpec): LogPoster
         if (!(w >= omegaLo[k] && w < omegaLo[k] + TWO_PI)) return -Infinity
       }
       let tc: number
-      if (c.tc >= 0) { tc = x[c.tc]; if (!Number.isFinite(tc)) return -Infinity }
+      if (c.tc >= 0) {
+        tc = x[c.tc]
+        if (!Number.isFinite(tc)) return -Infinity
+        if (gp && !(Math.abs(tc - centre[c.tc]) <= 0.5 * P)) return -Infinity
+      }
       else tc = c.fixed.tp === null ? c.fixed.tc : tpToTc(c.fixed.tp, P, e, w)
       const orb = orbits[k]
       orb.period = P; orb.K = K; orb.e = e; orb.omega = w
