@@ -13,6 +13,13 @@ export function schemaRule(schema: ZodTypeAny, label: string): Rule {
   }
 }
 
+export const massRule = schemaRule(starObjectSchema.shape.massMsun, 'Mass')
+export const massErrRule = schemaRule(starObjectSchema.shape.massErrMsun, 'Mass uncertainty')
+export const radiusRule = schemaRule(starObjectSchema.shape.radiusRsun, 'Radius')
+export const teffRule = schemaRule(starObjectSchema.shape.teffK, 'Teff')
+export const luminosityRule = schemaRule(starObjectSchema.shape.luminosityLsun, 'Luminosity')
+export const raRule = schemaRule(starObjectSchema.shape.raDeg, 'RA')
+export const decRule = schemaRule(starObjectSchema.shape.decDeg, 'Dec')
 export const pmRaRule = schemaRule(starObjectSchema.shape.pmRaMasYr, 'μα*')
 export const pmDecRule = schemaRule(starObjectSchema.shape.pmDecMasYr, 'μδ')
 export const siteLonRule = schemaRule(siteSchema.shape.lonDeg, 'Longitude')

@@ -18,8 +18,9 @@ describe('StarForm', () => {
     await wrapper.find('form').trigger('submit')
     await settle()
     expect(wrapper.emitted('submit')).toBeUndefined()
-    expect(wrapper.text()).toContain('Must be greater than 0')
-    expect(wrapper.text()).toContain('Must be 0 or more')
+    // the messages of the API's own schema (shared/api/stars.ts)
+    expect(wrapper.text()).toContain('Mass must be positive')
+    expect(wrapper.text()).toContain('Mass uncertainty must not be negative')
   })
 
   it('refuses an empty name and text in a number field', async () => {
