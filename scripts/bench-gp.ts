@@ -134,7 +134,7 @@ export function benchGpPosterior(n = 200): BenchRow {
     } else note += `; emcee reference failed: ${(p.stderr || '').trim().split('\n').slice(-1).join(' ')}`
   } else note += '; emcee reference not available'
   return {
-    name: `posterior with a GP (1 planet, ${n} rows, rotation kernel) to convergence (N > 50 τ, R̂ < 1.01)`, oursMs, referenceMs,
+    name: `posterior with a GP (1 planet, ${n} rows, rotation kernel; GP amplitude and rotation period sampled, decay time and shape held) to convergence (N > 50 τ, R̂ < 1.01)`, oursMs, referenceMs,
     ratio: referenceMs ? oursMs / referenceMs : null, target: 'ratio ≤ 0.25 (at least 4× faster than emcee + a dense numpy GP, CPU time)', note,
   }
 }
