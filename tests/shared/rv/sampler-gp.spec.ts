@@ -4,7 +4,7 @@ import { gpSamplerData } from '../../../scripts/reference/sampler_gp_input.ts'
 
 // The GP path of the posterior (posterior-gp.ts): coordinates, fixed hyperparameters, the period bound,
 // the dense quasi-periodic path. The emcee comparison is in ./sampler-gp-emcee.spec.ts.
-const data = gpSamplerData(100)
+const data = gpSamplerData(60)
 
 describe('posterior with a GP noise model', () => {
   it('holds fixed hyperparameters and states them; refuses a decay time below half the rotation period', () => {
