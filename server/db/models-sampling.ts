@@ -5,6 +5,8 @@ import type { Models, User } from './models.ts'
 import type { SamplingProgress, SamplingResult, SamplingSettings, SamplingState } from '../../shared/api/sampling.ts'
 
 /** What a run samples, frozen when it was requested (plain JSON; see server/sampling/input.ts). */
+import type { GpHyperSpec } from '../../shared/rv/gp-fit.ts'
+
 export interface SamplingInput {
   data: { measurementIds: number[]; t: number[]; y: number[]; dy: number[]; instrument: number[]; instrumentNames: string[] }
   model: {
@@ -12,6 +14,10 @@ export interface SamplingInput {
     trend: 'none' | 'linear' | 'quadratic'
     epoch?: number
     priors: Array<{ planet: number; param: string; gaussian?: { mu: number; sigma: number }; uniform?: { min: number; max: number } }>
+    /** GP noise model (the spec's `noise` of kind 'gp' as the core's GpHyperSpec); absent: white noise. */
+    noise?: GpHyperSpec | null
+    /** Every instrument's jitter pinned by the spec (m/s, in `data.instrumentNames` order); absent: sampled. */
+    jitter?: number[] | null
   }
   starMass: { value: number; err: number } | null
 }

@@ -48,7 +48,8 @@ export function mergeRun(req: MergeRequest): MergeOutcome {
   const W = settings.walkers
   const nDim = parts[0] && parts[0].steps.length ? parts[0].chain.length / (parts[0].steps.length * W) : NaN
   // the fit is only needed for the physical columns of the result; the check needs the layout's names
-  const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors: input.model.priors as Prior[] })
+  const jitter = input.model.jitter ?? undefined
+  const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors: input.model.priors as Prior[], ...(jitter ? { jitter } : {}) })
   const post = createLogPosterior(data, specFromFit(fit, { fix: fixed }))
   if (Number.isFinite(nDim) && nDim !== post.nDim) throw new Error(`the ensembles' rows have ${nDim} coordinates, the model ${post.nDim}`)
   const m = mergeEnsembles(parts, { nWalkers: W, nDim: post.nDim, thin: settings.thin, burn: settings.burn })

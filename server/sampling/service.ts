@@ -12,6 +12,7 @@ import { ConflictError, ValidationError } from '../errors.ts'
 import { record } from '../audit/service.ts'
 import { createJobSender, SAMPLING_QUEUE } from '../jobs/boss.ts'
 import { createLogPosterior, type PosteriorSpec } from '../../shared/rv/posterior.ts'
+import { gpHyperOf } from '../compute/fit-noise.ts'
 import { MIN_N_OVER_TAU } from '../../shared/rv/mcmc.ts'
 import type { PlanetParam } from '../../shared/rv/index.ts'
 import { rvDataOf } from './thread.ts'
@@ -98,6 +99,7 @@ export async function inputFromVersion(s: Services, star: Star, version: FitMode
   for (const r of rows) if (!names.includes(r.instrument)) names.push(r.instrument)
   const spec = version.spec
   return {
+
     data: {
       measurementIds: rows.map((r) => r.id), t: rows.map((r) => r.time), y: rows.map((r) => r.rv), dy: rows.map((r) => r.error),
       instrument: rows.map((r) => names.indexOf(r.instrument)), instrumentNames: names,
@@ -111,9 +113,27 @@ export async function inputFromVersion(s: Services, star: Star, version: FitMode
       trend: spec.trend ?? 'none',
       epoch: result.epoch,
       priors: spec.planets.flatMap((p, k) => (p.priors ?? []).map((pr) => ({ planet: k, param: pr.param, gaussian: pr.gaussian, uniform: pr.uniform }))),
+      ...noiseOf(spec, names),
     },
     starMass: star.massMsun > 0 ? { value: star.massMsun, err: Math.max(0, star.massErrMsun ?? 0) } : null,
   }
+}
+
+/**
+ * The spec's noise model and pinned jitters as the sampler takes them: a GP's hyperparameters
+ * (its values are the sampler's centre, refined to the planets + GP optimum by the core), and the
+ * jitters when every instrument's is pinned. The sampler holds all jitters pinned or none: a spec
+ * that pins some is refused here rather than sampled as another model.
+ */
+function noiseOf(spec: FitModelVersion['spec'], names: string[]): Pick<SamplingInput['model'], 'noise' | 'jitter'> {
+  const noise = spec.noise?.kind === 'gp' ? gpHyperOf(spec.noise) : null
+  const pins = spec.instrumentTerms?.filter((t) => t.jitter !== undefined) ?? []
+  if (!pins.length) return { noise }
+  const jitter = names.map((n) => pins.find((t) => t.instrument === n)?.jitter)
+  if (jitter.some((j) => j === undefined)) {
+    throw new ConflictError('This model pins the jitter of some instruments only; the sampler holds all jitters pinned or none. Pin every instrument\'s jitter, or none, and fit again before sampling.')
+  }
+  return { noise, jitter: jitter as number[] }
 }
 
 /**
@@ -154,6 +174,8 @@ export function posteriorOf(input: SamplingInput, fitVersion: FitModelVersion['r
     offsets: input.data.instrumentNames.map((n) => r.instruments.find((i) => i.name === n)?.offset ?? 0),
     jitters: input.data.instrumentNames.map((n) => Math.max(r.instruments.find((i) => i.name === n)?.jitter ?? 0, 0.1)),
     slope: r.trend?.slope, curvature: r.trend?.curvature,
+    ...(input.model.jitter ? { jitter: input.model.jitter } : {}),
+    noise: input.model.noise ?? null,
   }
   return createLogPosterior(data, spec)
 }
@@ -266,6 +288,9 @@ export async function startRun(s: Services, actor: User, star: Star, model: FitM
   const nDim = posteriorOf(input, version.result).nDim
   const settings = settingsFor(req, nDim)
   const K = settings.ensembles ?? 1
+  if (K > 1 && input.model.noise) {
+    throw new ValidationError('ensembles: the parallel mode samples white-noise models only for now; run a planets + GP model as one ensemble.', 'ensembles')
+  }
   await checkEnsembles(s, K)
   const estimate = estimateRun(input, version.result, settings.walkers, settings.steps, settings.untilConverged, K)
   const fields = {

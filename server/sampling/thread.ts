@@ -54,12 +54,13 @@ export function sampleInput(input: SamplingInput, settings: SamplingSettings, ex
   const data = rvDataOf(input)
   const priors = input.model.priors as Prior[]
   const planets = input.model.planets as PlanetStart[]
-  const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors })
+  const jitter = input.model.jitter ?? undefined
+  const fit = fitKeplerians(data, { planets, trend: input.model.trend, epoch: input.model.epoch, priors, ...(jitter ? { jitter } : {}) })
   return samplePosterior(data, fit, {
     walkers: settings.walkers, steps: settings.steps, burn: settings.burn ?? undefined, thin: settings.thin, seed: settings.seed,
     untilConverged: settings.untilConverged ?? false,
     fix: planets.map((p) => (p.fix ?? []) as PlanetParam[]),
-    starMass: input.starMass ?? undefined, priors, ...extra,
+    starMass: input.starMass ?? undefined, priors, noise: input.model.noise ?? null, ...extra,
   })
 }
 
