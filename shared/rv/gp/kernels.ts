@@ -40,7 +40,7 @@ export interface RotationShape {
 export type KernelShape = QuasiPeriodicShape | RotationShape
 
 /**
- * One term of the celerite family, k(τ) = e^{−cτ}[a cos(dτ) + b sin(dτ)] for τ ≥ 0
+ * One damped-oscillator term, k(τ) = e^{−cτ}[a cos(dτ) + b sin(dτ)] for τ ≥ 0
  * (Foreman-Mackey et al. 2017, §4, with the term's variance a).
  */
 export interface SemiseparableTerm { a: number; b: number; c: number; d: number }
@@ -68,7 +68,7 @@ export function quasiPeriodic(tau: number, k: QuasiPeriodicShape): number {
   return Math.exp(-(tau * tau) / (2 * k.decayTime * k.decayTime) - k.roughness * s * s)
 }
 
-/** The two celerite terms of the rotation kernel (unit total variance). */
+/** The two damped-oscillator terms of the rotation kernel (unit total variance). */
 export function rotationTerms(k: RotationShape): SemiseparableTerm[] {
   const c = 1 / k.decayTime
   const w1 = 1 / (1 + k.shape), w2 = k.shape / (1 + k.shape)
@@ -80,7 +80,7 @@ export function rotationTerms(k: RotationShape): SemiseparableTerm[] {
   return terms
 }
 
-/** Value of a sum of celerite terms at lag τ (element-by-element reference for the fast solver). */
+/** Value of a sum of damped-oscillator terms at lag τ (element-by-element reference for the fast solver). */
 export function termsValue(tau: number, terms: readonly SemiseparableTerm[]): number {
   const x = Math.abs(tau)
   let s = 0

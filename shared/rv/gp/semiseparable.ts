@@ -1,5 +1,5 @@
 /**
- * O(N) Gaussian-process algebra for sums of celerite terms k(τ) = e^{−cτ}[a cos(dτ) + b sin(dτ)]:
+ * O(N) Gaussian-process algebra for sums of damped-oscillator terms k(τ) = e^{−cτ}[a cos(dτ) + b sin(dτ)]:
  * the semiseparable Cholesky factorisation of Foreman-Mackey, Agol, Ambikasaran & Angus 2017, AJ 154,
  * 220, §5, in its pre-conditioned form (the φ factors keep every exponential ≤ 1, so no overflow at
  * long baselines). For sorted times t_1 ≤ … ≤ t_N and J = 2 × (number of terms) columns,

@@ -32,7 +32,7 @@ const CASES: Array<[string, RotationShape, boolean]> = [
 ]
 
 describe('rotation kernel', () => {
-  it('its celerite terms equal the formula written directly, and κ(0) = 1', () => {
+  it('its damped-oscillator terms equal the formula written directly, and κ(0) = 1', () => {
     for (const [, k] of CASES) {
       expectClose(termsValue(0, rotationTerms(k)), 1, { rtol: 1e-15 }, 'κ(0)')
       for (const tau of [0.3, 1, 7.7, 23.5, 100, -5]) expectClose(termsValue(tau, rotationTerms(k)), rotation(tau, k), { rtol: 1e-12, atol: 1e-15 }, `κ(${tau})`)
