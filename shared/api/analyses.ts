@@ -304,6 +304,10 @@ export const searchReportSchema = z.object({
   flags: z.array(searchFlagSchema),
   signals: z.array(searchSignalSchema),
   alternatives: z.array(z.object({ description: z.string(), planets: z.number().int(), trend: trendSchema, bic: z.number(), lnL: z.number() })),
+  /** Flagged candidates: passed the BIC and false-alarm rules, not counted as planets (their doubts are among the flags). */
+  candidates: z.array(z.object({
+    period: z.number(), K: z.number(), e: z.number(), omegaDeg: z.number(), deltaLnL: z.number(), deltaBic: z.number(), kinds: z.array(z.string()),
+  })).optional(),
   settings: z.object({ minPeriod: z.number(), maxPeriod: z.number(), bicThreshold: z.number(), maxPlanets: z.number().int() }),
   /** With activity indicators: every signal judged against them (activity candidates are not in the model). */
   activity: activityReportSchema.optional(),

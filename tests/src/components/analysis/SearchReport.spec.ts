@@ -33,5 +33,19 @@ describe('SearchReport', () => {
     expect(row.text()).toContain('41.2')
     expect(wrapper.find('[data-test="search-alternatives"]').text()).toContain('long-period orbit')
     expect(wrapper.text()).toContain('0.500–30000 d')
+    expect(wrapper.find('[data-test="search-candidates"]').exists()).toBe(false)
+  })
+
+  it('lists flagged candidates apart from the planets, with their doubts', async () => {
+    const withCandidate: Report = {
+      ...report,
+      candidates: [{ period: 135.2, K: 5.0, e: 0.82, omegaDeg: 40, deltaLnL: 24.3, deltaBic: -19.1, kinds: ['candidate-short-instrument'] }],
+    }
+    wrapper = mountWithApp(SearchReport, { props: { report: withCandidate, labels: ['b'] } })
+    await settle()
+    const table = wrapper.find('[data-test="search-candidates"]')
+    expect(table.text()).toContain('135.2')
+    expect(table.text()).toContain('candidate short instrument')
+    expect(wrapper.text()).toContain('not counted as planets')
   })
 })
