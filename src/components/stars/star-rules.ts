@@ -1,17 +1,5 @@
-import type { ZodTypeAny } from 'zod'
 import { siteSchema, starObjectSchema } from '@shared/api/stars.ts'
-import { toNumber, type Rule } from '@/components/app/rules.ts'
-
-/** A Vuetify rule for a numeric field checked by the shared zod schema (the server runs the same check). */
-export function schemaRule(schema: ZodTypeAny, label: string): Rule {
-  return (v) => {
-    const n = toNumber(v)
-    if (n === null) return true
-    if (!Number.isFinite(n)) return 'Enter a number'
-    const r = schema.safeParse(n)
-    return r.success || `${label} ${r.error.issues[0]?.message ?? 'is not valid'}`
-  }
-}
+import { schemaRule, toNumber, type Rule } from '@/components/app/rules.ts'
 
 export const massRule = schemaRule(starObjectSchema.shape.massMsun, 'Mass')
 export const massErrRule = schemaRule(starObjectSchema.shape.massErrMsun, 'Mass uncertainty')
