@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia'
+import { fetchPeriodogramFull } from '@/api/periodogram-full.ts'
 import { computed, reactive, ref } from 'vue'
 import * as api from '@/api/analyses.ts'
 import { modelSpecSchema } from '@shared/api/analyses.ts'
@@ -283,8 +284,11 @@ export const useAnalysisStore = defineStore('analysis', () => {
     await Promise.all([track(models, () => api.listModels(id)), track(compare, () => api.compareModels(id))])
   }
 
+  /** Every computed power of a stored run (the plot copy is what `rv`/`residuals` hold); may be refused when dropped. */
+  const fullCurve = (runId: number) => fetchPeriodogramFull(runId)
+
   return {
-    rv, residuals, indicators, settings, searchSettings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
+    fullCurve, rv, residuals, indicators, settings, searchSettings, models, selected, fitting, compare, search, form, formModelId, fitStartedAt,
     versionLoad, fitted, rotationSuggestion, overrule, gpVariant, load, loadVersion, runRv, runIndicator, runResiduals, addPlanet, newModel, selectModel, fit, runSearch, duplicate, archive,
   }
 })

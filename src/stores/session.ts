@@ -1,6 +1,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import * as auth from '@/api/auth.ts'
+import { listDevMail } from '@/api/dev.ts'
 import { ApiError } from '@/api/http.ts'
 import type { Me, Role } from '@/api/types.ts'
 import { asyncState, track } from './async-state.ts'
@@ -66,8 +67,21 @@ export const useSessionStore = defineStore('session', () => {
     me.data = null
   }
 
+  const passwordChange = asyncState<void>()
+  /** Changes the signed-in user's password (the server ends their other sessions); the outcome in `passwordChange`. */
+  async function changePassword(currentPassword: string, newPassword: string) {
+    await track(passwordChange, () => auth.changePassword({ currentPassword, newPassword }))
+  }
+
+  /** Whether the server offers the development mail page (never in production): asked once. */
+  const devMail = ref<boolean | null>(null)
+  async function checkDevMail() {
+    if (devMail.value !== null) return
+    devMail.value = await listDevMail().then(() => true, () => false)
+  }
+
   return {
-    me, checked, user, memberships, currentTeam, role, canWrite, isOwner, selectedTeamId, signOutState,
-    roleIn, selectTeam, load, signIn, register, signOut,
+    me, checked, user, memberships, currentTeam, role, canWrite, isOwner, selectedTeamId, signOutState, passwordChange, devMail,
+    roleIn, selectTeam, load, signIn, register, signOut, changePassword, checkDevMail,
   }
 })
