@@ -3,6 +3,9 @@
 import { parentPort } from 'node:worker_threads'
 import { getHeapStatistics } from 'node:v8'
 import { TASKS, type TaskName } from './tasks.ts'
+import { lowerThreadPriority } from './thread-priority.ts'
+
+lowerThreadPriority() // below the API's main thread (thread-priority.ts)
 
 if (!parentPort) throw new Error('server/compute/worker.ts must run in a worker thread')
 const port = parentPort

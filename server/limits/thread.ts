@@ -6,6 +6,9 @@ import { plan, predictiveBand, drawsFromSample, type PlanResult, type NamedSampl
 import { problemOf, type LimitsInput, type LimitsSettingsStored } from './problem.ts'
 import { triageSearch, type TriageInput } from '../triage/summary.ts'
 import type { TriageSummary } from '../../shared/api/survey.ts'
+import { lowerThreadPriority } from '../compute/thread-priority.ts'
+
+lowerThreadPriority() // below the API's main thread (thread-priority.ts)
 
 export interface ChunkTaskInput { input: LimitsInput; settings: LimitsSettingsStored; seed: number; start: number; end: number }
 export interface PlanTaskInput {

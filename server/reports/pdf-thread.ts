@@ -1,6 +1,9 @@
 // Worker-thread side of pdfOffLoop: builds one PDF with reportPdf and answers with its bytes.
 import { parentPort, workerData } from 'node:worker_threads'
 import { reportPdf, type PdfInput } from './pdf.ts'
+import { lowerThreadPriority } from '../compute/thread-priority.ts'
+
+lowerThreadPriority() // below the API's main thread (thread-priority.ts)
 
 if (!parentPort) throw new Error('server/reports/pdf-thread.ts must run in a worker thread')
 const port = parentPort

@@ -2,6 +2,9 @@
 // and summarised off the event loop. `mergeInThread` is what the coordinator (ensembles.ts) calls.
 import { parentPort, workerData, Worker } from 'node:worker_threads'
 import { mergeRun, type MergeOutcome, type MergeRequest } from './merge.ts'
+import { lowerThreadPriority } from '../compute/thread-priority.ts'
+
+lowerThreadPriority() // below the API's main thread (thread-priority.ts)
 
 function threadScript(): URL {
   const ts = import.meta.url.endsWith('.ts')

@@ -12,6 +12,9 @@ import type { ChainRows } from '../../shared/rv/chain-store.ts'
 import type { SamplingInput } from '../db/models-sampling.ts'
 import type { SamplingSettings } from '../../shared/api/sampling.ts'
 import { rvDataOf } from './input.ts'
+import { lowerThreadPriority } from '../compute/thread-priority.ts'
+
+lowerThreadPriority() // below the API's main thread (thread-priority.ts)
 
 export interface ThreadData {
   input: SamplingInput
