@@ -2,6 +2,7 @@ import type { Request, Response } from 'express'
 import type { Services } from '../services.ts'
 import { routeId, scope, signedInUser } from '../guards.ts'
 import {
+  periodogramQuerySchema,
   createModelRequestSchema, duplicateModelRequestSchema, fitModelRequestSchema, runPeriodogramRequestSchema,
   searchRequestSchema, updateModelRequestSchema, overruleRequestSchema, gpVariantRequestSchema,
 } from '../../shared/api/analyses.ts'
@@ -22,7 +23,7 @@ export async function listPeriodograms(_req: Request, res: Response, s: Services
 
 export async function showPeriodogram(req: Request, res: Response, s: Services): Promise<void> {
   const full = req.query.full
-  if (full !== undefined && !['0', '1', 'true', 'false'].includes(String(full))) {
+  if (!periodogramQuerySchema.safeParse({ full }).success) {
     throw new ValidationError('full: use full=1 for every computed power, or leave it out for the plot copy.', 'full')
   }
   res.json(await analyses.getPeriodogram(s, analysisScope(res).periodogram!.id, { full: full === '1' || full === 'true' }))

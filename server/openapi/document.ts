@@ -16,6 +16,7 @@ import { changePasswordRequestSchema, loginRequestSchema, registerRequestSchema,
 import { deleteDatasetRequestSchema, updateMeasurementRequestSchema } from '../../shared/api/measurements.ts'
 import { freezeRequestSchema, reviewRequestSchema, shareRequestSchema } from '../../shared/api/reports.ts'
 import { samplingEstimateQuerySchema, startSamplingRequestSchema } from '../../shared/api/sampling.ts'
+import { periodogramQuerySchema } from '../../shared/api/analyses.ts'
 import { createStarRequestSchema, updateStarRequestSchema } from '../../shared/api/stars.ts'
 import { createInvitationRequestSchema, createTeamRequestSchema, updateMemberRequestSchema } from '../../shared/api/teams.ts'
 import { startLimitsRequestSchema } from '../../shared/api/limits.ts'
@@ -60,6 +61,7 @@ export const BODIES: Record<string, Schema> = {
 /** Query strings by "METHOD path". */
 export const QUERIES: Record<string, z.ZodObject> = {
   'get /api/models/:modelId/sampling/estimate': samplingEstimateQuerySchema as unknown as z.ZodObject,
+  'get /api/periodograms/:periodogramId': periodogramQuerySchema,
 }
 
 /** Writing routes without a JSON body (multipart uploads, actions named by the path alone). */

@@ -109,6 +109,8 @@ export type PeriodogramRun = z.infer<typeof periodogramRunSchema>
 /** Items of GET /api/stars/:starId/periodograms (newest first): no curves. */
 export const periodogramSummarySchema = z.object({ ...periodogramBase, topPeak: peakSchema.omit({ aliases: true }).nullable() })
 export type PeriodogramSummary = z.infer<typeof periodogramSummarySchema>
+/** GET /api/periodograms/:id query: `full=1` (or `true`) for every computed power; absent: the plot copy. */
+export const periodogramQuerySchema = z.object({ full: z.enum(['0', '1', 'true', 'false']).optional() })
 export const periodogramListResponseSchema = z.array(periodogramSummarySchema)
 
 // ---------------------------------------------------------------------------------------------
