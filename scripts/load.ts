@@ -13,6 +13,7 @@
 import { readFileSync } from 'node:fs'
 import { parseArgs } from 'node:util'
 import { availableParallelism, loadavg } from 'node:os'
+import { monitorEventLoopDelay } from 'node:perf_hooks'
 
 const { values: args } = parseArgs({
   options: {
@@ -201,9 +202,15 @@ async function loopDelay(): Promise<{ p99Ms: number; maxMs: number; seconds: num
 
 const { sessions, world } = await setUp()
 const before = rssMb(args.pid)
+// this client's own event-loop delay: a busy client adds it to every latency it measures
+const clientLoop = monitorEventLoopDelay({ resolution: 10 })
+clientLoop.enable()
+const clientCpu0 = process.cpuUsage()
 const until = Date.now() + DURATION_MS
 console.log(`${sessions.length} sessions signed in; ${world.starIds.length} stars, ${world.models.size} models to fit; running ${args.duration} s…`)
 await Promise.all(sessions.map((s) => user(s, world, until)))
+clientLoop.disable()
+const clientCpu = process.cpuUsage(clientCpu0)
 const loop = await loopDelay()
 const after = rssMb(args.pid)
 if (args.pid) await new Promise((r) => setTimeout(r, SETTLE_MS))
@@ -211,4 +218,6 @@ report(before, after, rssMb(args.pid))
 console.log(loop
   ? `API event-loop delay over the last ${loop.seconds} s of the load (worst 10-s window): p99 ${loop.p99Ms.toFixed(0)} ms, max ${loop.maxMs.toFixed(0)} ms`
   : 'API event-loop delay: not reported (/api/health has no eventLoop: an older server, or not started by server/index.ts)')
+console.log(`load client (this process): event-loop delay p99 ${(clientLoop.percentile(99) / 1e6).toFixed(0)} ms, max ${(clientLoop.max / 1e6).toFixed(0)} ms; `
+  + `CPU ${((clientCpu.user + clientCpu.system) / 1e3 / DURATION_MS * 100).toFixed(0)} % of one core (its own delays are inside every latency above)`)
 process.exit([...errors.values()].some((n) => n > 0) ? 1 : 0)
