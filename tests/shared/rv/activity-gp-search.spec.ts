@@ -23,7 +23,7 @@ describe('searchWithActivity on a spotted star', () => {
     expect(Math.abs(p.K - STAR.planet.K)).toBeLessThan(p.uncertainty.K)
     expect(r.activity.length).toBeGreaterThan(0)
     for (const a of r.activity) {
-      expect([1, 2].some((m) => Math.abs(1 / a.period - m / STAR.rotation.period) < 2 / 420), `${a.period} d`).toBe(true)
+      expect([1, 2].some((harmonic) => Math.abs(1 / a.period - harmonic / STAR.rotation.period) < 2 / 420), `${a.period} d`).toBe(true)
       expect(a.evidence.join(' ')).toMatch(/'bisector'/)
     }
   })

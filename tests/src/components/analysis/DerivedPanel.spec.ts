@@ -33,7 +33,7 @@ describe('derived values for the star as it is now', () => {
     const ref = derivedPlanet(orbit, 1.3)
     expect(now.msiniMjup).toBeCloseTo(ref.msiniMjup, 12)
     expect(now.aAu).toBeCloseTo(ref.aAu, 12)
-    // M sin i ∝ M★^(2/3) and a ∝ M★^(1/3) for a planet much lighter than its star (Kepler's third law)
+    // M sin i grows as the star's mass to the 2/3 and a as its 1/3 for a planet much lighter than its star (Kepler's third law)
     expect(now.msiniMjup! / made.msiniMjup).toBeCloseTo((1.3 / 1.05) ** (2 / 3), 3)
     expect(now.aAu! / made.aAu).toBeCloseTo((1.3 / 1.05) ** (1 / 3), 3)
     expect(now.insolationEarth).toBeCloseTo(1.6 / (ref.aAu ** 2 * Math.sqrt(1 - 0.01 ** 2)), 10)
