@@ -183,12 +183,7 @@ export const useAnalysisStore = defineStore('analysis', () => {
       selected.error = null
       formModelId.value = detail.id
       form.value.name = detail.name
-      residuals.data = null
-      await Promise.all([
-        track(models, () => api.listModels(id)),
-        track(compare, () => api.compareModels(id)),
-        detail.current.status === 'fitted' ? runResiduals() : Promise.resolve(null),
-      ])
+      await refreshAround(id, detail.current.status === 'fitted')
       return detail
     } finally {
       fitStartedAt.value = null
@@ -202,12 +197,7 @@ export const useAnalysisStore = defineStore('analysis', () => {
     if (!found) return null
     selected.data = found.model
     editFrom(found.model)
-    residuals.data = null
-    await Promise.all([
-      track(models, () => api.listModels(id)),
-      track(compare, () => api.compareModels(id)),
-      runResiduals(),
-    ])
+    await refreshAround(id, true)
     return found
   }
 
@@ -238,13 +228,18 @@ export const useAnalysisStore = defineStore('analysis', () => {
     selected.data = detail
     selected.error = null
     editFrom(detail)
+    await refreshAround(id, detail.current.status === 'fitted')
+    return detail
+  }
+
+  /** After the selected model changed: the model list, the comparison and (when fitted) the residual periodogram anew. */
+  async function refreshAround(starId: number, fitted: boolean) {
     residuals.data = null
     await Promise.all([
-      track(models, () => api.listModels(id)),
-      track(compare, () => api.compareModels(id)),
-      detail.current.status === 'fitted' ? runResiduals() : Promise.resolve(null),
+      track(models, () => api.listModels(starId)),
+      track(compare, () => api.compareModels(starId)),
+      fitted ? runResiduals() : Promise.resolve(null),
     ])
-    return detail
   }
 
   /** Counts an activity candidate of the search as a planet (a new fitted version, with who and why in its note). */
