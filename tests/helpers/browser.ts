@@ -82,6 +82,12 @@ export async function openBrowser(options: BrowserOptions = {}): Promise<Browser
       await page.locator('input[name="email"]').fill(email)
       await page.locator('input[name="password"]').fill(password)
       await page.locator('[data-test="sign-in-submit"]').click()
+      // Signed in once the app has left the form; a refusal shows its alert instead, which is the failure.
+      const error = page.locator('[data-test="sign-in-error"]')
+      const left = page.waitForURL((url) => !url.pathname.startsWith('/sign-in'))
+      const refused = error.waitFor().then(async () => { throw new Error(`sign-in refused: ${await error.innerText()}`) })
+      await Promise.race([left, refused])
+      refused.catch(() => {})
     },
   }
 }
