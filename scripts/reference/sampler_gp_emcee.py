@@ -20,6 +20,10 @@ f uniform on [0, 1]. Kepler's equation by vectorised Newton (fit_kepler_model.py
       runs emcee until every coordinate has N > 50 tau (get_autocorr_time, a quarter discarded) and
       rank-normalised split-R-hat < 1.01; writes medians, 16/84 % of the physical parameters, the
       Monte-Carlo error of each median (sd / sqrt(N / tau)), steps, wall and CPU ms, versions.
+  /usr/bin/python3 scripts/reference/sampler_gp_emcee.py --log-prob IN.json OUT.json
+      IN as above plus `points` (coordinate vectors): writes the data, the priors' settings, the points and
+      the unnormalised ln posterior at each (null where it is -inf), for a point-by-point check of priors,
+      Jacobians and likelihood.
 """
 import json
 import os
@@ -137,6 +141,7 @@ def main(inp, out):
         burn = n // 4
         tau = sampler.get_autocorr_time(discard=burn, quiet=True)
         rh = split_rhat(sampler.get_chain(discard=burn), groups)
+        print(json.dumps({'steps': int(n), 'tauMax': float(np.max(tau)), 'rhatMax': float(np.max(rh)), 'cpuS': round(time.process_time() - c0, 1)}), file=sys.stderr, flush=True)
         if np.all(n - burn > 50 * tau) and np.all(rh < 1.01):
             converged = True
             break
@@ -162,5 +167,26 @@ def main(inp, out):
     print(json.dumps({k: res[k] for k in ('converged', 'steps', 'tauMax', 'rhatMax', 'ms', 'cpuMs')}))
 
 
+def log_prob_at(inp, out):
+    with open(inp) as fh:
+        d = json.load(fh)
+    t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
+    fixed = d.get('fixed')
+    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed, float(d['start'][4]))
+    vals = [lp(np.asarray(x, dtype=float)) for x in d['points']]
+    res = {
+        'source': 'ln posterior (unnormalised) of scripts/reference/sampler_gp_emcee.py: dense numpy/scipy GP likelihood (scipy.linalg.cho_factor) and the priors of its docstring',
+        'fixed': fixed, 'tc0': float(d['start'][4]),
+        'versions': {'python': sys.version.split()[0], 'numpy': np.__version__, 'scipy': scipy.__version__},
+        't': d['t'], 'y': d['y'], 'dy': d['dy'], 'prot': d['prot'], 'period': d['period'],
+        'points': d['points'], 'logProb': [float(v) if np.isfinite(v) else None for v in vals],
+    }
+    with open(out, 'w') as fh:
+        json.dump(res, fh, indent=1)
+
+
 if __name__ == '__main__':
-    main(sys.argv[1], sys.argv[2])
+    if sys.argv[1] == '--log-prob':
+        log_prob_at(sys.argv[2], sys.argv[3])
+    else:
+        main(sys.argv[1], sys.argv[2])
