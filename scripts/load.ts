@@ -4,7 +4,11 @@
 // over the last minute of the load (from /api/health; use --duration 60 or more).
 //
 //   node --import tsx scripts/load.ts [--url http://127.0.0.1:3000] [--users 50] [--duration 120]
-//        [--pid API_PID] [--settle 60] [--password starsway-demo]
+//        [--pid API_PID] [--settle 60] [--password starsway-demo] [--db-timing FILE]
+//
+// --db-timing: the file an API started with STARSWAY_DB_TIMING=FILE writes (server/db/timing.ts);
+// then the database side is printed per route: queries per request, time waiting for a pool
+// connection and time in queries (means, and the p99 of the pool wait), over the load only.
 //
 // The users are sessions of the demo team's analyst, owner and reviewer (scripts/seed.ts): each
 // session is one browser. Reviewers only read. Loopback only: the URL must be 127.0.0.1/localhost.
@@ -24,6 +28,7 @@ const { values: args } = parseArgs({
     pid: { type: 'string' },
     password: { type: 'string', default: 'starsway-demo' },
     seed: { type: 'string', default: '11' },
+    'db-timing': { type: 'string' },
   },
 })
 const BASE = args.url!.replace(/\/$/, '')
@@ -200,7 +205,34 @@ async function loopDelay(): Promise<{ p99Ms: number; maxMs: number; seconds: num
   } catch { return null }
 }
 
+// --- the API's database timing (server/db/timing.ts), as a difference over the load -------------
+interface RouteTiming { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[] }
+interface DbTiming { pool: { max: number; maxWaiting: number; maxUsed: number }; outside: { queries: number; waitMs: number; queryMs: number }; routes: Record<string, RouteTiming> }
+function readDbTiming(): DbTiming | null {
+  if (!args['db-timing']) return null
+  try { return JSON.parse(readFileSync(args['db-timing'], 'utf8')) as DbTiming } catch { return null }
+}
+function reportDbTiming(a: DbTiming | null, b: DbTiming | null): void {
+  if (!args['db-timing']) return
+  if (!b) { console.log(`database timing: ${args['db-timing']} unreadable (start the API with STARSWAY_DB_TIMING=${args['db-timing']})`); return }
+  const f = (x: number) => x.toFixed(1).padStart(8)
+  console.log(`\ndatabase side per route over the load (pool max ${b.pool.max}; most connections in use ${b.pool.maxUsed}, most queries waiting for one ${b.pool.maxWaiting}, since the API started)`)
+  console.log('route                                         n  queries/req  wait ms/req  p99 wait  query ms/req  total ms/req  p99 total')
+  for (const [k, r] of Object.entries(b.routes).sort()) {
+    const o = a?.routes[k]
+    const n = r.n - (o?.n ?? 0)
+    if (n <= 0) continue
+    const waits = r.waits.slice(o?.waits.length ?? 0).sort((x, y) => x - y)
+    const totals = r.totals.slice(o?.totals.length ?? 0).sort((x, y) => x - y)
+    console.log(`${k.slice(0, 42).padEnd(42)} ${String(n).padStart(5)} ${f((r.queries - (o?.queries ?? 0)) / n)}     ${f((r.waitMs - (o?.waitMs ?? 0)) / n)} ${f(quantile(waits, 0.99))}  ${f((r.queryMs - (o?.queryMs ?? 0)) / n)}      ${f((r.totalMs - (o?.totalMs ?? 0)) / n)}  ${f(quantile(totals, 0.99))}`)
+  }
+  const oq = b.outside.queries - (a?.outside.queries ?? 0)
+  console.log(`outside requests (job workers, timers): ${oq} queries, ${(b.outside.queryMs - (a?.outside.queryMs ?? 0)).toFixed(0)} ms in queries`)
+}
+
 const { sessions, world } = await setUp()
+if (args['db-timing']) await new Promise((r) => setTimeout(r, 2500)) // the API writes the file every 2 s
+const timing0 = readDbTiming()
 const before = rssMb(args.pid)
 // this client's own event-loop delay: a busy client adds it to every latency it measures
 const clientLoop = monitorEventLoopDelay({ resolution: 10 })
@@ -213,11 +245,14 @@ clientLoop.disable()
 const clientCpu = process.cpuUsage(clientCpu0)
 const loop = await loopDelay()
 const after = rssMb(args.pid)
+if (args['db-timing']) await new Promise((r) => setTimeout(r, 2500))
+const timing1 = readDbTiming()
 if (args.pid) await new Promise((r) => setTimeout(r, SETTLE_MS))
 report(before, after, rssMb(args.pid))
 console.log(loop
   ? `API event-loop delay over the last ${loop.seconds} s of the load (worst 10-s window): p99 ${loop.p99Ms.toFixed(0)} ms, max ${loop.maxMs.toFixed(0)} ms`
   : 'API event-loop delay: not reported (/api/health has no eventLoop: an older server, or not started by server/index.ts)')
+reportDbTiming(timing0, timing1)
 console.log(`load client (this process): event-loop delay p99 ${(clientLoop.percentile(99) / 1e6).toFixed(0)} ms, max ${(clientLoop.max / 1e6).toFixed(0)} ms; `
   + `CPU ${((clientCpu.user + clientCpu.system) / 1e3 / DURATION_MS * 100).toFixed(0)} % of one core (its own delays are inside every latency above)`)
 process.exit([...errors.values()].some((n) => n > 0) ? 1 : 0)

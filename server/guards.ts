@@ -47,11 +47,14 @@ export function routeId(req: Request, name: string, what: string): number {
   return n
 }
 
-async function membershipFor(s: Services, res: Response, user: User, teamId: number, min: Role, what: string): Promise<Membership> {
+/**
+ * The user's membership of team `teamId` with at least `min`, from a membership already loaded
+ * (null: none): 404 outside the team (or outside an API token's team), 403 below `min`.
+ */
+function checkMembership(res: Response, m: Membership | null | undefined, teamId: number, min: Role, what: string): Membership {
   // a request made with an API token reaches the token's team only (others look as if they did not exist)
   const token = res.locals.apiToken as { teamId: number } | undefined
   if (token && token.teamId !== teamId) throw new NotFoundError(what)
-  const m = await s.models.Membership.findOne({ where: { userId: user.id, teamId } })
   if (!m) throw new NotFoundError(what)
   if (ROLE_RANK[m.role] < ROLE_RANK[min]) {
     throw new ForbiddenError(`This needs the ${min} role or higher in the team; you are ${m.role === 'analyst' ? 'an' : 'a'} ${m.role}.`)
@@ -59,15 +62,24 @@ async function membershipFor(s: Services, res: Response, user: User, teamId: num
   return m
 }
 
-/** The user is a member of team :teamId with at least `min`. */
+/** The user is a member of team :teamId with at least `min` (membership and team in one query). */
 export function team(min: Role): Guard {
   return withRole(min, async (req, res, s) => {
     const user = signedInUser(res)
     const teamId = routeId(req, 'teamId', 'Team')
-    const membership = await membershipFor(s, res, user, teamId, min, 'Team')
-    const t = await s.models.Team.findByPk(teamId)
-    if (!t) throw new NotFoundError('Team')
-    res.locals.scope = { membership, team: t } satisfies Scope
+    const token = res.locals.apiToken as { teamId: number } | undefined
+    if (token && token.teamId !== teamId) throw new NotFoundError('Team')
+    const m = await s.models.Membership.findOne({ where: { userId: user.id, teamId }, include: [{ model: s.models.Team, as: 'team', required: true }] })
+    const membership = checkMembership(res, m, teamId, min, 'Team')
+    res.locals.scope = { membership, team: membership.team! } satisfies Scope
+  })
+}
+
+/** Star `id` (not archived) with the user's membership of its team as `viewer` (null: not a member), in one query. */
+function starForUser(s: Services, id: number, userId: number): Promise<Star | null> {
+  return s.models.Star.findOne({
+    where: { id, archivedAt: null },
+    include: [{ model: s.models.Membership, as: 'viewer', required: false, where: { userId } }],
   })
 }
 
@@ -83,8 +95,8 @@ export interface ResourceSpec<T> {
   param: string
   /** Its name in the 404 message ("Model not found."). */
   what: string
-  /** The resource, or null when it does not exist (or is archived). */
-  load: (s: Services, id: number) => Promise<T | null>
+  /** The resource, or null when it does not exist (or is archived); `userId`: the signed-in user. */
+  load: (s: Services, id: number, userId: number) => Promise<T | null>
   /** The star it belongs to: its team decides who may see it. */
   starIdOf: (resource: T) => number
   /** Records the resource for the handler (besides res.locals.scope's membership and star). */
@@ -99,12 +111,13 @@ export interface ResourceSpec<T> {
 export function resource<T>(spec: ResourceSpec<T>): (min: Role) => Guard {
   return (min) => withRole(min, async (req, res, s) => {
     const user = signedInUser(res)
-    const found = await spec.load(s, routeId(req, spec.param, spec.what))
+    const found = await spec.load(s, routeId(req, spec.param, spec.what), user.id)
     if (!found) throw new NotFoundError(spec.what)
     const starId = spec.starIdOf(found)
-    const st = found instanceof StarModel && found.id === starId ? found : await s.models.Star.findOne({ where: { id: starId, archivedAt: null } })
+    // one query for the star and the user's membership of its team (the star guard's load is that query)
+    const st = found instanceof StarModel && found.id === starId && found.viewer !== undefined ? found : await starForUser(s, starId, user.id)
     if (!st || st.archivedAt) throw new NotFoundError(spec.what)
-    const membership = await membershipFor(s, res, user, st.teamId, min, spec.what)
+    const membership = checkMembership(res, st.viewer, st.teamId, min, spec.what)
     res.locals.scope = { membership, star: st } satisfies Scope
     spec.keep?.(res, found)
   })
@@ -113,7 +126,7 @@ export function resource<T>(spec: ResourceSpec<T>): (min: Role) => Guard {
 /** Star :starId (not archived) belongs to a team where the user has at least `min`. */
 export const star = resource<Star>({
   param: 'starId', what: 'Star', starIdOf: (st) => st.id,
-  load: (s, id) => s.models.Star.findOne({ where: { id, archivedAt: null } }),
+  load: (s, id, userId) => starForUser(s, id, userId),
 })
 
 export const dataset = resource<Dataset>({

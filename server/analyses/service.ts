@@ -218,25 +218,30 @@ export async function getVersion(s: Services, model: FitModel, version: number):
   return versionJson(v)
 }
 
+/**
+ * The star's models in use, newest first, each with its current version's status, planets, trend
+ * and BIC: one query (the BIC read from the current version's result only, never the others').
+ */
 export async function listModels(s: Services, star: Star): Promise<ModelSummary[]> {
-  const models = await M(s).FitModel.findAll({
-    where: { starId: star.id, archivedAt: null }, order: [['createdAt', 'DESC'], ['id', 'DESC']],
-    include: [{ model: s.models.User, as: 'creator', attributes: ['id', 'name'] }],
-  })
-  if (!models.length) return []
-  const versions = await M(s).FitModelVersion.findAll({
-    where: { modelId: models.map((m) => m.id) }, attributes: { exclude: ['result'] },
-  })
-  const resultsBic = await s.sequelize.query<{ model_id: number; version: number; bic: number | null }>(
-    `SELECT model_id, version, (result->'stats'->>'bic')::float8 AS bic FROM fit_model_versions WHERE model_id IN (:ids)`,
-    { replacements: { ids: models.map((m) => m.id) }, type: QueryTypes.SELECT },
+  const rows = await s.sequelize.query<{
+    id: number; star_id: number; name: string; current_version: number; created_at: Date; updated_at: Date
+    creator_id: number | null; creator_name: string | null; status: ModelSummary['status']; spec: ModelSpec; bic: number | null
+  }>(
+    `SELECT f.id, f.star_id, f.name, f.current_version, f.created_at, f.updated_at, u.id AS creator_id, u.name AS creator_name,
+            v.status, v.spec, (v.result->'stats'->>'bic')::float8 AS bic
+       FROM fit_models f
+       JOIN fit_model_versions v ON v.model_id = f.id AND v.version = f.current_version
+       LEFT JOIN users u ON u.id = f.created_by
+      WHERE f.star_id = :starId AND f.archived_at IS NULL
+      ORDER BY f.created_at DESC, f.id DESC`,
+    { replacements: { starId: star.id }, type: QueryTypes.SELECT },
   )
-  return models.map((m) => {
-    const cur = versions.find((v) => v.modelId === m.id && v.version === m.currentVersion)!
-    const bic = resultsBic.find((r) => r.model_id === m.id && r.version === m.currentVersion)?.bic ?? null
-    const j = summaryJson(m, cur)
-    return { ...j, bic }
-  })
+  return rows.map((r) => ({
+    id: r.id, starId: r.star_id, name: r.name, currentVersion: r.current_version, status: r.status,
+    planets: r.spec.planets.length, trend: r.spec.trend, bic: r.bic,
+    createdBy: r.creator_id !== null ? { id: r.creator_id, name: r.creator_name ?? '' } : null,
+    createdAt: iso(r.created_at), updatedAt: iso(r.updated_at),
+  }))
 }
 
 /** Checks that the spec's instruments exist for this star (400 naming `spec.instruments`). */

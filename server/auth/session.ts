@@ -6,6 +6,7 @@ import type { User } from '../db/models.ts'
 import { ForbiddenError } from '../errors.ts'
 import { safeEqual } from './tokens.ts'
 import { createSession, deleteSession, sessionUser } from './sessions.ts'
+import { timeRequest } from '../db/timing.ts'
 
 export const SESSION_COOKIE = 'starsway_session'
 export const CSRF_COOKIE = 'starsway_csrf'
@@ -74,29 +75,32 @@ export function issueCsrf(s: Services, res: Response): void {
  * (503 from the error middleware), never turned into a silent sign-out.
  */
 export function sessionMiddleware(s: Services): RequestHandler {
-  return async (req: Request, res: Response, next: NextFunction) => {
-    res.locals.user = null
-    const token = req.cookies?.[SESSION_COOKIE] as string | undefined
-    if (token) {
-      let claims: SessionClaims | null = null
+  // the database-time diagnostic (server/db/timing.ts) starts here, so the session query counts
+  return (req, res, next) => timeRequest(req, res, () => void loadSession(s, req, res, next))
+}
+
+async function loadSession(s: Services, req: Request, res: Response, next: NextFunction): Promise<void> {
+  res.locals.user = null
+  const token = req.cookies?.[SESSION_COOKIE] as string | undefined
+  if (token) {
+    let claims: SessionClaims | null = null
+    try {
+      claims = jwt.verify(token, signingKey(s.config.jwtSecret), { algorithms: ['HS256'] }) as unknown as SessionClaims
+    } catch { /* expired or forged: treated as signed out */ }
+    const userId = Number(claims?.sub)
+    if (claims && typeof claims.sid === 'string' && Number.isSafeInteger(userId)) {
       try {
-        claims = jwt.verify(token, signingKey(s.config.jwtSecret), { algorithms: ['HS256'] }) as unknown as SessionClaims
-      } catch { /* expired or forged: treated as signed out */ }
-      const userId = Number(claims?.sub)
-      if (claims && typeof claims.sid === 'string' && Number.isSafeInteger(userId)) {
-        try {
-          const user = await sessionUser(s, claims.sid, userId)
-          if (user && user.tokenVersion === claims.tv) {
-            res.locals.user = user
-            res.locals.session = { id: claims.sid } satisfies CurrentSession
-          }
-        } catch (err) {
-          return next(err)
+        const user = await sessionUser(s, claims.sid, userId)
+        if (user && user.tokenVersion === claims.tv) {
+          res.locals.user = user
+          res.locals.session = { id: claims.sid } satisfies CurrentSession
         }
+      } catch (err) {
+        return next(err)
       }
     }
-    next()
   }
+  next()
 }
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])

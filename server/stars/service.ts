@@ -27,7 +27,7 @@ async function statsFor(s: Services, starIds: number[]): Promise<Map<number, Sta
   return out
 }
 
-function summary(star: Star, st: Stats | undefined): StarSummary {
+function summary(star: Pick<Star, 'id' | 'name' | 'massMsun' | 'massErrMsun' | 'updatedAt'>, st: Stats | undefined): StarSummary {
   const updated = st?.lastUpload && st.lastUpload > star.updatedAt ? st.lastUpload : star.updatedAt
   return {
     id: star.id, name: star.name, massMsun: star.massMsun, massErrMsun: star.massErrMsun,
@@ -46,10 +46,32 @@ export async function starJson(s: Services, star: Star): Promise<StarJson> {
   }
 }
 
+/**
+ * The team's stars in use, by name, with the same figures as statsFor, in one query: the list is
+ * the most frequent read, and under load each round trip to the database costs more than the
+ * query itself (issue 11).
+ */
 export async function listStars(s: Services, teamId: number): Promise<StarSummary[]> {
-  const stars = await s.models.Star.findAll({ where: { teamId, archivedAt: null }, order: [['name', 'ASC']] })
-  const stats = await statsFor(s, stars.map((x) => x.id))
-  return stars.map((x) => summary(x, stats.get(x.id)))
+  const rows = await s.sequelize.query<{
+    id: number; name: string; mass_msun: number; mass_err_msun: number; updated_at: Date
+    instruments: string[] | null; n: string | null; last: Date | null
+  }>(
+    `SELECT s.id, s.name, s.mass_msun, s.mass_err_msun, s.updated_at, st.instruments, st.n, st.last
+       FROM stars s
+       LEFT JOIN LATERAL (
+         SELECT array_agg(g.instrument ORDER BY g.first) AS instruments, sum(g.n) AS n, max(g.last) AS last
+           FROM (SELECT d.instrument, count(m.id) AS n, max(d.created_at) AS last, min(d.id) AS first
+                   FROM datasets d LEFT JOIN measurements m ON m.dataset_id = d.id
+                  WHERE d.star_id = s.id GROUP BY d.instrument) g
+       ) st ON true
+      WHERE s.team_id = :teamId AND s.archived_at IS NULL
+      ORDER BY s.name ASC`,
+    { replacements: { teamId }, type: QueryTypes.SELECT },
+  )
+  return rows.map((r) => summary(
+    { id: r.id, name: r.name, massMsun: r.mass_msun, massErrMsun: r.mass_err_msun, updatedAt: r.updated_at },
+    r.instruments ? { nPoints: Number(r.n ?? 0), instruments: r.instruments, lastUpload: r.last } : undefined,
+  ))
 }
 
 function nameTaken(err: unknown): never {
