@@ -7,6 +7,7 @@
  * Covariance: C_ij = s_i s_j κ(t_i − t_j) + δ_ij n_i, with s the per-point amplitude (m/s, the
  * instrument's) and n the white-noise variance (error² + jitter²).
  */
+import { choleskyWasm } from './dense-wasm.ts'
 
 /** The Cholesky factor of a dense covariance and what predictions need. */
 export interface DenseFactor {
@@ -35,16 +36,36 @@ export function denseCovariance(t: Float64Array, scale: Float64Array, noiseVar: 
   return c
 }
 
+/** Order from which `choleskyInPlace` hands the factorisation to WebAssembly (copying in and out costs more below). */
+export const WASM_MIN_N = 32
+
 /**
- * In-place Cholesky C = L Lᵀ (Cholesky–Banachiewicz, rows of L in order; both inner operands are
+ * In-place Cholesky C = L Lᵀ of the row-major n × n `a`: the lower triangle is read and replaced by
+ * L, the upper triangle is left as it was. Returns false if C is not numerically positive definite.
+ * From WASM_MIN_N rows on, the WebAssembly SIMD kernel (dense-wasm.ts: blocked, the trailing update
+ * as a register-tiled matrix product; about 5× faster at N = 1000); below that, or where WebAssembly
+ * is unavailable, `choleskyTiled`. Both agree with `choleskyRowByRow` to rounding
+ * (tests/shared/rv/gp/dense.spec.ts).
+ */
+export function choleskyInPlace(a: Float64Array, n: number): boolean {
+  if (n >= WASM_MIN_N) {
+    const ok = choleskyWasm(a, n)
+    if (ok !== null) return ok
+  }
+  return choleskyTiled(a, n)
+}
+
+/**
+ * The TypeScript Cholesky (Cholesky–Banachiewicz, rows of L in order; both inner operands are
  * contiguous row prefixes). Register-tiled: rows are taken four at a time and, against them, the
  * earlier rows four at a time, so one pass over k feeds sixteen independent sums (4 × 4 tile, eight
  * loads per sixteen multiply–adds, no reduction chain longer than the tile); the tile's own columns
  * are then finished in order. The 4 × 4 diagonal blocks and the last n mod 4 rows go row by row.
  * Returns false if C is not numerically positive definite. `choleskyRowByRow` is the plain form,
- * kept as its reference (same factor to rounding; tests/shared/rv/gp/dense.spec.ts).
+ * kept as its reference (same factor to rounding; tests/shared/rv/gp/dense.spec.ts). A partial
+ * factor is left in `a` when it returns false.
  */
-export function choleskyInPlace(a: Float64Array, n: number): boolean {
+export function choleskyTiled(a: Float64Array, n: number): boolean {
   let i0 = 0
   for (; i0 + 3 < n; i0 += 4) {
     const r0 = i0 * n, r1 = r0 + n, r2 = r1 + n, r3 = r2 + n
@@ -109,7 +130,7 @@ function choleskyRows(a: Float64Array, n: number, from: number): boolean {
   return true
 }
 
-/** The plain row-by-row Cholesky (the readable reference of `choleskyInPlace`). */
+/** The plain row-by-row Cholesky (the readable reference of `choleskyTiled` and of the WebAssembly kernel). */
 export function choleskyRowByRow(a: Float64Array, n: number): boolean {
   return choleskyRows(a, n, 0)
 }

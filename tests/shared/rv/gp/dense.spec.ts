@@ -1,19 +1,44 @@
 import { describe, it, expect } from 'vitest'
 import { expectClose } from '../../../helpers/expect-close.ts'
 import { createRandom } from '../../../../shared/math/random.ts'
-import { choleskyInPlace, choleskyRowByRow } from '../../../../shared/rv/gp/dense.ts'
+import { choleskyInPlace, choleskyRowByRow, choleskyTiled, WASM_MIN_N } from '../../../../shared/rv/gp/dense.ts'
+import { choleskyWasm, wasmCholeskyAvailable } from '../../../../shared/rv/gp/dense-wasm.ts'
 import { denseCovariance, quasiPeriodic } from '../../../../shared/rv/index.ts'
 
-describe('dense Cholesky: four-rows-at-a-time form against the plain row-by-row reference', () => {
-  for (const n of [1, 3, 4, 7, 64, 101]) {
+/** A quasi-periodic covariance on n random times (row-major, both triangles). */
+function covariance(n: number): Float64Array {
+  const rng = createRandom(n)
+  const t = Float64Array.from({ length: n }, () => 300 * rng.next())
+  return denseCovariance(t, new Float64Array(n).fill(4), Float64Array.from(t, () => 1 + rng.next()), (x) => quasiPeriodic(x, { kind: 'quasi-periodic', period: 23.5, decayTime: 40, roughness: 1.3 }))
+}
+
+function expectSameFactor(a: Float64Array, b: Float64Array, n: number, label: string): void {
+  for (let i = 0; i < n; i++) expectClose(a.subarray(i * n, i * n + i + 1), b.subarray(i * n, i * n + i + 1), { rtol: 1e-12, atol: 1e-12 }, `${label} row ${i}`)
+}
+
+describe('dense Cholesky: the fast forms against the plain row-by-row reference', () => {
+  it('has the WebAssembly kernel in Node (so the fast path is the one tested here)', () => {
+    expect(wasmCholeskyAvailable()).toBe(true)
+  })
+
+  for (const n of [1, 3, 4, 7, 64, 101, 203]) {
     it(`gives the same factor (n = ${n})`, () => {
-      const rng = createRandom(n)
-      const t = Float64Array.from({ length: n }, () => 300 * rng.next())
-      const c = denseCovariance(t, new Float64Array(n).fill(4), Float64Array.from(t, () => 1 + rng.next()), (x) => quasiPeriodic(x, { kind: 'quasi-periodic', period: 23.5, decayTime: 40, roughness: 1.3 }))
-      const a = Float64Array.from(c), b = Float64Array.from(c)
-      expect(choleskyInPlace(a, n)).toBe(true)
-      expect(choleskyRowByRow(b, n)).toBe(true)
-      for (let i = 0; i < n; i++) expectClose(a.subarray(i * n, i * n + i + 1), b.subarray(i * n, i * n + i + 1), { rtol: 1e-12, atol: 1e-12 }, `row ${i}`)
+      const c = covariance(n)
+      const ref = Float64Array.from(c)
+      expect(choleskyRowByRow(ref, n)).toBe(true)
+      const tiled = Float64Array.from(c)
+      expect(choleskyTiled(tiled, n)).toBe(true)
+      expectSameFactor(tiled, ref, n, 'tiled')
+      // panel widths: the default, and a narrow one so several panels, solves and updates run
+      for (const nb of [undefined, 8, 12]) {
+        const w = Float64Array.from(c)
+        expect(choleskyWasm(w, n, nb)).toBe(true)
+        expectSameFactor(w, ref, n, `wasm nb=${nb ?? 'default'}`)
+        for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) if (w[i * n + j] !== c[i * n + j]) expect.fail(`upper triangle changed at ${i},${j}`)
+      }
+      const d = Float64Array.from(c)
+      expect(choleskyInPlace(d, n)).toBe(true)
+      expectSameFactor(d, ref, n, 'choleskyInPlace')
     })
   }
 
@@ -22,5 +47,17 @@ describe('dense Cholesky: four-rows-at-a-time form against the plain row-by-row 
     expect(choleskyInPlace(a, 2)).toBe(false)
     const big = new Float64Array(25).fill(1)
     expect(choleskyInPlace(big, 5)).toBe(false)
+    expect(choleskyTiled(new Float64Array(25).fill(1), 5)).toBe(false)
+    // the WebAssembly path: a rank-one block past the first panel, and a NaN
+    const n = WASM_MIN_N + 21
+    const c = covariance(n)
+    for (let i = n - 9; i < n; i++) for (let j = n - 9; j < n; j++) c[i * n + j] = 50
+    const before = Float64Array.from(c)
+    expect(choleskyWasm(c, n, 8)).toBe(false)
+    expect(c).toEqual(before)
+    expect(choleskyInPlace(c, n)).toBe(false)
+    const nan = covariance(n)
+    nan[40 * n + 3] = NaN
+    expect(choleskyWasm(nan, n)).toBe(false)
   })
 })
