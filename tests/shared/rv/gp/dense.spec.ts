@@ -61,3 +61,20 @@ describe('dense Cholesky: the fast forms against the plain row-by-row reference'
     expect(choleskyWasm(nan, n)).toBe(false)
   })
 })
+
+describe('dense covariance', () => {
+  it('is symmetric, element by element the kernel times the amplitudes, plus the noise on the diagonal', () => {
+    const n = 77
+    const rng = createRandom(5)
+    const t = Float64Array.from({ length: n }, () => 100 * rng.next())
+    const s = Float64Array.from(t, () => 1 + rng.next()), nv = Float64Array.from(t, () => 0.5 + rng.next())
+    const kappa = (x: number): number => quasiPeriodic(x, { kind: 'quasi-periodic', period: 11, decayTime: 20, roughness: 0.8 })
+    const c = denseCovariance(t, s, nv, kappa)
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        const want = s[i] * s[j] * kappa(t[i] - t[j]) + (i === j ? nv[i] : 0)
+        if (c[i * n + j] !== c[j * n + i] || Math.abs(c[i * n + j] - want) > 1e-15 * Math.abs(want) + 1e-300) expect.fail(`C[${i}, ${j}] = ${c[i * n + j]}, want ${want}`)
+      }
+    }
+  })
+})
