@@ -1,5 +1,6 @@
 """Reference posterior of "one planet + GP noise" (emcee driving a dense numpy/scipy GP likelihood),
-for tests/shared/rv/sampler-gp.spec.ts and the GP row of scripts/bench-gp.ts.
+for tests/shared/rv/sampler-gp-emcee.spec.ts (decay time and shape held), sampler-gp-free-emcee.spec.ts
+(every hyperparameter free) and the GP row of scripts/bench-gp.ts.
 
 Model: v = K[cos(nu + w) + e cos w] + offset; residuals r ~ N(0, C) with
   C_ij = h^2 kappa(t_i - t_j) + delta_ij (dy_i^2 + s^2),

@@ -13,8 +13,9 @@ import { spottedStar } from '../../tests/shared/rv/gp/spotted-star.ts'
 
 /**
  * The reference case: the rotation period and the amplitude sampled (P_rot ~ N(23.5, 2²) d), the decay
- * time and shape held at the values the star was drawn with (with them free, both samplers' τ grows past
- * 500 steps on this star: the decay time–amplitude ridge; see the report), the planet's period within
+ * time and shape held at the values the star was drawn with (with them free on these 60 rows τ grows
+ * past 1000 steps: the decay time–amplitude ridge and K's tail toward 0; GP_FREE_CASE samples them on
+ * 120 rows), the planet's period within
  * its periodogram peak (uniform on [12, 12.6] d: the 11.75-d rotation harmonic is another mode).
  */
 export const GP_SAMPLER_CASE = {
