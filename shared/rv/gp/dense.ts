@@ -47,16 +47,19 @@ export function denseCovariance(t: Float64Array, scale: Float64Array, noiseVar: 
   return c
 }
 
-/** Order from which `choleskyInPlace` hands the factorisation to WebAssembly (copying in and out costs more below). */
-export const WASM_MIN_N = 32
+/**
+ * Order from which `choleskyInPlace` hands the factorisation to WebAssembly (measured: below it,
+ * copying in and out and the scalar diagonal blocks cost more than the SIMD update saves).
+ */
+export const WASM_MIN_N = 64
 
 /**
  * In-place Cholesky C = L Lᵀ of the row-major n × n `a`: the lower triangle is read and replaced by
  * L, the upper triangle is left as it was. Returns false if C is not numerically positive definite.
  * From WASM_MIN_N rows on, the WebAssembly SIMD kernel (dense-wasm.ts: blocked, the trailing update
- * as a register-tiled matrix product; about 5× faster at N = 1000); below that, or where WebAssembly
- * is unavailable, `choleskyTiled`. Both agree with `choleskyRowByRow` to rounding
- * (tests/shared/rv/gp/dense.spec.ts).
+ * as a register-tiled matrix product; measured about 2× faster than `choleskyTiled` at N = 100, 3× at
+ * 200, 5× at 1000); below that, or where WebAssembly is unavailable, `choleskyTiled`. Both agree
+ * with `choleskyRowByRow` to rounding (tests/shared/rv/gp/dense.spec.ts).
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
   if (n >= WASM_MIN_N) {
