@@ -116,12 +116,12 @@ function benchDense(): BenchRow[] {
   const kernel = { kind: 'quasi-periodic' as const, period: 23.5, decayTime: 60, roughness: 1.2 }
   const kappa = (tau: number): number => quasiPeriodic(tau, kernel)
   const c = denseCovariance(d.t, d.scale, d.noiseVar, kappa)
-  const build = cpuPerCall(() => { denseCovariance(d.t, d.scale, d.noiseVar, kappa) }, 0, 3)
+  const build = cpuPerCall(() => { denseCovariance(d.t, d.scale, d.noiseVar, kappa) }, 0, 7)
   // copy + factor, as cho_factor copies its input; best of 15 like the reference
   const buf = new Float64Array(n * n)
   const oursCho = cpuPerCall(() => { buf.set(c); choleskyInPlace(buf, n) }, 0, 15)
   const tiled = cpuPerCall(() => { buf.set(c); choleskyTiled(buf, n) }, 0, 2)
-  const lnL = cpuPerCall(() => { denseLogLikelihood(denseFactor(d.t, d.scale, d.noiseVar, kappa), d.y) }, 0, 2)
+  const lnL = cpuPerCall(() => { denseLogLikelihood(denseFactor(d.t, d.scale, d.noiseVar, kappa), d.y) }, 0, 7)
   let referenceMs: number | null = null
   const path = wasmCholeskyAvailable() ? 'WebAssembly f64x2 kernel' : 'TypeScript, WebAssembly unavailable'
   let note = `CPU times; ours: building the matrix ${build.toFixed(1)} ms, Cholesky ${oursCho.toFixed(1)} ms (${path}, one thread; TypeScript fallback ${tiled.toFixed(1)} ms), whole ln L ${lnL.toFixed(1)} ms`
