@@ -207,7 +207,7 @@ async function loopDelay(): Promise<{ p99Ms: number; maxMs: number; seconds: num
 
 // --- the API's database timing (server/db/timing.ts), as a difference over the load -------------
 interface RouteTiming { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[] }
-interface DbTiming { pool: { max: number; maxWaiting: number; maxUsed: number }; outside: { queries: number; waitMs: number; queryMs: number }; routes: Record<string, RouteTiming> }
+interface DbTiming { pool: { max: number; maxWaiting: number; maxUsed: number; connects?: number; connectMs?: number; maxConnectMs?: number }; outside: { queries: number; waitMs: number; queryMs: number }; routes: Record<string, RouteTiming> }
 function readDbTiming(): DbTiming | null {
   if (!args['db-timing']) return null
   try { return JSON.parse(readFileSync(args['db-timing'], 'utf8')) as DbTiming } catch { return null }
@@ -226,6 +226,8 @@ function reportDbTiming(a: DbTiming | null, b: DbTiming | null): void {
     const totals = r.totals.slice(o?.totals.length ?? 0).sort((x, y) => x - y)
     console.log(`${k.slice(0, 42).padEnd(42)} ${String(n).padStart(5)} ${f((r.queries - (o?.queries ?? 0)) / n)}     ${f((r.waitMs - (o?.waitMs ?? 0)) / n)} ${f(quantile(waits, 0.99))}  ${f((r.queryMs - (o?.queryMs ?? 0)) / n)}      ${f((r.totalMs - (o?.totalMs ?? 0)) / n)}  ${f(quantile(totals, 0.99))}`)
   }
+  const nc = (b.pool.connects ?? 0) - (a?.pool.connects ?? 0)
+  if (b.pool.connects !== undefined) console.log(`connections opened during the load: ${nc}${nc ? `, ${(((b.pool.connectMs ?? 0) - (a?.pool.connectMs ?? 0)) / nc).toFixed(0)} ms each on average (slowest since the start ${(b.pool.maxConnectMs ?? 0).toFixed(0)} ms)` : ''}`)
   const oq = b.outside.queries - (a?.outside.queries ?? 0)
   console.log(`outside requests (job workers, timers): ${oq} queries, ${(b.outside.queryMs - (a?.outside.queryMs ?? 0)).toFixed(0)} ms in queries`)
 }

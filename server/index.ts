@@ -3,7 +3,7 @@ import type { Server } from 'node:http'
 import { loadConfig } from './config.ts'
 import { createApp } from './app.ts'
 import { errorForLog } from './errors.ts'
-import { createSequelize, initModels } from './db/index.ts'
+import { createSequelize, initModels, warmPool } from './db/index.ts'
 import { createMailer } from './mail/mailer.ts'
 import { startJobWorkers, type JobWorkers } from './jobs/index.ts'
 import { startLoopDelay } from './loop-delay.ts'
@@ -15,9 +15,10 @@ const logDestination = pino.destination({ dest: 1, sync: false })
 const logger = pino({ level: config.env === 'test' ? 'silent' : 'info' }, logDestination)
 const exit = (code: number): never => { try { logDestination.flushSync() } catch { /* not ready yet */ } process.exit(code) }
 startLoopDelay()
-const sequelize = createSequelize(config.databaseUrl)
+const sequelize = createSequelize(config.databaseUrl, { keepOpen: true })
 try {
   await sequelize.authenticate()
+  await warmPool(sequelize) // every pooled connection made before the first request (server/db/sequelize.ts)
 } catch (err) {
   const where = (() => { try { const u = new URL(config.databaseUrl); return `${u.hostname}:${u.port || 5432}${u.pathname}` } catch { return 'DATABASE_URL' } })()
   logger.fatal(`Cannot reach the database at ${where}: ${(err as Error).message}. Start PostgreSQL (npm start does) or fix DATABASE_URL.`)

@@ -1,4 +1,4 @@
-export { createSequelize } from './sequelize.ts'
+export { createSequelize, warmPool } from './sequelize.ts'
 export { createMigrator } from './migrate.ts'
 export { initModels, type Models } from './models.ts'
 export * as models from './models.ts'

@@ -18,7 +18,8 @@ const routes = new Map<string, RouteTotals>()
 const acquireStart = new WeakMap<object, number>()
 let file: string | null = null
 let outside = { queries: 0, waitMs: 0, queryMs: 0 }
-let pool = { max: 0, waiting: 0, maxWaiting: 0, maxUsed: 0 }
+let pool = { max: 0, waiting: 0, maxWaiting: 0, maxUsed: 0, connects: 0, connectMs: 0, maxConnectMs: 0 }
+let connectStart: number[] = []
 
 /** The file named by STARSWAY_DB_TIMING, or null when the diagnostic is off. */
 export function dbTimingFile(): string | null {
@@ -43,6 +44,12 @@ export function instrument(sequelize: Sequelize, max: number): void {
   file = dbTimingFile()
   if (!file) return
   pool.max = max
+  // new connections (a PostgreSQL backend each): how many and how long they took to open
+  sequelize.addHook('beforeConnect', () => { connectStart.push(performance.now()) })
+  sequelize.addHook('afterConnect', () => {
+    const ms = performance.now() - (connectStart.shift() ?? performance.now())
+    pool.connects++; pool.connectMs += ms; pool.maxConnectMs = Math.max(pool.maxConnectMs, ms)
+  })
   sequelize.addHook('beforePoolAcquire', (options) => { acquireStart.set(options as object, performance.now()); pool.waiting++; pool.maxWaiting = Math.max(pool.maxWaiting, pool.waiting) })
   sequelize.addHook('afterPoolAcquire', (_connection, options) => {
     pool.waiting--
@@ -80,4 +87,4 @@ export function timeRequest(req: Request, res: Response, next: () => void): void
 }
 
 /** Forgets the totals (tests). */
-export function resetTiming(): void { routes.clear(); outside = { queries: 0, waitMs: 0, queryMs: 0 }; pool = { max: pool.max, waiting: 0, maxWaiting: 0, maxUsed: 0 } }
+export function resetTiming(): void { routes.clear(); outside = { queries: 0, waitMs: 0, queryMs: 0 }; pool = { max: pool.max, waiting: 0, maxWaiting: 0, maxUsed: 0, connects: 0, connectMs: 0, maxConnectMs: 0 }; connectStart = [] }
