@@ -137,18 +137,25 @@ export function unpack(L: FitLayout, x: ArrayLike<number>, k: number): FitElemen
   return { period, K, e, omega, tc, tp }
 }
 
-/** Projects a free vector onto the bounds P > 0, K ≥ 0, e ≤ E_MAX (in place). */
-export function project(L: FitLayout, x: Float64Array): void {
-  for (const pl of L.layouts) {
+/**
+ * Projects a free vector onto the bounds P > 0, K ≥ 0, e ≤ E_MAX (in place). With `flipNegativeK`, a
+ * negative K is first mapped to the same velocity curve with K > 0 where the free parameters allow:
+ * −K [cos(ν + ω) + e cos ω] = K [cos(ν + ω + π) + e cos(ω + π)], so K → −K and ω → ω + π at the same
+ * periastron time (for a circular orbit with ω held, half a period later). The optimiser can then pass
+ * through K = 0 instead of sticking there with the planet's other parameters undetermined.
+ */
+export function project(L: FitLayout, x: Float64Array, flipNegativeK = false): void {
+  L.layouts.forEach((pl, k) => {
     if (pl.iP >= 0 && !(x[pl.iP] > 0)) x[pl.iP] = 1e-6
-    if (pl.iK >= 0 && x[pl.iK] < 0) x[pl.iK] = 0
     if (pl.ecc === 'both') {
       const e = x[pl.iA] * x[pl.iA] + x[pl.iB] * x[pl.iB]
       if (e > E_MAX) { const f = Math.sqrt(E_MAX / e); x[pl.iA] *= f; x[pl.iB] *= f }
     } else if (pl.ecc === 'sqrte') {
       x[pl.iA] = Math.min(Math.abs(x[pl.iA]), Math.sqrt(E_MAX))
     }
-  }
+    if (flipNegativeK && pl.iK >= 0 && x[pl.iK] < 0) flipSign(L, x, k)
+    if (pl.iK >= 0 && x[pl.iK] < 0) x[pl.iK] = 0
+  })
 }
 
 /** The value a prior on `param` applies to (ω in degrees). */
@@ -161,4 +168,21 @@ export function priorValue(p: FitElements, param: PlanetParam): number {
     case 'tc': return p.tc
     case 'tp': return p.tp
   }
+}
+
+/** K → −K with the same velocity curve, when planet k's free parameters can express it (see `project`). */
+function flipSign(L: FitLayout, x: Float64Array, k: number): void {
+  const pl = L.layouts[k]
+  if (pl.phaseFixed === 'tc' || !(x[pl.iK] < 0)) return
+  const el = unpack(L, x, k)
+  let omega = el.omega, tp = el.tp
+  if (el.e === 0) {
+    // circular: half a period later (ω is undefined or held)
+    if (pl.phaseFixed === 'tp') return
+    tp += el.period / 2
+  } else if (pl.ecc === 'both') { x[pl.iA] = -x[pl.iA]; x[pl.iB] = -x[pl.iB]; omega += Math.PI }
+  else if (pl.ecc === 'omega') { x[pl.iA] += Math.PI; omega += Math.PI }
+  else return // e > 0 with ω held: no equivalent curve with K > 0
+  x[pl.iK] = -x[pl.iK]
+  if (pl.iTc >= 0) x[pl.iTc] = nearestEpoch(tpToTc(tp, el.period, el.e, omega), el.period, L.epoch)
 }

@@ -92,3 +92,37 @@ export function solveLinear(
   }
   return true
 }
+
+/**
+ * The weighted projection of many vectors onto the linear columns at one set of weights: the normal
+ * matrix is built and factored once (`prepareProjection`), then `removeLinearFit` leaves d − Xβ(d)
+ * for each d — the same as `solveLinear` of y − (y − d), without rebuilding the matrix.
+ */
+export interface LinearProjection { nLin: number; nInst: number; l: Float64Array; beta: Float64Array; epoch: number }
+
+export function prepareProjection(data: RvData, epoch: number, nLin: number, w: ArrayLike<number>, s: LinearScratch, scratch: Float64Array): LinearProjection | null {
+  // the normal matrix does not depend on the right-hand side: built by solveLinear's own loop
+  solveLinear(data, epoch, nLin, data.y, w, s, scratch)
+  const l = Float64Array.from(s.ata)
+  if (!cholesky(l, nLin)) return null
+  return { nLin, nInst: data.instrumentNames.length, l, beta: s.beta, epoch }
+}
+
+/** out = d − Xβ with β the weighted least-squares fit of d on the linear columns (see `prepareProjection`). */
+export function removeLinearFit(data: RvData, p: LinearProjection, w: ArrayLike<number>, d: ArrayLike<number>, out: Float64Array): void {
+  const { nLin, nInst, beta, epoch } = p
+  const { t, instrument } = data
+  const n = t.length
+  beta.fill(0)
+  for (let i = 0; i < n; i++) {
+    const wd = w[i] * d[i]
+    beta[instrument[i]] += wd
+    if (nLin > nInst) { const dt = t[i] - epoch; beta[nInst] += wd * dt; if (nLin > nInst + 1) beta[nInst + 1] += wd * dt * dt }
+  }
+  choleskySolve(p.l, nLin, beta)
+  for (let i = 0; i < n; i++) {
+    let m = beta[instrument[i]]
+    if (nLin > nInst) { const dt = t[i] - epoch; m += beta[nInst] * dt; if (nLin > nInst + 1) m += beta[nInst + 1] * dt * dt }
+    out[i] = d[i] - m
+  }
+}

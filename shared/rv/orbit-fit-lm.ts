@@ -1,18 +1,22 @@
 /**
  * Levenberg–Marquardt (Levenberg 1944; Marquardt 1963, SIAM J. Appl. Math. 11, 431, with its
- * diagonal scaling) on the whitened residual vector of `orbit-fit-objective.ts`, with a
- * forward-difference Jacobian and projection onto the bounds. A step is accepted only if it lowers
+ * diagonal scaling) on the whitened residual vector of `orbit-fit-objective.ts`, with the
+ * variable-projection Jacobian of `orbit-fit-jacobian.ts` and projection onto the bounds. A step is accepted only if it lowers
  * the cost, so the recorded cost history never rises. Between accepted steps an optional jitter
  * half-step (`orbit-fit-jitter.ts`) re-solves the jitters: a coordinate ascent on ln L.
  */
 import { cholesky, choleskySolve } from './linalg.ts'
 import { project, type FitLayout } from './orbit-fit-layout.ts'
-import {
-  addPlanet, insideUniformPriors, keplerModel, nGaussianPriors, residualFromModel, residualVector, type Workspace,
-} from './orbit-fit-objective.ts'
+import { E_MAX } from './orbit-fit-types.ts'
+import { nGaussianPriors, residualVector, type Workspace } from './orbit-fit-objective.ts'
+import { jacobian, jacobianScratch } from './orbit-fit-jacobian.ts'
 import type { JitterHook } from './orbit-fit-jitter.ts'
 
 const TWO_PI = 2 * Math.PI
+/** Entries of the −2 ln L history (about two per iteration) over which FLAT_DROP is measured. */
+const FLAT_SPAN = 20
+/** A drop of −2 ln L below this over FLAT_SPAN entries (ln L by 5e-5 over about ten iterations) counts as converged. */
+const FLAT_DROP = 1e-4
 
 export interface LmOutcome { x: Float64Array; cost: number; iterations: number; status: 'converged' | 'max-iterations' | 'stalled'; history: number[] }
 
@@ -20,10 +24,10 @@ export function levenbergMarquardt(L: FitLayout, ws: Workspace, x0: Float64Array
   const nf = L.nFree
   const m = L.n + nGaussianPriors(L)
   const r = new Float64Array(m), rt = new Float64Array(m)
-  const kep = new Float64Array(L.n), kepAll = new Float64Array(L.n)
-  const nPl = L.layouts.length
-  const perPlanet = Array.from({ length: nPl }, () => new Float64Array(L.n))
+  const kep = new Float64Array(L.n)
   const J = new Float64Array(m * nf)
+  const jac = jacobianScratch(L)
+  const gp = new Float64Array(nf)
   const x = Float64Array.from(x0)
   project(L, x)
   let cost = residualVector(L, ws, x, r, kep)
@@ -50,46 +54,41 @@ export function levenbergMarquardt(L: FitLayout, ws: Workspace, x0: Float64Array
   let iter = 0
   let status: LmOutcome['status'] = 'max-iterations'
   outer: for (; iter < maxIter; iter++) {
-    // Jacobian by forward differences; only the planet owning parameter j is recomputed
-    keplerModel(L, ws, x, kepAll)
-    for (let k = 0; k < nPl; k++) { const c = perPlanet[k]; c.fill(0); addPlanet(L, ws, x, k, c) }
-    for (let j = 0; j < nf; j++) {
-      const k = L.owner[j]
-      const h = L.scales[j]
-      let hh = h
-      for (let pass = 0; pass < 2; pass++) {
-        xt.set(x)
-        xt[j] += hh
-        const own = perPlanet[k]
-        const Kk = x[j]
-        if (j === L.layouts[k].iK && Kk > 0) {
-          // the model is linear in K: no Kepler solves needed for this column
-          const gK = hh / Kk
-          for (let i = 0; i < L.n; i++) kep[i] = kepAll[i] + own[i] * gK
-        } else {
-          for (let i = 0; i < L.n; i++) kep[i] = kepAll[i] - own[i]
-          addPlanet(L, ws, xt, k, kep)
-        }
-        const c = insideUniformPriors(L, xt) ? residualFromModel(L, ws, xt, kep, rt) : Infinity
-        if (Number.isFinite(c)) break
-        hh = -h
-      }
-      for (let i = 0; i < m; i++) J[i * nf + j] = (rt[i] - r[i]) / hh
-    }
-    H.fill(0); g.fill(0)
-    for (let i = 0; i < m; i++) {
-      const row = i * nf
-      for (let a = 0; a < nf; a++) {
-        const ja = J[row + a]
-        if (ja === 0) continue
-        g[a] += ja * r[i]
-        for (let b = a; b < nf; b++) H[a * nf + b] += ja * J[row + b]
+    jacobian(L, ws, x, r, J, jac)
+    // Jᵀ J and Jᵀ r from contiguous columns
+    for (let a = 0; a < nf; a++) {
+      const ca = a * m
+      let ga = 0
+      for (let i = 0; i < m; i++) ga += J[ca + i] * r[i]
+      g[a] = ga
+      for (let b = a; b < nf; b++) {
+        const cb = b * m
+        let h0 = 0, h1 = 0
+        let i = 0
+        for (; i + 1 < m; i += 2) { h0 += J[ca + i] * J[cb + i]; h1 += J[ca + i + 1] * J[cb + i + 1] }
+        if (i < m) h0 += J[ca + i] * J[cb + i]
+        H[a * nf + b] = h0 + h1
       }
     }
     for (let a = 0; a < nf; a++) for (let b = 0; b < a; b++) H[a * nf + b] = H[b * nf + a]
     let gmax = 0
-    for (let a = 0; a < nf; a++) gmax = Math.max(gmax, Math.abs(g[a]) / Math.sqrt(Math.max(H[a * nf + a], 1e-300)))
+    // projected gradient: what pushes a parameter past its bound (K below 0, e above E_MAX) does not
+    // count, nor a parameter the model does not depend on (K = 0 leaves that planet's others free)
+    gp.set(g)
+    for (const pl of L.layouts) {
+      if (pl.iK >= 0 && x[pl.iK] === 0 && gp[pl.iK] > 0) gp[pl.iK] = 0
+      if (pl.ecc === 'both') {
+        const a = x[pl.iA], b = x[pl.iB], rr = Math.hypot(a, b)
+        const out = rr > 0 ? (gp[pl.iA] * a + gp[pl.iB] * b) / rr : 0 // descent leaves the disc when out < 0
+        if (rr * rr >= E_MAX * (1 - 1e-9) && out < 0) { gp[pl.iA] -= out * a / rr; gp[pl.iB] -= out * b / rr }
+      } else if (pl.ecc === 'sqrte' && x[pl.iA] * x[pl.iA] >= E_MAX * (1 - 1e-9) && gp[pl.iA] < 0) gp[pl.iA] = 0
+    }
+    for (let a = 0; a < nf; a++) if (H[a * nf + a] > 0) gmax = Math.max(gmax, Math.abs(gp[a]) / Math.sqrt(H[a * nf + a]))
     if (gmax < 1e-8 * Math.sqrt(Math.max(cost, 1e-300)) && jitterChange < 1e-7) { status = 'converged'; break }
+    // flat: −2 ln L (the history, with the jitter half-steps) fell by less than FLAT_DROP over the
+    // last FLAT_SPAN entries — a crawl along a ridge or against a bound changes nothing a user reads
+    const h = history.length
+    if (h > FLAT_SPAN && history[h - 1 - FLAT_SPAN] - history[h - 1] < FLAT_DROP && jitterChange < 1e-6) { status = 'converged'; break }
     for (;;) {
       A.set(H)
       for (let a = 0; a < nf; a++) A[a * nf + a] += lambda * Math.max(H[a * nf + a], 1e-12)
@@ -97,7 +96,7 @@ export function levenbergMarquardt(L: FitLayout, ws: Workspace, x0: Float64Array
       for (let a = 0; a < nf; a++) step[a] = -g[a]
       choleskySolve(A, nf, step)
       for (let a = 0; a < nf; a++) xt[a] = x[a] + step[a]
-      project(L, xt)
+      project(L, xt, true)
       const ct = residualVector(L, ws, xt, rt, kep)
       if (ct < cost) {
         const drop = cost - ct

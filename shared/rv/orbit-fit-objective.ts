@@ -81,15 +81,19 @@ export function residualFromModel(L: FitLayout, ws: Workspace, x: Float64Array, 
   if (!solveLinearPart(L, ws, kep)) return Infinity
   let cost = 0
   for (let i = 0; i < L.n; i++) { const r = ws.resid[i] * ws.sw[i]; out[i] = r; cost += r * r }
-  let m = L.n
+  const end = priorResiduals(L, x, out, L.n)
+  for (let q = L.n; q < end; q++) cost += out[q] * out[q]
+  return Number.isFinite(cost) ? cost : Infinity
+}
+
+/** The Gaussian priors' residuals (g(x) − μ)/σ written from out[at]; returns the index after the last. */
+export function priorResiduals(L: FitLayout, x: ArrayLike<number>, out: Float64Array, at: number): number {
+  let m = at
   for (const pr of L.priors) {
     if (!pr.gaussian) continue
-    const d = priorDifference(L, x, pr.planet, pr.param, pr.gaussian.mu)
-    const r = d / pr.gaussian.sigma
-    out[m++] = r
-    cost += r * r
+    out[m++] = priorDifference(L, x, pr.planet, pr.param, pr.gaussian.mu) / pr.gaussian.sigma
   }
-  return Number.isFinite(cost) ? cost : Infinity
+  return m
 }
 
 /**
@@ -125,7 +129,7 @@ export function logPrior(L: FitLayout, x: Float64Array): number {
   return s
 }
 
-function priorDifference(L: FitLayout, x: Float64Array, planet: number, param: Parameters<typeof priorValue>[1], mu: number): number {
+function priorDifference(L: FitLayout, x: ArrayLike<number>, planet: number, param: Parameters<typeof priorValue>[1], mu: number): number {
   const d = priorValue(unpack(L, x, planet), param) - mu
   return param === 'omegaDeg' ? wrapDegrees(d) : d
 }
