@@ -98,7 +98,9 @@ export function createApp(deps: AppDeps): Express {
   app.use(helmet({
     contentSecurityPolicy: {
       directives: {
-        defaultSrc: ["'self'"], scriptSrc: ["'self'"], styleSrc: ["'self'", "'unsafe-inline'"], imgSrc: ["'self'", 'data:', 'blob:'],
+        // 'wasm-unsafe-eval' lets the page and its workers compile our own WebAssembly (the dense GP
+        // Cholesky kernel, shared/rv/gp/dense-wasm.ts); it allows no JavaScript eval
+        defaultSrc: ["'self'"], scriptSrc: ["'self'", "'wasm-unsafe-eval'"], styleSrc: ["'self'", "'unsafe-inline'"], imgSrc: ["'self'", 'data:', 'blob:'],
         fontSrc: ["'self'", 'data:'], connectSrc: ["'self'"], workerSrc: ["'self'", 'blob:'], objectSrc: ["'none'"],
         frameAncestors: ["'none'"], baseUri: ["'self'"], formAction: ["'self'"],
         upgradeInsecureRequests: config.env === 'production' ? [] : null,
