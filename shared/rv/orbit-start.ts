@@ -8,11 +8,7 @@
  * A&A 496, 577), which gives K and the phase directly.
  */
 import { addKeplerian, tpToTc, type Keplerian } from './model.ts'
-import { keplerUnchecked, SINCOS } from './kepler.ts'
-
-// Local references: module-namespace bindings can cost a getter call per access under some loaders.
-const kepler = keplerUnchecked
-const sincos = SINCOS
+import { keplerSinCosArray } from './kepler.ts'
 import { cholesky, choleskySolve } from './linalg.ts'
 import type { RvData } from './orbit-data.ts'
 import type { PlanetStart, TrendKind } from './orbit-fit.ts'
@@ -101,6 +97,7 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
   // At fixed (e, Tp) the model K[cos(ν+ω) + e cos ω] = (K cos ω)(cos ν + e) − (K sin ω) sin ν is
   // linear in K cos ω and K sin ω, so ω and K are solved exactly; only e and Tp need a grid.
   const colA = new Float64Array(n), colB = new Float64Array(n)
+  const Ms = new Float64Array(n), sinE = new Float64Array(n), cosE = new Float64Array(n)
   const f = TWO_PI / period
   const eccs = [0, ...(opts.eccentricities ?? [0.15, 0.35, 0.55, 0.75, 0.9])]
   const nPh = opts.phaseSteps ?? 16
@@ -109,14 +106,17 @@ export function planetStarts(data: RvData, period: number, opts: StartOptions = 
     const phases = e === 0 ? 1 : nPh
     for (let ip = 0; ip < phases; ip++) {
       const tp = epoch + period * ip / phases
-      for (let i = 0; i < n; i++) {
-        const M = f * (data.t[i] - tp)
-        if (e === 0) { colA[i] = Math.cos(M); colB[i] = Math.sin(M); continue }
-        kepler(M, e)
-        const cE = sincos.cos, sE = sincos.sin
-        const den = 1 - e * cE
-        colA[i] = (cE - e) / den + e
-        colB[i] = sq * sE / den
+      for (let i = 0; i < n; i++) Ms[i] = f * (data.t[i] - tp)
+      if (e === 0) {
+        for (let i = 0; i < n; i++) { colA[i] = Math.cos(Ms[i]); colB[i] = Math.sin(Ms[i]) }
+      } else {
+        keplerSinCosArray(Ms, n, e, sinE, cosE) // the model's array solver (kepler.ts)
+        for (let i = 0; i < n; i++) {
+          const cE = cosE[i]
+          const den = 1 - e * cE
+          colA[i] = (cE - e) / den + e
+          colB[i] = sq * sinE[i] / den
+        }
       }
       const res = solve(colA, colB)
       if (!res) continue
