@@ -206,7 +206,7 @@ async function loopDelay(): Promise<{ p99Ms: number; maxMs: number; seconds: num
 }
 
 // --- the API's database timing (server/db/timing.ts), as a difference over the load -------------
-interface RouteTiming { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[] }
+interface RouteTiming { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[]; inQueries?: number[] }
 interface DbTiming { pool: { max: number; maxWaiting: number; maxUsed: number; connects?: number; connectMs?: number; maxConnectMs?: number }; outside: { queries: number; waitMs: number; queryMs: number }; routes: Record<string, RouteTiming> }
 function readDbTiming(): DbTiming | null {
   if (!args['db-timing']) return null
@@ -217,14 +217,20 @@ function reportDbTiming(a: DbTiming | null, b: DbTiming | null): void {
   if (!b) { console.log(`database timing: ${args['db-timing']} unreadable (start the API with STARSWAY_DB_TIMING=${args['db-timing']})`); return }
   const f = (x: number) => x.toFixed(1).padStart(8)
   console.log(`\ndatabase side per route over the load (pool max ${b.pool.max}; most connections in use ${b.pool.maxUsed}, most queries waiting for one ${b.pool.maxWaiting}, since the API started)`)
-  console.log('route                                         n  queries/req  wait ms/req  p99 wait  query ms/req  total ms/req  p99 total')
+  console.log('route                                         n  queries/req  wait ms/req  p99 wait  query ms/req  total ms/req  p99 total   slowest 1 %: wait + queries + rest')
   for (const [k, r] of Object.entries(b.routes).sort()) {
     const o = a?.routes[k]
     const n = r.n - (o?.n ?? 0)
     if (n <= 0) continue
     const waits = r.waits.slice(o?.waits.length ?? 0).sort((x, y) => x - y)
-    const totals = r.totals.slice(o?.totals.length ?? 0).sort((x, y) => x - y)
-    console.log(`${k.slice(0, 42).padEnd(42)} ${String(n).padStart(5)} ${f((r.queries - (o?.queries ?? 0)) / n)}     ${f((r.waitMs - (o?.waitMs ?? 0)) / n)} ${f(quantile(waits, 0.99))}  ${f((r.queryMs - (o?.queryMs ?? 0)) / n)}      ${f((r.totalMs - (o?.totalMs ?? 0)) / n)}  ${f(quantile(totals, 0.99))}`)
+    const from = o?.totals.length ?? 0
+    const totals = r.totals.slice(from).sort((x, y) => x - y)
+    // where the slowest 1 % of requests spent their time: pool wait, queries, the rest (API code, event loop)
+    const slow = r.totals.slice(from).map((t, i) => ({ t, w: r.waits[from + i]!, q: r.inQueries?.[from + i] ?? NaN }))
+      .sort((x, y) => y.t - x.t).slice(0, Math.max(1, Math.ceil(n / 100)))
+    const mean = (f: (x: typeof slow[number]) => number) => slow.reduce((a, x) => a + f(x), 0) / slow.length
+    const split = `${mean((x) => x.w).toFixed(0)} + ${mean((x) => x.q).toFixed(0)} + ${mean((x) => x.t - x.w - x.q).toFixed(0)} ms`
+    console.log(`${k.slice(0, 42).padEnd(42)} ${String(n).padStart(5)} ${f((r.queries - (o?.queries ?? 0)) / n)}     ${f((r.waitMs - (o?.waitMs ?? 0)) / n)} ${f(quantile(waits, 0.99))}  ${f((r.queryMs - (o?.queryMs ?? 0)) / n)}      ${f((r.totalMs - (o?.totalMs ?? 0)) / n)}  ${f(quantile(totals, 0.99))}   ${split}`)
   }
   const nc = (b.pool.connects ?? 0) - (a?.pool.connects ?? 0)
   if (b.pool.connects !== undefined) console.log(`connections opened during the load: ${nc}${nc ? `, ${(((b.pool.connectMs ?? 0) - (a?.pool.connectMs ?? 0)) / nc).toFixed(0)} ms each on average (slowest since the start ${(b.pool.maxConnectMs ?? 0).toFixed(0)} ms)` : ''}`)

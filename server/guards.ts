@@ -69,18 +69,47 @@ export function team(min: Role): Guard {
     const teamId = routeId(req, 'teamId', 'Team')
     const token = res.locals.apiToken as { teamId: number } | undefined
     if (token && token.teamId !== teamId) throw new NotFoundError('Team')
-    const m = await s.models.Membership.findOne({ where: { userId: user.id, teamId }, include: [{ model: s.models.Team, as: 'team', required: true }] })
+    // plain SQL mapped onto the models (see starForUser)
+    const [m] = await s.sequelize.query(
+      `SELECT m.*, t.name AS team_name, t.created_at AS team_created_at, t.updated_at AS team_updated_at
+         FROM memberships m JOIN teams t ON t.id = m.team_id WHERE m.user_id = :userId AND m.team_id = :teamId`,
+      { replacements: { userId: user.id, teamId }, model: s.models.Membership, mapToModel: true },
+    )
     const membership = checkMembership(res, m, teamId, min, 'Team')
-    res.locals.scope = { membership, team: membership.team! } satisfies Scope
+    const v = membership.dataValues as unknown as Record<string, unknown>
+    const t = s.models.Team.build({ id: teamId, name: v.team_name as string, createdAt: v.team_created_at as Date, updatedAt: v.team_updated_at as Date }, { isNewRecord: false, raw: true })
+    dropExtra(membership, ['team_name', 'team_created_at', 'team_updated_at'])
+    res.locals.scope = { membership, team: t } satisfies Scope
   })
 }
 
-/** Star `id` (not archived) with the user's membership of its team as `viewer` (null: not a member), in one query. */
-function starForUser(s: Services, id: number, userId: number): Promise<Star | null> {
-  return s.models.Star.findOne({
-    where: { id, archivedAt: null },
-    include: [{ model: s.models.Membership, as: 'viewer', required: false, where: { userId } }],
-  })
+/**
+ * Star `id` (not archived) with the user's membership of its team as `viewer` (null: not a member),
+ * in one query; plain SQL mapped onto the models, as findOne with an include cost more of the
+ * event loop than the query took (CPU profile under load, issue 11).
+ */
+async function starForUser(s: Services, id: number, userId: number): Promise<Star | null> {
+  const [st] = await s.sequelize.query(
+    `SELECT s.*, m.id AS viewer_id, m.role AS viewer_role, m.created_at AS viewer_created_at, m.updated_at AS viewer_updated_at
+       FROM stars s LEFT JOIN memberships m ON m.team_id = s.team_id AND m.user_id = :userId
+      WHERE s.id = :id AND s.archived_at IS NULL`,
+    { replacements: { id, userId }, model: s.models.Star, mapToModel: true },
+  )
+  if (!st) return null
+  const v = st.dataValues as unknown as Record<string, unknown>
+  const viewer = v.viewer_id == null ? null : s.models.Membership.build(
+    { id: v.viewer_id as number, userId, teamId: st.teamId, role: v.viewer_role as Role, createdAt: v.viewer_created_at as Date, updatedAt: v.viewer_updated_at as Date },
+    { isNewRecord: false, raw: true },
+  )
+  dropExtra(st, ['viewer_id', 'viewer_role', 'viewer_created_at', 'viewer_updated_at'])
+  st.viewer = viewer
+  return st
+}
+
+/** Removes the joined columns from an instance mapped from plain SQL (they are not its attributes). */
+function dropExtra(instance: object, keys: string[]): void {
+  const i = instance as { dataValues: Record<string, unknown>; _previousDataValues: Record<string, unknown> }
+  for (const k of keys) { delete i.dataValues[k]; delete i._previousDataValues[k] }
 }
 
 /** A guard that requires a team role, labelled with that role (for the API description). */

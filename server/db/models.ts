@@ -80,7 +80,7 @@ export class Star extends Model<InferAttributes<Star>, InferCreationAttributes<S
   declare archivedAt: Date | null
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
-  /** The signed-in user's membership of the star's team, when loaded with it (server/guards.ts); null: none. */
+  /** The signed-in user's membership of the star's team, when loaded with it (server/guards.ts starForUser); null: none. */
   declare viewer?: NonAttribute<Membership | null>
 }
 
@@ -247,8 +247,6 @@ export function initModels(sequelize: Sequelize): Models {
   Invitation.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
   PasswordReset.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Star.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
-  // a star and the user's membership of its team in one query (the access guards; include with where: { userId })
-  Star.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'viewer', constraints: false })
   RawFile.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
   Dataset.belongsTo(Star, { foreignKey: 'starId', as: 'star' })
   Dataset.belongsTo(RawFile, { foreignKey: 'rawFileId', as: 'rawFile' })

@@ -11,7 +11,7 @@ import type { Request, Response } from 'express'
 import type { Sequelize } from 'sequelize'
 
 interface RequestDb { queries: number; waitMs: number; queryMs: number }
-interface RouteTotals { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[] }
+interface RouteTotals { n: number; queries: number; waitMs: number; queryMs: number; totalMs: number; waits: number[]; totals: number[]; inQueries: number[] }
 
 const store = new AsyncLocalStorage<RequestDb>()
 const routes = new Map<string, RouteTotals>()
@@ -64,7 +64,7 @@ export function instrument(sequelize: Sequelize, max: number): void {
   setInterval(() => {
     const out = {
       at: new Date().toISOString(), pool, outside,
-      routes: Object.fromEntries([...routes].map(([k, r]) => [k, { n: r.n, queries: r.queries, waitMs: r.waitMs, queryMs: r.queryMs, totalMs: r.totalMs, waits: r.waits, totals: r.totals }])),
+      routes: Object.fromEntries(routes),
     }
     try { writeFileSync(file!, JSON.stringify(out)) } catch { /* diagnostic only */ }
   }, 2000).unref()
@@ -77,10 +77,10 @@ export function timeRequest(req: Request, res: Response, next: () => void): void
   const t0 = performance.now()
   res.on('finish', () => {
     const key = `${req.method} ${(req.route as { path?: string } | undefined)?.path ?? req.path}`
-    const r = routes.get(key) ?? { n: 0, queries: 0, waitMs: 0, queryMs: 0, totalMs: 0, waits: [], totals: [] }
+    const r = routes.get(key) ?? { n: 0, queries: 0, waitMs: 0, queryMs: 0, totalMs: 0, waits: [], totals: [], inQueries: [] }
     const total = performance.now() - t0
     r.n++; r.queries += st.queries; r.waitMs += st.waitMs; r.queryMs += st.queryMs; r.totalMs += total
-    r.waits.push(Math.round(st.waitMs)); r.totals.push(Math.round(total))
+    r.waits.push(Math.round(st.waitMs)); r.totals.push(Math.round(total)); r.inQueries.push(Math.round(st.queryMs))
     routes.set(key, r)
   })
   store.run(st, next)
