@@ -4,8 +4,9 @@
 // over the last minute of the load (from /api/health; use --duration 60 or more).
 //
 //   node --import tsx scripts/load.ts [--url http://127.0.0.1:3000] [--users 50] [--duration 120]
-//        [--pid API_PID] [--settle 60] [--password starsway-demo] [--db-timing FILE]
+//        [--pid API_PID] [--settle 60] [--password starsway-demo] [--db-timing FILE] [--reads-only]
 //
+// --reads-only: the same users and reads, without the periodograms and fits (their effect on reads).
 // --db-timing: the file an API started with STARSWAY_DB_TIMING=FILE writes (server/db/timing.ts);
 // then the database side is printed per route: queries per request, time waiting for a pool
 // connection and time in queries (means, and the p99 of the pool wait), over the load only.
@@ -29,6 +30,7 @@ const { values: args } = parseArgs({
     password: { type: 'string', default: 'starsway-demo' },
     seed: { type: 'string', default: '11' },
     'db-timing': { type: 'string' },
+    'reads-only': { type: 'boolean', default: false },
   },
 })
 const BASE = args.url!.replace(/\/$/, '')
@@ -164,7 +166,8 @@ async function setUp(): Promise<{ sessions: Session[]; world: World }> {
 }
 
 async function user(s: Session, w: World, until: number): Promise<void> {
-  const actions = ACTIONS.filter((a) => !a.writes || s.writes)
+  // --reads-only: nobody runs periodograms or fits during the load (is the reads' tail theirs?)
+  const actions = ACTIONS.filter((a) => !a.writes || (s.writes && !args['reads-only']))
   const total = actions.reduce((t, a) => t + a.weight, 0)
   while (Date.now() < until) {
     let r = rand() * total
