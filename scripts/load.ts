@@ -219,7 +219,7 @@ function reportDbTiming(a: DbTiming | null, b: DbTiming | null): void {
   if (!args['db-timing']) return
   if (!b) { console.log(`database timing: ${args['db-timing']} unreadable (start the API with STARSWAY_DB_TIMING=${args['db-timing']})`); return }
   const f = (x: number) => x.toFixed(1).padStart(8)
-  console.log(`\ndatabase side per route over the load (pool max ${b.pool.max}; most connections in use ${b.pool.maxUsed}, most queries waiting for one ${b.pool.maxWaiting}, since the API started)`)
+  console.log(`\ndatabase side per route over the load (pool max ${b.pool.max}; most connections in use ${b.pool.maxUsed}, most queries waiting for one ${b.pool.maxWaiting}, since the API started, after its warm-up)`)
   console.log('route                                         n  queries/req  wait ms/req  p99 wait  query ms/req  total ms/req  p99 total   slowest 1 %: wait + queries + rest')
   for (const [k, r] of Object.entries(b.routes).sort()) {
     const o = a?.routes[k]

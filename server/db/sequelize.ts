@@ -1,5 +1,5 @@
 import { Sequelize } from 'sequelize'
-import { instrument, timingOptions } from './timing.ts'
+import { instrument, resetPoolPeaks, timingOptions } from './timing.ts'
 
 export interface PoolOptions {
   /** Most connections open at once (default 20). */
@@ -42,4 +42,5 @@ export async function warmPool(sequelize: Sequelize): Promise<void> {
   const cm = sequelize.connectionManager
   const opened = await Promise.allSettled(Array.from({ length: n }, () => cm.getConnection({ type: 'write' })))
   for (const c of opened) if (c.status === 'fulfilled') cm.releaseConnection(c.value)
+  resetPoolPeaks() // the diagnostic's peaks describe requests, not this
 }

@@ -86,5 +86,8 @@ export function timeRequest(req: Request, res: Response, next: () => void): void
   store.run(st, next)
 }
 
+/** Forgets the pool's peaks (after warmPool opened every connection at once). */
+export function resetPoolPeaks(): void { pool.maxWaiting = 0; pool.maxUsed = 0 }
+
 /** Forgets the totals (tests). */
 export function resetTiming(): void { routes.clear(); outside = { queries: 0, waitMs: 0, queryMs: 0 }; pool = { max: pool.max, waiting: 0, maxWaiting: 0, maxUsed: 0, connects: 0, connectMs: 0, maxConnectMs: 0 }; connectStart = [] }
