@@ -16,6 +16,8 @@ export interface BenchRow {
   referenceMs: number | null
   ratio: number | null
   target: string
+  /** Largest ratio that meets the target (default 1). */
+  ratioMax?: number
   note?: string
   /** For accuracy rows: max |fast − direct| / max(direct). */
   maxRelError?: number
