@@ -67,6 +67,13 @@ describe('Keplerian fit (maximum likelihood, jitter in quadrature — Ford 2006)
     expect(lnL(s)).toBeGreaterThan(lnL(s * 1.01))
     expect(lnL(s)).toBeGreaterThan(lnL(s * 0.99))
     expect(jitterMle([0.1, -0.1], [1, 1], [0, 1])).toBe(0)
+    // the derivative vanishes there, from any start (Newton inside its bracket)
+    const g = (j: number): number => r.reduce((acc, ri, i) => { const V = dy[i] ** 2 + j * j; return acc + ri * ri / (V * V) - 1 / V }, 0)
+    for (const start of [undefined, 0.01, s, 2.5, 100]) {
+      const t = jitterMle(r, dy, [0, 1, 2, 3, 4, 5], start)
+      expect(Math.abs(t - s), `start ${start}`).toBeLessThan(1e-9 * s)
+      expect(Math.abs(g(t))).toBeLessThan(1e-10)
+    }
   })
 
   it('holds fixed parameters fixed and reports zero error for them', () => {
