@@ -110,12 +110,18 @@ def physical(chain, fixed):
     return out
 
 
-def main(inp, out):
+def read_input(inp):
+    """The input file, the held hyperparameters (or None) and the log posterior it defines."""
     with open(inp) as fh:
         d = json.load(fh)
     t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
     fixed = d.get('fixed')
     lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed, float(d['start'][4]))
+    return d, fixed, lp
+
+
+def main(inp, out):
+    d, fixed, lp = read_input(inp)
     seed = int(d.get('seed', 1))
     rng = np.random.default_rng(seed)
     start = np.asarray(d['start'], dtype=float)
@@ -169,11 +175,7 @@ def main(inp, out):
 
 
 def log_prob_at(inp, out):
-    with open(inp) as fh:
-        d = json.load(fh)
-    t, y, dy = (np.asarray(d[k], dtype=float) for k in ('t', 'y', 'dy'))
-    fixed = d.get('fixed')
-    lp = make_log_prob(t, y, dy, d['prot']['mu'], d['prot']['sigma'], d['period']['min'], d['period']['max'], fixed, float(d['start'][4]))
+    d, fixed, lp = read_input(inp)
     vals = [lp(np.asarray(x, dtype=float)) for x in d['points']]
     res = {
         'source': 'ln posterior (unnormalised) of scripts/reference/sampler_gp_emcee.py: dense numpy/scipy GP likelihood (scipy.linalg.cho_factor) and the priors of its docstring',

@@ -170,6 +170,24 @@ export function priorValue(p: FitElements, param: PlanetParam): number {
   }
 }
 
+/**
+ * The gradient g of the cost with what pushes a parameter past its bound removed (into `out`): K held
+ * at 0 by a gradient pushing it below, the outward radial part of (√e cos ω, √e sin ω) at e = E_MAX,
+ * √e pushed above √E_MAX. The optimiser's convergence test reads it, so a fit resting on a bound converges.
+ */
+export function projectGradient(L: FitLayout, x: ArrayLike<number>, g: ArrayLike<number>, out: Float64Array): void {
+  out.set(g)
+  const atEmax = (e: number): boolean => e >= E_MAX * (1 - 1e-9)
+  for (const pl of L.layouts) {
+    if (pl.iK >= 0 && x[pl.iK] === 0 && out[pl.iK] > 0) out[pl.iK] = 0
+    if (pl.ecc === 'both') {
+      const a = x[pl.iA], b = x[pl.iB], rr = Math.hypot(a, b)
+      const radial = rr > 0 ? (out[pl.iA] * a + out[pl.iB] * b) / rr : 0 // descent leaves the disc when < 0
+      if (atEmax(rr * rr) && radial < 0) { out[pl.iA] -= radial * a / rr; out[pl.iB] -= radial * b / rr }
+    } else if (pl.ecc === 'sqrte' && atEmax(x[pl.iA] * x[pl.iA]) && out[pl.iA] < 0) out[pl.iA] = 0
+  }
+}
+
 /** K → −K with the same velocity curve, when planet k's free parameters can express it (see `project`). */
 function flipSign(L: FitLayout, x: Float64Array, k: number): void {
   const pl = L.layouts[k]

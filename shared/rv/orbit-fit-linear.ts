@@ -33,6 +33,18 @@ export function linearColumn(data: RvData, nInst: number, epoch: number, i: numb
   return j === nInst ? dt : dt * dt
 }
 
+/** The linear part (offset of point i's instrument plus the trend) at coefficients β. */
+function linearValue(data: RvData, epoch: number, nLin: number, beta: ArrayLike<number>, i: number): number {
+  const nInst = data.instrumentNames.length
+  let m = beta[data.instrument[i]]
+  if (nLin > nInst) {
+    const dt = data.t[i] - epoch
+    m += beta[nInst] * dt
+    if (nLin > nInst + 1) m += beta[nInst + 1] * dt * dt
+  }
+  return m
+}
+
 /** Reusable buffers of the linear solve (`nLin` = instruments + trend terms). */
 export interface LinearScratch {
   ata: Float64Array
@@ -81,15 +93,7 @@ export function solveLinear(
   if (!cholesky(l, nLin)) return false
   beta.set(atb)
   choleskySolve(l, nLin, beta)
-  for (let i = 0; i < n; i++) {
-    let m = beta[instrument[i]]
-    if (nLin > nInst) {
-      const dt = t[i] - epoch
-      m += beta[nInst] * dt
-      if (nLin > nInst + 1) m += beta[nInst + 1] * dt * dt
-    }
-    resid[i] = y[i] - kep[i] - m
-  }
+  for (let i = 0; i < n; i++) resid[i] = y[i] - kep[i] - linearValue(data, epoch, nLin, beta, i)
   return true
 }
 
@@ -120,9 +124,5 @@ export function removeLinearFit(data: RvData, p: LinearProjection, w: ArrayLike<
     if (nLin > nInst) { const dt = t[i] - epoch; beta[nInst] += wd * dt; if (nLin > nInst + 1) beta[nInst + 1] += wd * dt * dt }
   }
   choleskySolve(p.l, nLin, beta)
-  for (let i = 0; i < n; i++) {
-    let m = beta[instrument[i]]
-    if (nLin > nInst) { const dt = t[i] - epoch; m += beta[nInst] * dt; if (nLin > nInst + 1) m += beta[nInst + 1] * dt * dt }
-    out[i] = d[i] - m
-  }
+  for (let i = 0; i < n; i++) out[i] = d[i] - linearValue(data, epoch, nLin, beta, i)
 }

@@ -1,13 +1,12 @@
 /**
  * Levenberg–Marquardt (Levenberg 1944; Marquardt 1963, SIAM J. Appl. Math. 11, 431, with its
  * diagonal scaling) on the whitened residual vector of `orbit-fit-objective.ts`, with the
- * variable-projection Jacobian of `orbit-fit-jacobian.ts` and projection onto the bounds. A step is accepted only if it lowers
- * the cost, so the recorded cost history never rises. Between accepted steps an optional jitter
+ * variable-projection Jacobian of `orbit-fit-jacobian.ts` and projection onto the bounds (the
+ * convergence test uses the projected gradient). A step is accepted only if it lowers the cost, so the recorded cost history never rises. Between accepted steps an optional jitter
  * half-step (`orbit-fit-jitter.ts`) re-solves the jitters: a coordinate ascent on ln L.
  */
 import { cholesky, choleskySolve } from './linalg.ts'
-import { project, type FitLayout } from './orbit-fit-layout.ts'
-import { E_MAX } from './orbit-fit-types.ts'
+import { project, projectGradient, type FitLayout } from './orbit-fit-layout.ts'
 import { nGaussianPriors, residualVector, type Workspace } from './orbit-fit-objective.ts'
 import { jacobian, jacobianScratch } from './orbit-fit-jacobian.ts'
 import type { JitterHook } from './orbit-fit-jitter.ts'
@@ -72,17 +71,8 @@ export function levenbergMarquardt(L: FitLayout, ws: Workspace, x0: Float64Array
     }
     for (let a = 0; a < nf; a++) for (let b = 0; b < a; b++) H[a * nf + b] = H[b * nf + a]
     let gmax = 0
-    // projected gradient: what pushes a parameter past its bound (K below 0, e above E_MAX) does not
-    // count, nor a parameter the model does not depend on (K = 0 leaves that planet's others free)
-    gp.set(g)
-    for (const pl of L.layouts) {
-      if (pl.iK >= 0 && x[pl.iK] === 0 && gp[pl.iK] > 0) gp[pl.iK] = 0
-      if (pl.ecc === 'both') {
-        const a = x[pl.iA], b = x[pl.iB], rr = Math.hypot(a, b)
-        const out = rr > 0 ? (gp[pl.iA] * a + gp[pl.iB] * b) / rr : 0 // descent leaves the disc when out < 0
-        if (rr * rr >= E_MAX * (1 - 1e-9) && out < 0) { gp[pl.iA] -= out * a / rr; gp[pl.iB] -= out * b / rr }
-      } else if (pl.ecc === 'sqrte' && x[pl.iA] * x[pl.iA] >= E_MAX * (1 - 1e-9) && gp[pl.iA] < 0) gp[pl.iA] = 0
-    }
+    projectGradient(L, x, g, gp)
+    // a parameter the model does not depend on (K = 0 leaves that planet's others free) does not count
     for (let a = 0; a < nf; a++) if (H[a * nf + a] > 0) gmax = Math.max(gmax, Math.abs(gp[a]) / Math.sqrt(H[a * nf + a]))
     if (gmax < 1e-8 * Math.sqrt(Math.max(cost, 1e-300)) && jitterChange < 1e-7) { status = 'converged'; break }
     // flat: −2 ln L (the history, with the jitter half-steps) fell by less than FLAT_DROP over the

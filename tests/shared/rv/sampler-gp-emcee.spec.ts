@@ -2,6 +2,7 @@ import { describe, it, expect } from 'vitest'
 import { readFileSync } from 'node:fs'
 import { fitKeplerians, samplePosterior } from '../../../shared/rv/index.ts'
 import { gpSamplerData, GP_SAMPLER_CASE } from '../../../scripts/reference/sampler_gp_input.ts'
+import { expectAgreesWithEmcee, type RefParam } from './emcee-agreement.ts'
 
 // One planet + GP (rotation kernel, our O(N) solver; amplitude and rotation period sampled, decay time and
 // shape held: GP_SAMPLER_CASE) on the seeded spotted star (60 rows), sampled by our
@@ -9,7 +10,6 @@ import { gpSamplerData, GP_SAMPLER_CASE } from '../../../scripts/reference/sampl
 // data and priors (scripts/reference/sampler_gp_emcee.py → fixtures/sampler/gp-one-planet-emcee.json;
 // the fixture states the emcee run's length in autocorrelation times and each median's Monte-Carlo
 // error sd / √(N/τ)). Agreement: medians within 4, 16/84 % within 5 combined Monte-Carlo errors.
-interface RefParam { median: number; lo: number; hi: number; mcError: number }
 const ref = JSON.parse(readFileSync(new URL('../../../fixtures/sampler/gp-one-planet-emcee.json', import.meta.url), 'utf8')) as
   { steps: number; tauMax: number; parameters: Record<string, RefParam> }
 
@@ -23,17 +23,6 @@ describe('posterior with a GP noise model against emcee + a dense numpy GP', () 
     expect(r.diagnostics.names).toEqual(['ln P b', 'ln K b', '√e cos ω b', '√e sin ω b', 'Tc b', 'offset North', 'ln jitter North', 'ln GP amplitude', 'rotation period'])
     expect(r.parameters.find((p) => p.name === 'GP decay time')).toMatchObject({ median: 120, fixed: true, unit: 'd' })
     expect(r.noisePriors[0]).toMatch(/rotation period ~ N\(23.5, 2.00²\) d/)
-    const tauMax = Math.max(...r.diagnostics.tau)
-    const nEff = ((r.settings.stepsDone - r.settings.burn) * r.settings.walkers) / tauMax
-    const units: Record<string, string> = { 'GP amplitude': 'm/s', 'GP decay time': 'd', 'rotation period': 'd', 'GP shape': '' }
-    for (const [name, q] of Object.entries(ref.parameters)) {
-      const ours = r.parameters.find((p) => p.name === name)
-      expect(ours, name).toBeDefined()
-      if (name in units) expect(ours!.unit).toBe(units[name])
-      const mc = Math.hypot(q.mcError, ours!.sd / Math.sqrt(nEff))
-      expect(Math.abs(ours!.median - q.median), `${name} median ${ours!.median} vs ${q.median} (MC ${mc})`).toBeLessThan(4 * mc)
-      expect(Math.abs(ours!.lo - q.lo), `${name} 16 % ${ours!.lo} vs ${q.lo} (MC ${mc})`).toBeLessThan(5 * mc)
-      expect(Math.abs(ours!.hi - q.hi), `${name} 84 % ${ours!.hi} vs ${q.hi} (MC ${mc})`).toBeLessThan(5 * mc)
-    }
+    expectAgreesWithEmcee(r, ref.parameters)
   }, 3_600_000)
 })
