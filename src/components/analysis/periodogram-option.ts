@@ -181,7 +181,7 @@ export function buildPeriodogramChart(input: PeriodogramChartInput): EChartsOpti
     ],
     xAxis: showWindow ? [xAxis(0, false), xAxis(1, true)] : [xAxis(0, true)],
     yAxis: [
-      { type: 'value', gridIndex: 0, min: 0, max: Math.min(1, Math.ceil((top * 1.1) / 0.05) * 0.05), name: POWER_AXIS, nameLocation: 'middle', nameGap: 48, splitLine: { lineStyle: { color: '#eceff1' } } },
+      { type: 'value', gridIndex: 0, min: 0, max: Math.min(1, Math.ceil((top * 1.1) * 20) / 20) /* in 0.05 steps, divided so the label has no float noise */, name: POWER_AXIS, nameLocation: 'middle', nameGap: 48, splitLine: { lineStyle: { color: '#eceff1' } } },
       ...(showWindow ? [{ type: 'value' as const, gridIndex: 1, min: 0, max: 1, name: 'Window', nameLocation: 'middle' as const, nameGap: 48, splitNumber: 2 }] : []),
     ],
     series,

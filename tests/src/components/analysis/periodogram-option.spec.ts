@@ -71,6 +71,13 @@ describe('periodogram helpers', () => {
     expect((option.yAxis as Array<{ max: number }>)[0]!.max).toBeGreaterThanOrEqual(0.6)
   })
 
+  it('tops the power axis at a round 0.05 step, without float noise in its label', () => {
+    const r = run([{ period: 10, power: 0.31, fap: 1e-5 }])
+    r.result.curve.power = [0.01, 0.31, 0.05, 0.01]
+    const option = buildPeriodogramChart({ run: r, title: 't', showWindow: false })
+    expect(String((option.yAxis as Array<{ max: number }>)[0]!.max)).toBe('0.35')
+  })
+
   it('writes FAP and fitted values for the screen', () => {
     expect([0.1, 0.01, 0.001].map(fapLabel)).toEqual(['10 %', '1 %', '0.1 %'])
     expect(formatFap(1e-12)).toBe('< 1e-10')
