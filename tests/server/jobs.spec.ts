@@ -127,7 +127,9 @@ describe('sampling jobs', { timeout: 60_000 }, () => {
   })
 
   it('puts a run back in the queue when its worker stops gracefully; the next worker resumes it', async () => {
-    const steps = 8000
+    // long enough that the poller (100 ms) sees it running between checkpoints on a loaded machine:
+    // at 8000 steps a run once finished before it was seen
+    const steps = 30_000
     const res = await w.analyst.post(`/api/models/${w.modelId}/sampling`, { walkers: 16, steps, thin: 10, seed: 9, untilConverged: false }).expect(201)
     await waitForRun(w, res.body.id, (r) => r.state === 'running' && (r.progress?.stepsDone ?? 0) > 500, 20_000, 'running')
     await workers.stop()
@@ -136,12 +138,12 @@ describe('sampling jobs', { timeout: 60_000 }, () => {
     expect(parked.checkpointStep).toBeGreaterThan(0)
     // checkpoints by steps alone (no least time): the chunk count then does not depend on the machine's speed
     workers = await startJobWorkers(w.services, { concurrency: 1, pollingIntervalSeconds: 0.5, staleSeconds: 5, checkpointEvery: 100, checkpointMinMs: 0 })
-    const run = await waitForRun(w, res.body.id, (r) => r.state === 'succeeded' || r.state === 'failed', 30_000, 'succeeded')
+    const run = await waitForRun(w, res.body.id, (r) => r.state === 'succeeded' || r.state === 'failed', 90_000, 'succeeded')
     expect(run.state).toBe('succeeded')
     expect(run.attempts).toBe(2)
     expect(run.resumedFromStep).toBe(parked.checkpointStep)
     expect(run.result!.settings).toMatchObject({ steps, stepsDone: steps, stopped: false })
-  })
+  }, 180_000)
 
   it('cancels a queued run before any worker takes it', async () => {
     await workers.stop()
