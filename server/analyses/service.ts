@@ -1,4 +1,4 @@
-import { QueryTypes, type Transaction } from 'sequelize'
+import { QueryTypes, literal, type Transaction } from 'sequelize'
 import type { Services } from '../services.ts'
 import type { Star, User } from '../db/models.ts'
 import { analysisModels, type FitModel, type FitModelVersion, type PeriodogramRun } from '../db/models-analysis.ts'
@@ -14,7 +14,8 @@ import type {
   PeriodogramRun as PeriodogramRunJson, PeriodogramSummary, RunPeriodogramRequest, SearchRequest, SearchResponse, UpdateModelRequest,
 } from '../../shared/api/analyses.ts'
 import { modelSpecSchema } from '../../shared/api/analyses.ts'
-import { enforceTeamBound, fullCurveNote, readCurves, saveCurves, splitForStorage, withCurves } from './periodogram-store.ts'
+import { enforceTeamBound, fullCurveNote, readCurves, saveCurves, splitForStorage, teamFullBytes, withCurves, type RunCurves } from './periodogram-store.ts'
+import { decodeCurves } from './periodogram-codec.ts'
 
 export function pool(s: Services): ComputePool { return s.compute ?? defaultPool() }
 export const M = (s: Services) => analysisModels(s.sequelize, s.models)
@@ -131,14 +132,26 @@ export async function runPeriodogram(s: Services, actor: User, star: Star, req: 
     await saveCurves(s, transaction, r.id, stored.display, stored.full)
     return r
   })
-  const bound = await enforceTeamBound(s, star.teamId, s.config.periodogramTeamBytes, run.id)
-  if (bound.dropped.length) {
-    await record(s, {
-      teamId: star.teamId, userId: actor.id, action: 'periodogram.curves_dropped', entity: 'periodogram', entityId: run.id,
-      detail: { runIds: bound.dropped, keptBytes: bound.bytes, limitBytes: s.config.periodogramTeamBytes },
-    })
+  // The team's bound: one sum after the commit (so it sees concurrent runs), the locked pass only when over.
+  const bound = s.config.periodogramTeamBytes
+  if (stored.full && await teamFullBytes(s, star.teamId) > bound) {
+    const kept = await enforceTeamBound(s, star.teamId, bound, run.id)
+    if (kept.dropped.length) {
+      await record(s, {
+        teamId: star.teamId, userId: actor.id, action: 'periodogram.curves_dropped', entity: 'periodogram', entityId: run.id,
+        detail: { runIds: kept.dropped, keptBytes: kept.bytes, limitBytes: bound },
+      })
+    }
   }
-  return getPeriodogram(s, run.id)
+  // The answer is what a read of the run gives (the plot curves through the codec), without reading it back.
+  const curves: RunCurves = {
+    display: decodeCurves(stored.display), full: null, fullState: stored.full ? 'stored' : 'none',
+    fullBytes: stored.full?.byteLength ?? 0, fullDroppedAt: null,
+  }
+  const json: PeriodogramRunJson = { ...runJson(run), createdBy: ref(actor) }
+  json.result = withCurves(stored.json, curves)
+  json.result.downsampling = `${stored.json.downsampling}; ${fullCurveNote(run.id, curves, false, bound)}`
+  return json
 }
 
 /**
@@ -200,14 +213,26 @@ export async function loadModel(s: Services, id: number): Promise<FitModel | nul
 export async function modelDetail(s: Services, id: number): Promise<ModelDetail> {
   const m = await loadModel(s, id)
   if (!m) throw new NotFoundError('Model')
-  const versions = await M(s).FitModelVersion.findAll({ where: { modelId: id }, order: [['version', 'ASC']], include: withAuthor(s) })
-  const cur = versions.find((v) => v.version === m.currentVersion)!
+  // Every version's row, but only the current one's result (a result holds every residual; a long
+  // history would otherwise be read and parsed in full for one page); the others give their BIC.
+  const current = Number(m.currentVersion)
+  const versions = await M(s).FitModelVersion.findAll({
+    where: { modelId: id }, order: [['version', 'ASC']], include: withAuthor(s),
+    attributes: {
+      exclude: ['result'],
+      include: [
+        [literal(`CASE WHEN "FitModelVersion"."version" = ${current} THEN "FitModelVersion"."result" END`), 'result'],
+        [literal(`("FitModelVersion"."result" -> 'stats' ->> 'bic')::float8`), 'bic'],
+      ],
+    },
+  })
+  const cur = versions.find((v) => v.version === current)!
   return {
     ...summaryJson(m, cur),
     current: versionJson(cur),
     versions: versions.map((v) => ({
       id: v.id, version: v.version, name: v.name, status: v.status, note: v.note, planets: v.spec.planets.length,
-      bic: v.result?.stats.bic ?? null, author: ref(v.authorUser), createdAt: iso(v.createdAt),
+      bic: (v.get('bic') as number | null) ?? null, author: ref(v.authorUser), createdAt: iso(v.createdAt),
     })),
   }
 }

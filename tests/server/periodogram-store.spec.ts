@@ -64,6 +64,8 @@ describe('stored runs', () => {
     expect(r.window.period.length).toBe(r.curve.period.length)
     expect(r.keplerian!.curve.period.length).toBeGreaterThan(100)
     expect(r.downsampling).toMatch(/full curve stored .*\?full=1/)
+    // the run's answer is built without reading it back: it must equal what a read gives
+    expect((await a.get(`/api/periodograms/${first.id}`).expect(200)).body).toEqual(first)
     const full = (await a.get(`/api/periodograms/${first.id}?full=1`).expect(200)).body as PeriodogramRun
     expect(full.result.curve.period.length).toBe(r.grid.count)
     expect(full.result.keplerian!.curve.period.length).toBe(r.keplerian!.count)

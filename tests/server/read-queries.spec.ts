@@ -62,3 +62,28 @@ describe('database round trips of the frequent reads', () => {
     }
   })
 })
+
+describe('database round trips of the frequent writes', () => {
+  it('a periodogram run and a fit keep to a fixed number of queries (no read-back of what was just written)', async () => {
+    let before = queries
+    await analyst.post(`/api/stars/${starId}/periodograms`, { kind: 'rv' }).expect(201)
+    const nPeriodogram = queries - before
+    const models = (await analyst.get(`/api/stars/${starId}/models`).expect(200)).body as Array<{ id: number; name: string }>
+    const fitted = models.find((m) => m.name === 'Fitted')!
+    before = queries
+    await analyst.post(`/api/models/${fitted.id}/fit`, {}).expect(200)
+    const nFit = queries - before
+    // the detail reads only the current version's result; every version still shows its own BIC
+    const detail = (await analyst.get(`/api/models/${fitted.id}`).expect(200)).body as { currentVersion: number; current: { version: number; result: { stats: { bic: number } } }; versions: Array<{ version: number; bic: number | null }> }
+    expect(detail.versions.length).toBe(detail.currentVersion)
+    expect(detail.current.version).toBe(detail.currentVersion)
+    for (const v of detail.versions) {
+      const one = (await analyst.get(`/api/models/${fitted.id}/versions/${v.version}`).expect(200)).body as { result: { stats: { bic: number } } | null }
+      expect(v.bic).toBe(one.result?.stats.bic ?? null)
+    }
+    expect(detail.versions.at(-1)!.bic).toBe(detail.current.result.stats.bic)
+    console.log('queries: periodogram', nPeriodogram, 'fit', nFit)
+    expect(nPeriodogram).toBeLessThanOrEqual(9)
+    expect(nFit).toBeLessThanOrEqual(13)
+  })
+})
