@@ -2,7 +2,7 @@
 // Gaussian process (`fitWithGp`), both returned in the white fitter's shape plus a `noise` section,
 // so the stored JSON, the warnings and the plots read them the same way. Runs in the worker pool.
 import {
-  fitSpec, fitWithGp, jitterMle, meanEpoch, startsFromSpec, GP_DENSE_MAX,
+  fitSpec, fitWithGp, flattenPriors, jitterMle, meanEpoch, startsFromSpec, GP_DENSE_MAX,
   type FitResult, type GpFitResult, type GpHyperSpec, type PlanetStart, type RvData, type TrendKind,
 } from '../../shared/rv/index.ts'
 import type { FitNoise, InstrumentTermSpec, NoiseModelSpec, PlanetSpec } from '../../shared/api/analyses.ts'
@@ -87,7 +87,10 @@ export function gpHyperOf(noise: Extract<NoiseModelSpec, { kind: 'gp' }>): GpHyp
 
 const nz = (v: number): number | null => (Number.isFinite(v) ? v : null)
 
-/** The GP fit in the white fitter's shape (errors the GP fit does not give are NaN → null in the JSON). */
+/**
+ * The GP fit in the white fitter's shape (errors the GP fit does not give are NaN → null in the JSON; a
+ * parameter the model fixes has error 0, the white fitter's mark of "fixed", shown so on screen and in reports).
+ */
 export function gpAsPlainFit(data: RvData, r: GpFitResult, epoch: number): PlainFit {
   const n = data.t.length
   const white = Float64Array.from(r.residuals, (v, i) => v - r.activity[i]!)
@@ -102,8 +105,8 @@ export function gpAsPlainFit(data: RvData, r: GpFitResult, epoch: number): Plain
       const u = p.uncertainty
       return {
         period: p.period, K: p.K, e: p.e, omega: w, omegaDeg: p.omegaDeg, tp: p.tp, tc: p.tc, secosw: se * Math.cos(w), sesinw: se * Math.sin(w),
-        uncertainty: { period: u.period, K: u.K, e: u.e, omegaDeg: NaN, tp: NaN, tc: u.tc },
-        covPKe: [u.period ** 2, 0, 0, 0, u.K ** 2, 0, 0, 0, u.e ** 2],
+        uncertainty: { period: u.period, K: u.K, e: u.e, omegaDeg: u.omegaDeg ?? NaN, tp: u.tp ?? NaN, tc: u.tc },
+        covPKe: p.covPKe ?? [u.period ** 2, 0, 0, 0, u.K ** 2, 0, 0, 0, u.e ** 2],
       }
     }),
     instruments: r.instruments.map((ins, k) => {
@@ -162,9 +165,6 @@ export function fitWithNoise(inp: NoiseFitInput): NoiseFitOutput {
     const w = fitWhite(inp, pins)
     return { ...w, noise: whiteNoise(data, w.fit, pins), activity: null }
   }
-  if (planets.some((p) => p.fix?.length || p.priors?.length)) {
-    throw new RangeError('planets: fixed parameters and priors on planets are not taken by the GP fit yet; remove them, or fit with white noise')
-  }
   if (pins.some((p) => p === null) && pins.some((p) => p !== null)) {
     throw new RangeError('instrumentTerms: with a GP noise model pin the jitters of every instrument or of none')
   }
@@ -174,7 +174,7 @@ export function fitWithNoise(inp: NoiseFitInput): NoiseFitOutput {
   const epoch = meanEpoch(data.t)
   const starts = startsFromSpec(data, planets, trend, epoch)
   const r = fitWithGp(data, {
-    planets: starts, gp: gpHyperOf(noise), trend, epoch,
+    planets: starts, priors: flattenPriors(planets), gp: gpHyperOf(noise), trend, epoch,
     jitter: pins.every((p) => p !== null) && pins.length ? (pins as number[]) : 'fit',
   })
   return { fit: gpAsPlainFit(data, r, epoch), starts, noise: gpNoise(data, noise, r, pins), activity: r.activity }

@@ -15,13 +15,23 @@
  * - amplitude(s): flat in ln between 0.01 and 1000 m/s (data units for an indicator);
  * - shape: rotation kernel f flat on [0, 1]; quasi-periodic Γ flat in ln on [0.05, 20];
  * - jitter per instrument: flat in ln between 0.001 and 1000 m/s.
+ * Planets: the free coordinates, fixed parameters (`PlanetStart.fix`) and priors (`GpFitOptions.priors`) are
+ * the white-noise fitter's (orbit-fit-layout.ts: P, K, √e cos ω, √e sin ω, Tc, with fixing e or ω leaving
+ * ω or √e free, a fixed parameter held at its start and left out of the simplex), except that P and K are
+ * searched as ln P and ln K; the stated priors on planet parameters enter ln prior as the white fitter's
+ * (orbit-fit-objective.ts: normalised Gaussians, ω differences wrapped; uniform boxes, −∞ outside), and
+ * the planet's errors are propagated from the Laplace covariance by the white fitter's `planetWithErrors`
+ * (a fixed parameter's error is exactly 0, the fitters' mark of "fixed").
  * "Train on an indicator first": `trainGpOnIndicator` fits the GP alone to an activity indicator
  * (FWHM, S-index …) and returns the kernel shape to reuse, fixed or as the centre of the priors.
  */
-import { radialVelocity, tcToTp, tpToTc, type Keplerian } from './model.ts'
+import { radialVelocity, type Keplerian } from './model.ts'
 import { baseline, checkRvData, type RvData } from './orbit-data.ts'
 import { invertSymmetric } from './linalg.ts'
-import type { PlanetStart, TrendKind } from './orbit-fit-types.ts'
+import type { PlanetParam, PlanetStart, Prior, TrendKind } from './orbit-fit-types.ts'
+import { buildLayout, unpack as unpackPlanet, type FitLayout } from './orbit-fit-layout.ts'
+import { insideUniformPriors, logPrior as planetLogPrior } from './orbit-fit-objective.ts'
+import { planetWithErrors } from './orbit-fit-uncertainty.ts'
 import { checkKernelShape, kernelValue, rotationTerms, type KernelShape } from './gp/kernels.ts'
 import { denseFactor, denseSolve } from './gp/dense.ts'
 import { semiseparableGram } from './gp/semiseparable.ts'
@@ -44,7 +54,10 @@ export interface GpHyperSpec {
 }
 
 export interface GpFitOptions {
+  /** Starts of the planets; `fix` holds parameters at these values (as for the white-noise fitter). */
   planets: PlanetStart[]
+  /** Priors on planet parameters, as the white-noise fitter's `FitOptions.priors` (Gaussian or uniform). */
+  priors?: Prior[]
   gp: GpHyperSpec
   trend?: TrendKind
   epoch?: number
@@ -60,7 +73,10 @@ export interface GpFitOptions {
 
 export interface GpPlanetFit {
   period: number; K: number; e: number; omegaDeg: number; tc: number; tp: number
-  uncertainty: { period: number; K: number; e: number; tc: number }
+  /** 1σ errors; exactly 0 for a parameter held fixed, NaN where undetermined (ω and Tp may be absent). */
+  uncertainty: { period: number; K: number; e: number; tc: number; omegaDeg?: number; tp?: number }
+  /** Covariance of (period, K, e), row-major 3×3, when the errors were computed. */
+  covPKe?: number[]
 }
 
 export interface GpFitResult {
@@ -86,6 +102,8 @@ export interface GpFitResult {
 
 interface Layout {
   np: number
+  /** The planets' part of the free vector: the white-noise fitter's layout (P and K searched in ln). */
+  planet: FitLayout
   nInst: number
   nAmp: number
   freeAmp: boolean
@@ -116,10 +134,7 @@ function checkSpec(o: GpFitOptions, nInst: number): void {
   if (a && (a.length !== 1 && a.length !== nInst)) throw new RangeError(`gp.amplitude.value must have 1 or ${nInst} values`)
   if (Array.isArray(o.jitter) && o.jitter.length !== nInst) throw new RangeError(`jitter must have ${nInst} values (one per instrument)`)
   if (o.jitterStart && o.jitterStart.length !== nInst) throw new RangeError(`jitterStart must have ${nInst} values (one per instrument)`)
-  o.planets.forEach((p, k) => {
-    if (!(p.period > 0)) throw new RangeError(`planets[${k}].period must be > 0`)
-    if (p.tc === undefined && p.tp === undefined) throw new RangeError(`planets[${k}] needs tc or tp`)
-  })
+  // the planets and their priors are checked by the white fitter's `buildLayout`
 }
 
 /** The posterior of the "planets + GP" model over its free coordinates (see the module comment). */
@@ -134,12 +149,15 @@ function buildPosterior(data: RvData, opts: GpFitOptions) {
   const epoch = opts.epoch ?? data.t.reduce((s, v) => s + v, 0) / Math.max(1, n)
   const jitterFree = opts.jitter === undefined || opts.jitter === 'fit'
   const perInst = !!g.amplitude?.perInstrument && nInst > 1
+  const planetLayout = buildLayout(data, { planets: opts.planets, priors: opts.priors, trend, epoch })
+  const PL = planetLayout.layout
+  const nPlanetFree = PL.nFree
   const L: Layout = {
-    np: opts.planets.length, nInst, nAmp: perInst ? nInst : 1,
+    np: opts.planets.length, planet: PL, nInst, nAmp: perInst ? nInst : 1,
     freeAmp: !g.amplitude?.fixed, freeDecay: !g.decayTime?.fixed, freePeriod: !g.period.fixed, freeShape: !g.shape?.fixed,
     freeJitter: jitterFree, nFree: 0,
   }
-  L.nFree = 5 * L.np + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0) + (L.freePeriod ? 1 : 0) + (L.freeShape ? 1 : 0) + (L.freeJitter ? nInst : 0)
+  L.nFree = nPlanetFree + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0) + (L.freePeriod ? 1 : 0) + (L.freeShape ? 1 : 0) + (L.freeJitter ? nInst : 0)
   const nTrend = trend === 'none' ? 0 : trend === 'linear' ? 1 : 2
   const nLin = nInst + nTrend
 
@@ -161,14 +179,26 @@ function buildPosterior(data: RvData, opts: GpFitOptions) {
   const decayStart = g.decayTime?.value ?? 2 * g.period.value
   const jitStart = Array.isArray(opts.jitter) ? opts.jitter : opts.jitterStart ?? new Array<number>(nInst).fill(Math.max(0.1 * medErr, 0.01))
   const periodSigma = g.period.sigma ?? 0.1 * g.period.value
-  const x0: number[] = []
-  const step: number[] = []
-  for (const p of opts.planets) {
-    const e = p.e ?? 0, w = (p.omegaDeg ?? 90) * DEG
-    const tc = p.tc ?? tpToTc(p.tp!, p.period, e, w)
-    x0.push(Math.log(p.period), Math.log(Math.max(p.K, 0.01)), Math.sqrt(e) * Math.cos(w), Math.sqrt(e) * Math.sin(w), tc)
-    step.push(Math.max(0.2 * p.period / Math.max(span, p.period), 1e-4), 0.1, 0.1, 0.1, 0.05 * p.period)
+  // Planets: the white layout's start, P and K as logs, Tc as given (not moved to the revolution nearest the epoch).
+  const x0: number[] = Array.from(planetLayout.x0)
+  const step: number[] = new Array<number>(nPlanetFree).fill(0.1)
+  for (const pl of PL.layouts) {
+    const P = pl.base.period
+    if (pl.iP >= 0) { x0[pl.iP] = Math.log(P); step[pl.iP] = Math.max(0.2 * P / Math.max(span, P), 1e-4) }
+    if (pl.iK >= 0) x0[pl.iK] = Math.log(Math.max(pl.base.K, 0.01))
+    if (pl.ecc === 'omega') step[pl.iA] = 0.5
+    if (pl.iTc >= 0) { x0[pl.iTc] = pl.base.tc; step[pl.iTc] = 0.05 * P }
   }
+  /** The white layout's vector from the planets' part of x (P and K from their logs), into `out`. */
+  const planetVector = (x: ArrayLike<number>, out: Float64Array): Float64Array => {
+    for (let i = 0; i < nPlanetFree; i++) out[i] = x[i]
+    for (const pl of PL.layouts) {
+      if (pl.iP >= 0) out[pl.iP] = Math.exp(x[pl.iP])
+      if (pl.iK >= 0) out[pl.iK] = Math.exp(x[pl.iK])
+    }
+    return out
+  }
+  const xw = new Float64Array(nPlanetFree)
   if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { x0.push(Math.log(ampStart.length === 1 ? ampStart[0] : ampStart[k])); step.push(0.3) }
   if (L.freeDecay) { x0.push(Math.log(decayStart)); step.push(0.3) }
   if (L.freePeriod) { x0.push(Math.log(g.period.start ?? g.period.value)); step.push(Math.min(0.05, periodSigma / g.period.value)) }
@@ -177,20 +207,23 @@ function buildPosterior(data: RvData, opts: GpFitOptions) {
 
   interface Unpacked { orbits: Keplerian[]; amp: number[]; decay: number; period: number; shape: number; jit: number[]; lnPrior: number; ok: boolean }
   const unpack = (x: ArrayLike<number>): Unpacked => {
-    let j = 0, ok = true, lnPrior = 0
+    let ok = true, lnPrior = 0
     const orbits: Keplerian[] = []
+    planetVector(x, xw)
     for (let k = 0; k < L.np; k++) {
-      const P = Math.exp(x[j]), K = Math.exp(x[j + 1]), a = x[j + 2], b = x[j + 3], tc = x[j + 4]
-      const e = a * a + b * b
-      if (!(e < E_LIMIT) || !(K < 1e5)) ok = false
-      const omega = Math.atan2(b, a)
-      orbits.push({ period: P, K, e, omega, tp: ok ? tcToTp(tc, P, e, omega) : tc })
-      j += 5
+      const el = unpackPlanet(PL, xw, k)
+      if (!(el.e < E_LIMIT) || !(el.K < 1e5) || !(el.K >= 0) || !(el.period > 0)) ok = false
+      orbits.push({ period: el.period, K: el.K, e: el.e, omega: el.omega, tp: ok ? el.tp : el.tc })
     }
+    if (PL.priors.length) {
+      if (!insideUniformPriors(PL, xw)) ok = false
+      else lnPrior += planetLogPrior(PL, xw)
+    }
+    let j = nPlanetFree
     const amp: number[] = []
     if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { if (!clampLn(x[j], 0.01, 1000)) ok = false; amp.push(Math.exp(x[j++])) }
     else amp.push(...ampStart)
-    const period = L.freePeriod ? Math.exp(x[L.np * 5 + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0)]) : g.period.value
+    const period = L.freePeriod ? Math.exp(x[nPlanetFree + (L.freeAmp ? L.nAmp : 0) + (L.freeDecay ? 1 : 0)]) : g.period.value
     let decay = decayStart
     if (L.freeDecay) { decay = Math.exp(x[j]); j++ }
     if (L.freePeriod) j++
@@ -273,13 +306,13 @@ function buildPosterior(data: RvData, opts: GpFitOptions) {
     }
   }
 
-  return { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost }
+  return { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost, planetVector }
 }
 
 /** Fits Keplerians + offsets + trend with a GP noise model; see the module comment. */
 export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
-  const { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost } = buildPosterior(data, opts)
-  const priors = describePriors(g, periodSigma, span, jitterFree)
+  const { g, n, span, trend, epoch, jitterFree, L, nInst, nTrend, nLin, order, x0, step, periodSigma, unpack, kernelOf, evaluate, cost, planetVector } = buildPosterior(data, opts)
+  const priors = [...describePriors(g, periodSigma, span, jitterFree), ...describePlanets(opts.planets, L.planet)]
   const maxEval = opts.maxEvaluations ?? 4000 * Math.max(1, L.nFree)
   let x = Float64Array.from(x0), evaluations = 0, converged = true
   if (L.nFree > 0) {
@@ -298,6 +331,8 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
 
   // Errors from the Hessian of −ln posterior in the free coordinates (Laplace approximation).
   const errs = new Float64Array(L.nFree).fill(NaN)
+  /** Covariance of the free coordinates (row-major nFree × nFree; NaN where not computed). */
+  const cov = new Float64Array(L.nFree * L.nFree).fill(NaN)
   let hessNote = ''
   if (!opts.skipUncertainties && L.nFree > 0) {
     const h = step.map((s) => s * 1e-2)
@@ -324,21 +359,13 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
     if (H.every(Number.isFinite)) {
       const { inv, singular } = invertSymmetric(H, m)
       for (let a = 0; a < m; a++) errs[free[a]] = inv[a * m + a] > 0 ? Math.sqrt(inv[a * m + a]) : NaN
+      for (let a = 0; a < m; a++) for (let b = 0; b < m; b++) cov[free[a] * L.nFree + free[b]] = inv[a * m + b]
       if (singular) hessNote += '; some parameters are not constrained by the data (their errors are infinite)'
     } else hessNote += '; the errors could not be computed (the posterior is not smooth at the optimum)'
   }
 
-  const planets: GpPlanetFit[] = u.orbits.map((o, k) => {
-    const j = 5 * k
-    const a = x[j + 2], b = x[j + 3]
-    const e = o.e
-    const se = Math.sqrt((2 * a * errs[j + 2]) ** 2 + (2 * b * errs[j + 3]) ** 2)
-    return {
-      period: o.period, K: o.K, e, omegaDeg: ((o.omega / DEG) % 360 + 360) % 360, tc: x[j + 4], tp: o.tp,
-      uncertainty: { period: o.period * errs[j], K: o.K * errs[j + 1], e: se, tc: errs[j + 4] },
-    }
-  })
-  let j = 5 * L.np
+  const planets = planetsWithErrors(L.planet, planetVector(x, new Float64Array(L.planet.nFree)), errs, cov, L.nFree)
+  let j = L.planet.nFree
   const ampErr: number[] = []
   if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) { ampErr.push(u.amp[k] * errs[j]); j++ }
   else ampErr.push(...u.amp.map(() => NaN))
@@ -367,6 +394,65 @@ export function fitWithGp(data: RvData, opts: GpFitOptions): GpFitResult {
     stats: { nPoints: n, nParams, lnL: best.lnL, lnPosterior: lnPost, bic: nParams * Math.log(n) - 2 * best.lnL, aic: 2 * nParams - 2 * best.lnL },
     residuals, activity, evaluations,
   }
+}
+
+/**
+ * The planets' elements with errors: the Laplace covariance of the planets' coordinates, taken from ln P
+ * and ln K to P and K (C_PP = P² C_lnP lnP, …), propagated to the elements by the white fitter's
+ * `planetWithErrors`. Values are the fitted ones (Tc and Tp on the revolution the fit found them, not moved
+ * to the epoch). A fixed parameter's error is exactly 0; a coordinate resting on a bound is held there for
+ * the errors (no variance, as for the hyperparameters), and an element left with no error at all is NaN.
+ */
+function planetsWithErrors(PL: FitLayout, xw: Float64Array, errs: Float64Array, cov: Float64Array, nFree: number): GpPlanetFit[] {
+  const m = PL.nFree
+  const scale = new Float64Array(m).fill(1)
+  for (const pl of PL.layouts) {
+    if (pl.iP >= 0) scale[pl.iP] = xw[pl.iP]
+    if (pl.iK >= 0) scale[pl.iK] = xw[pl.iK]
+  }
+  const c = new Float64Array(m * m)
+  let any = false
+  for (let a = 0; a < m; a++) {
+    if (!Number.isFinite(errs[a])) continue
+    any = true
+    for (let b = 0; b < m; b++) if (Number.isFinite(errs[b])) c[a * m + b] = scale[a] * scale[b] * cov[a * nFree + b]
+  }
+  return PL.layouts.map((pl, k) => {
+    const el = unpackPlanet(PL, xw, k)
+    const w = planetWithErrors(PL, xw, k, { cov: c, np: m, ok: true }, !any)
+    const fixed = {
+      period: pl.iP < 0, K: pl.iK < 0, e: pl.ecc === 'none' || pl.ecc === 'omega', omegaDeg: pl.ecc === 'none' || pl.ecc === 'sqrte',
+      tc: pl.phaseFixed === 'tc', tp: pl.phaseFixed === 'tp',
+    }
+    const err = (q: keyof typeof fixed): number => (fixed[q] ? 0 : w.uncertainty[q] > 0 ? w.uncertainty[q] : NaN)
+    return {
+      period: el.period, K: el.K, e: el.e, omegaDeg: ((el.omega / DEG) % 360 + 360) % 360, tc: el.tc, tp: el.tp,
+      uncertainty: { period: err('period'), K: err('K'), e: err('e'), tc: err('tc'), omegaDeg: err('omegaDeg'), tp: err('tp') },
+      covPKe: any ? w.covPKe : undefined,
+    }
+  })
+}
+
+const PARAM_WORDS: Record<PlanetParam, { name: string; unit: string }> = {
+  period: { name: 'period', unit: ' d' }, K: { name: 'K', unit: ' m/s' }, e: { name: 'e', unit: '' },
+  omegaDeg: { name: 'ω', unit: '°' }, tc: { name: 'Tc', unit: ' d' }, tp: { name: 'Tp', unit: ' d' },
+}
+
+/** The planets' fixed parameters and stated priors, in words (planets numbered from 1). */
+function describePlanets(planets: PlanetStart[], PL: FitLayout): string[] {
+  const out: string[] = []
+  const DEG_PER_RAD = 1 / DEG
+  planets.forEach((p, k) => {
+    const base = PL.layouts[k].base
+    const value: Record<PlanetParam, number> = { period: base.period, K: base.K, e: base.e, omegaDeg: base.omega * DEG_PER_RAD, tc: base.tc, tp: base.tp }
+    for (const f of new Set(p.fix ?? [])) out.push(`planet ${k + 1} ${PARAM_WORDS[f].name} fixed at ${value[f]}${PARAM_WORDS[f].unit}`)
+  })
+  for (const pr of PL.priors) {
+    const wd = PARAM_WORDS[pr.param]
+    if (pr.gaussian) out.push(`planet ${pr.planet + 1} ${wd.name} ~ N(${pr.gaussian.mu}, ${pr.gaussian.sigma}²)${wd.unit}`)
+    if (pr.uniform) out.push(`planet ${pr.planet + 1} ${wd.name} uniform on [${pr.uniform.min}, ${pr.uniform.max}]${wd.unit}`)
+  }
+  return out
 }
 
 function describePriors(g: GpHyperSpec, periodSigma: number, span: number, jitterFree: boolean): string[] {
@@ -432,7 +518,7 @@ export function trainGpOnIndicator(
 export interface GpPosterior {
   /** ln L + ln prior (profiled over offsets and trend) at a free vector; −Infinity outside the priors. */
   logProb: (x: Float64Array) => number
-  /** Free coordinates: per planet ln P, ln K, √e cos ω, √e sin ω, Tc; then ln amplitude(s), ln decay, ln P_rot, shape, ln jitter(s) (the free ones). */
+  /** Free coordinates: per planet ln P, ln K, √e cos ω, √e sin ω, Tc (the free ones; ω in radians alone when e is fixed, √e alone when ω is); then ln amplitude(s), ln decay, ln P_rot, shape, ln jitter(s) (the free ones). */
   names: string[]
   /** The starting vector from the options, and a scale per coordinate for spreading walkers. */
   start: Float64Array
@@ -447,7 +533,15 @@ export interface GpPosterior {
 export function gpLogPosterior(data: RvData, opts: GpFitOptions): GpPosterior {
   const { g, L, nInst, x0, step, cost } = buildPosterior(data, opts)
   const names: string[] = []
-  for (let k = 0; k < L.np; k++) names.push(`ln P${k + 1}`, `ln K${k + 1}`, `√e cos ω${k + 1}`, `√e sin ω${k + 1}`, `Tc${k + 1}`)
+  L.planet.layouts.forEach((pl, k) => {
+    const s = `${k + 1}`
+    if (pl.iP >= 0) names.push(`ln P${s}`)
+    if (pl.iK >= 0) names.push(`ln K${s}`)
+    if (pl.ecc === 'both') names.push(`√e cos ω${s}`, `√e sin ω${s}`)
+    else if (pl.ecc === 'omega') names.push(`ω${s} (rad)`)
+    else if (pl.ecc === 'sqrte') names.push(`√e${s}`)
+    if (pl.iTc >= 0) names.push(`Tc${s}`)
+  })
   if (L.freeAmp) for (let k = 0; k < L.nAmp; k++) names.push(L.nAmp > 1 ? `ln amplitude ${data.instrumentNames[k]}` : 'ln amplitude')
   if (L.freeDecay) names.push('ln decay time')
   if (L.freePeriod) names.push('ln rotation period')

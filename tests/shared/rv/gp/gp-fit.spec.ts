@@ -59,6 +59,64 @@ describe('planets + GP on a spotted star', () => {
   })
 })
 
+describe('planets + GP with fixed planet parameters and priors on the planet', () => {
+  const star = spottedStar(1, 160, 420, true)
+  const start = { period: 12.3, K: 6, e: 0.05, omegaDeg: 60, tc: 2459003 }
+  const gp = { kernel: 'rotation' as const, period: { value: 23.5 } }
+  const free = fitWithGp(star.data, { planets: [start], gp })
+  const pf = free.planets[0]
+
+  it('holds a fixed period at its value (error 0, the mark of "fixed"), with K within its error of the free fit', () => {
+    const r = fitWithGp(star.data, { planets: [{ ...start, period: STAR.planet.period, fix: ['period'] }], gp })
+    expect(r.success, r.message).toBe(true)
+    const p = r.planets[0]
+    expect(p.period).toBe(STAR.planet.period)
+    expect(p.uncertainty.period).toBe(0)
+    expect(p.uncertainty.K).toBeGreaterThan(0)
+    expect(Math.abs(p.K - pf.K)).toBeLessThan(pf.uncertainty.K)
+    expect(r.stats.nParams).toBe(free.stats.nParams - 1)
+    expect(r.priors.join('; ')).toMatch(/planet 1 period fixed at 12\.3 d/)
+  })
+
+  it('a tight Gaussian prior on P pulls P to the prior centre, and the priors text states it', () => {
+    const mu = pf.period + 3 * pf.uncertainty.period, sigma = pf.uncertainty.period / 10
+    const r = fitWithGp(star.data, { planets: [start], gp, priors: [{ planet: 0, param: 'period', gaussian: { mu, sigma } }] })
+    expect(r.success, r.message).toBe(true)
+    const p = r.planets[0]
+    expect(Math.abs(p.period - mu)).toBeLessThan(sigma)
+    expect(p.uncertainty.period).toBeLessThan(1.5 * sigma)
+    expect(r.priors[0]).toMatch(/^rotation period/)
+    expect(r.priors.join('; ')).toContain(`planet 1 period ~ N(${mu}, ${sigma}²) d`)
+  })
+
+  it('a uniform prior on e keeps e inside its box', () => {
+    const r = fitWithGp(star.data, { planets: [start], gp, priors: [{ planet: 0, param: 'e', uniform: { min: 0, max: 0.08 } }] })
+    expect(r.success, r.message).toBe(true)
+    expect(pf.e).toBeGreaterThan(0.08)
+    expect(r.planets[0].e).toBeLessThanOrEqual(0.08)
+    // e rests on the box's edge: held there for the errors, the other elements keep theirs
+    expect(r.planets[0].uncertainty.K).toBeGreaterThan(0)
+    expect(r.priors.join('; ')).toContain('planet 1 e uniform on [0, 0.08]')
+  })
+
+  it('fixing e = 0 gives a circular orbit (e and ω marked fixed)', () => {
+    const r = fitWithGp(star.data, { planets: [{ ...start, e: 0, fix: ['e'] }], gp })
+    expect(r.success, r.message).toBe(true)
+    const p = r.planets[0]
+    expect(p.e).toBe(0)
+    expect(p.uncertainty.e).toBe(0)
+    expect(p.uncertainty.omegaDeg).toBe(0)
+    expect(Math.abs(p.K - pf.K)).toBeLessThan(pf.uncertainty.K)
+    expect(r.stats.nParams).toBe(free.stats.nParams - 2)
+    const post = gpLogPosterior(star.data, { planets: [{ ...start, e: 0, fix: ['e'] }], gp })
+    expect(post.names.slice(0, 3)).toEqual(['ln P1', 'ln K1', 'Tc1'])
+  })
+
+  it('refuses a prior on an unknown planet, naming it', () => {
+    expect(() => fitWithGp(star.data, { planets: [start], gp, priors: [{ planet: 1, param: 'K', gaussian: { mu: 5, sigma: 1 } }] })).toThrow(/priors\[0\]\.planet/)
+  })
+})
+
 describe('planets + GP: the dense quasi-periodic path and per-instrument amplitudes', () => {
   const star = spottedStar(1, 70, 300, true)
   const start = { period: 12.3, K: 6, e: 0.05, omegaDeg: 60, tc: 2459003 }
