@@ -296,9 +296,10 @@ function buildPosterior(data: RvData, opts: GpFitOptions) {
     return { lnL, theta, resid }
   }
   const cost = (x: Float64Array): number => {
-    const u = unpack(x)
-    if (!u.ok) return Infinity
     try {
+      // (a step to e ≥ 1 makes the planet's elements throw: outside the support as well)
+      const u = unpack(x)
+      if (!u.ok) return Infinity
       const v = evaluate(u).lnL + u.lnPrior
       return Number.isFinite(v) ? -v : Infinity
     } catch {
