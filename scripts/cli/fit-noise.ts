@@ -102,10 +102,10 @@ export function runActivitySearch(
   }
   if (c.json) { c.io.out(JSON.stringify(doc)); return }
   const io = c.io
-  io.out(`${c.input.file}: ${c.input.rows} rows, instruments ${c.input.instruments.join(', ')}, unit ${c.input.unit}, baseline ${fmt(c.input.baselineDays)} d`)
+  io.out(`${c.input.file}: ${c.input.rows} rows, instruments ${c.input.instruments.join(', ')}, unit ${c.input.unit}, time ${c.input.timeFormat}, baseline ${fmt(c.input.baselineDays)} d`)
   io.out(`search with activity: ${doc.summary}; noise model preferred: ${r.preferred === 'gp' ? 'planets + GP' : 'planets + white noise'}`)
   io.out('')
-  if (planets.length) { io.out(planetTable(planets)); io.out('') }
+  if (planets.length) { io.out(planetTable(planets, c.input.timeFormat)); io.out('') }
   for (const l of activityLines(r.activity)) io.out(l)
   if (r.gp) { io.out(''); for (const l of hyperLines(r.gp)) io.out(l) }
   io.out('')
@@ -140,10 +140,10 @@ export function runGpModel(c: Common, spec: PlanetSpecInput[], trend: TrendKind,
   }
   if (c.json) { c.io.out(JSON.stringify(doc)); return }
   const io = c.io
-  io.out(`${c.input.file}: ${c.input.rows} rows, instruments ${c.input.instruments.join(', ')}, unit ${c.input.unit}, baseline ${fmt(c.input.baselineDays)} d`)
+  io.out(`${c.input.file}: ${c.input.rows} rows, instruments ${c.input.instruments.join(', ')}, unit ${c.input.unit}, time ${c.input.timeFormat}, baseline ${fmt(c.input.baselineDays)} d`)
   io.out(`model: ${planets.length} Keplerian${planets.length === 1 ? '' : 's'} + GP noise; ${g.success ? 'converged' : `NOT converged (${g.message})`}`)
   io.out('')
-  if (planets.length) { io.out(planetTable(planets)); io.out('') }
+  if (planets.length) { io.out(planetTable(planets, c.input.timeFormat)); io.out('') }
   for (const l of hyperLines(hyper)) io.out(l)
   io.out(`offsets: ${g.instruments.map((i) => `${i.name} ${fmt(i.offset)} m/s`).join(', ')}`)
   io.out('')

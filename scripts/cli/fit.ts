@@ -9,7 +9,7 @@ import {
 } from '../../shared/rv/index.ts'
 import { UsageError, num, str, list, type Parsed } from './args.ts'
 import { load } from './load.ts'
-import { fmt, table, finiteOrNull, instrumentTable, UNITS, PEAK_CAUTION, type CliIo } from './format.ts'
+import { fmt, table, finiteOrNull, epochUnit, instrumentTable, UNITS, PEAK_CAUTION, type CliIo } from './format.ts'
 import { noiseOptions, noiseRoute, runActivitySearch, runGpModel } from './fit-noise.ts'
 
 const PLANET_KEYS = ['period', 'K', 'e', 'omegaDeg', 'tc', 'tp'] as const
@@ -170,7 +170,7 @@ export function runFit(p: Parsed, io: CliIo): void {
       planetLetter(i), pm(q.period, q.uncertainty.period), pm(q.K, q.uncertainty.K), pm(q.e, q.uncertainty.e),
       pm(q.omegaDeg, q.uncertainty.omegaDeg), pm(q.tp, q.uncertainty.tp), pm(q.tc, q.uncertainty.tc),
       pm(q.msiniMjup, q.uncertainty.msiniMjup), pm(q.aAu, q.uncertainty.aAu),
-    ]), ['planet', 'P [d]', 'K [m/s]', 'e', 'ω [deg]', 'Tp [JD]', 'Tc [JD]', 'M sin i [M_Jup]', 'a [au]']))
+    ]), ['planet', 'P [d]', 'K [m/s]', 'e', 'ω [deg]', `Tp [${epochUnit(input.timeFormat)}]`, `Tc [${epochUnit(input.timeFormat)}]`, 'M sin i [M_Jup]', 'a [au]']))
     io.out('')
   }
   io.out(instrumentTable(fit.instruments))

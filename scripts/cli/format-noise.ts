@@ -1,7 +1,7 @@
 // Plain-text and JSON pieces of the GP noise model on the command line (planets + GP, activity candidates).
 import type { ActivityCandidate, GpHyperparameters, GpPlanetFit } from '../../shared/rv/index.ts'
 import { planetLetter } from '../../shared/rv/index.ts'
-import { fmt, table, withError, finiteOrNull } from './format.ts'
+import { fmt, table, withError, finiteOrNull, epochUnit } from './format.ts'
 
 /** Units of the noise fields of --json (astropy strings; '' dimensionless). */
 export const NOISE_UNITS = Object.freeze({
@@ -39,11 +39,11 @@ export function hyperJson(g: GpHyperparameters): Record<string, unknown> {
   }
 }
 
-export function planetTable(planets: PlanetOut[]): string {
+export function planetTable(planets: PlanetOut[], timeFormat: string): string {
   return table(planets.map((q, i) => [
     planetLetter(i), withError(q.period, q.uncertainty.period), withError(q.K, q.uncertainty.K), withError(q.e, q.uncertainty.e),
     fmt(q.omegaDeg), withError(q.tc, q.uncertainty.tc), withError(q.msiniMjup, q.uncertainty.msiniMjup), withError(q.aAu, q.uncertainty.aAu),
-  ]), ['planet', 'P [d]', 'K [m/s]', 'e', 'ω [deg]', 'Tc [JD]', 'M sin i [M_Jup]', 'a [au]'])
+  ]), ['planet', 'P [d]', 'K [m/s]', 'e', 'ω [deg]', `Tc [${epochUnit(timeFormat)}]`, 'M sin i [M_Jup]', 'a [au]'])
 }
 
 /** The GP lines: kernel, hyperparameters with errors and units, the priors. */

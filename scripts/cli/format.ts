@@ -50,3 +50,13 @@ export function instrumentTable(ins: ReadonlyArray<{ name: string; n: number; of
   return table(ins.map((i) => [i.name, i.n, withError(i.offset, i.offsetErr), withError(i.jitter, i.jitterErr), rmsText(i)]),
     ['instrument', 'n', 'offset [m/s]', 'jitter [m/s]', 'rms [m/s]'])
 }
+
+/**
+ * The unit of epochs (Tp, Tc) in a table read with this time format: times are stored as full Julian
+ * dates, and only a BJD column names its time scale; "days" keeps the table's own zero.
+ */
+export function epochUnit(timeFormat: string): string {
+  if (timeFormat === 'bjd') return 'BJD'
+  if (timeFormat === 'days') return 'd, table zero'
+  return 'JD, scale unstated'
+}

@@ -129,6 +129,8 @@ describe('command line: fit', () => {
     expect(r.code).toBe(0)
     expect(r.out).toMatch(/K \[m\/s\]/)
     expect(r.out).toMatch(/trend: slope/)
+    // a plain "time" column names no time scale: the epochs' unit says so (a BJD column would say BJD)
+    expect(r.out).toMatch(/Tp \[JD, scale unstated\] +Tc \[JD, scale unstated\]/)
     const doc = JSON.parse(run(['fit', synthCsv, '--planets', '1', '--trend', 'linear', '--json']).out)
     expect(Object.keys(doc.trend).sort()).toEqual(['curvature', 'epoch', 'kind', 'slope'])
     expect(doc.trend.curvature).toBe(0)
