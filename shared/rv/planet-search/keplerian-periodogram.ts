@@ -21,12 +21,15 @@
  * a small period error over the baseline misaligns the periastron passages.
  *
  * `keplerianPeriodogramDirect` is the readable reference: exact Kepler solutions and a full normal-
- * equation solve at every cell; the fast one is tested against it.
+ * equation solve at every cell; the fast one is tested against it. The fast one's table positions and
+ * cells run in WebAssembly (keplerian-wasm.ts, f64x2 SIMD) where available, with the arithmetic of the
+ * TypeScript `positions` and `bestAtFrequency` below (same results to the last bit, tested).
  */
 import { checkRvData, type RvData } from '../orbit-data.ts'
 import { solveKepler } from '../kepler.ts'
 import { defaultMinPeriod, defaultMaxPeriod } from '../periodogram-core.ts'
 import { cholesky, choleskySolve } from '../linalg.ts'
+import { keplerianWasm } from './keplerian-wasm.ts'
 
 const TWO_PI = 2 * Math.PI
 
@@ -246,37 +249,77 @@ function tpOf(s: Setup, f: number, ph: number, phases: number): number {
   return s.tmin + ph / (phases * f)
 }
 
-/**
- * Keplerian periodogram of `y` (default: the data's velocities; the search passes them minus the
- * planets already found) with a free offset per instrument at every period; see the module comment.
- */
-export function keplerianPeriodogram(data: RvData, opts: KeplerianPeriodogramOptions & { y?: ArrayLike<number> } = {}): KeplerianPeriodogramResult {
-  const s = setup(data, opts.y ?? data.y, opts.jitter)
-  const cells = opts.cells ?? KEPLERIAN_PERIODOGRAM_DEFAULTS.cells
-  checkCells(cells)
-  const freq = grid(data.t, s.baseline, opts)
-  const out = makeResult(freq, s, cells)
+/** Positions and best cell at a frequency: the WebAssembly kernel or the TypeScript code above. */
+interface CellScan {
+  positions(f: number): void
+  /** Best Δχ² of cell `c` (index into the cells) at the last positions, its phase in `phase()`. */
+  best(c: number): number
+  phase(): number
+}
+
+function typeScriptScan(s: Setup, cells: readonly EccentricityCell[]): CellScan {
   const x = new Float64Array(s.n)
+  let ph = 0
+  return {
+    positions: (f) => positions(s, f, x),
+    best: (c) => { const [d, p] = bestAtFrequency(s, cells[c], x); ph = p; return d },
+    phase: () => ph,
+  }
+}
+
+function scan(s: Setup, freq: Float64Array, cells: readonly EccentricityCell[], out: KeplerianPeriodogramResult, cs: CellScan): void {
   const df = freq.length > 1 ? freq[1] - freq[0] : 0
   for (let k = 0; k < freq.length; k++) {
     const f0 = freq[k], P = 1 / f0
     let best = 0, bE = 0, bTp = s.tmin, bF = f0
-    let xAt = NaN // frequency whose positions `x` holds
-    for (const c of cells) {
+    let xAt = NaN // frequency whose positions the scan holds
+    for (let ci = 0; ci < cells.length; ci++) {
+      const c = cells[ci]
       if (P < c.minPeriod) continue
       const steps = c.substeps
       for (let j = 0; j < steps; j++) {
         const f = steps === 1 ? f0 : f0 + df * ((j + 0.5) / steps - 0.5)
         if (!(f > 0)) continue
-        if (f !== xAt) { positions(s, f, x); xAt = f }
-        const [d, ph] = bestAtFrequency(s, c, x)
-        if (d > best) { best = d; bE = c.e; bTp = tpOf(s, f, ph, c.phases); bF = f }
+        if (f !== xAt) { cs.positions(f); xAt = f }
+        const d = cs.best(ci)
+        if (d > best) { best = d; bE = c.e; bTp = tpOf(s, f, cs.phase(), c.phases); bF = f }
       }
     }
     out.dchi2[k] = best; out.power[k] = s.chi2Null > 0 ? best / s.chi2Null : 0
     out.bestE[k] = bE; out.bestTp[k] = bTp; out.bestFrequency[k] = bF
   }
+}
+
+function fast(data: RvData, opts: KeplerianPeriodogramOptions & { y?: ArrayLike<number> }, useWasm: boolean): KeplerianPeriodogramResult {
+  const s = setup(data, opts.y ?? data.y, opts.jitter)
+  const cells = opts.cells ?? KEPLERIAN_PERIODOGRAM_DEFAULTS.cells
+  checkCells(cells)
+  const freq = grid(data.t, s.baseline, opts)
+  const out = makeResult(freq, s, cells)
+  const wasm = useWasm ? keplerianWasm({ ...s.sorted, wInst: s.wInst }, cells.map((c) => tableOf(c.e))) : null
+  if (wasm) {
+    try {
+      scan(s, freq, cells, out, { positions: wasm.positions, best: (c) => wasm.cell(c, cells[c].phases), phase: wasm.phase })
+    } finally {
+      wasm.close()
+    }
+  } else scan(s, freq, cells, out, typeScriptScan(s, cells))
   return out
+}
+
+/**
+ * Keplerian periodogram of `y` (default: the data's velocities; the search passes them minus the
+ * planets already found) with a free offset per instrument at every period; see the module comment.
+ * The table look-ups and sums run in WebAssembly (keplerian-wasm.ts) where it is available, with the
+ * same arithmetic as {@link keplerianPeriodogramTypeScript}.
+ */
+export function keplerianPeriodogram(data: RvData, opts: KeplerianPeriodogramOptions & { y?: ArrayLike<number> } = {}): KeplerianPeriodogramResult {
+  return fast(data, opts, true)
+}
+
+/** {@link keplerianPeriodogram} without WebAssembly: the fallback, and the kernel's reference in the tests. */
+export function keplerianPeriodogramTypeScript(data: RvData, opts: KeplerianPeriodogramOptions & { y?: ArrayLike<number> } = {}): KeplerianPeriodogramResult {
+  return fast(data, opts, false)
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -1,16 +1,17 @@
 import { describe, it, expect } from 'vitest'
 import { readFileSync } from 'node:fs'
-import { compileDenseWasm, denseWasmModuleText, DENSE_WASM_MODULE } from '../../../../scripts/build-wasm.ts'
-import { DENSE_CHOLESKY_WASM } from '../../../../shared/rv/gp/dense-wasm-binary.ts'
+import { compileWasm, wasmModuleText, fromRoot, WASM_KERNELS } from '../../../../scripts/build-wasm.ts'
 
-describe('the committed WebAssembly Cholesky kernel', () => {
-  it('is what wasm/dense-cholesky.ts compiles to today (run `npm run build:wasm` after editing it)', async () => {
-    const fresh = await compileDenseWasm()
-    expect(readFileSync(DENSE_WASM_MODULE, 'utf8')).toBe(denseWasmModuleText(fresh))
-    expect(Buffer.from(DENSE_CHOLESKY_WASM, 'base64').equals(Buffer.from(fresh))).toBe(true)
-  })
+describe.each(WASM_KERNELS.map((k) => [k.name, k] as const))('the committed WebAssembly kernel %s', (_, kernel) => {
+  it('is what its source compiles to today (run `npm run build:wasm` after editing it)', async () => {
+    const fresh = await compileWasm(kernel)
+    expect(readFileSync(fromRoot(kernel.module), 'utf8')).toBe(wasmModuleText(kernel, fresh))
+    const committed = (await import(fromRoot(kernel.module)) as Record<string, string>)[kernel.constant]
+    expect(Buffer.from(committed, 'base64').equals(Buffer.from(fresh))).toBe(true)
+  }, 60_000)
 
-  it('stays under 4 kB, the size browsers compile synchronously on the main thread', () => {
-    expect(Buffer.from(DENSE_CHOLESKY_WASM, 'base64').length).toBeLessThan(4096)
+  it('stays under 4 kB, the size browsers compile synchronously on the main thread', async () => {
+    const committed = (await import(fromRoot(kernel.module)) as Record<string, string>)[kernel.constant]
+    expect(Buffer.from(committed, 'base64').length).toBeLessThan(4096)
   })
 })
