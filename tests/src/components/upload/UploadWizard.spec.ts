@@ -131,6 +131,9 @@ describe('UploadWizard, questions, units and save choices (issue 10)', () => {
       columns: [{ index: 0, name: 'jd', role: 'time' }, { index: 1, name: 'vrad', role: 'rv' }, { index: 2, name: 'sig', role: 'error' }] }))
     expect(w.find('[data-test="question"]').text()).toContain('MJD (JD − 2400000.5) or JD − 2400000?')
     expect(w.find('[data-test="to-rows"]').attributes('disabled')).toBeDefined()
+    // the reader's first guess is not shown as chosen while the question is open
+    expect(w.find('[data-test="time-label"]').text()).toBe('not yet known')
+    expect(w.find('[data-test="time-format"]').text()).toContain('Not yet known')
     await w.find('[data-test="answer-mjd"] input').setValue(true)
     await settle()
     const m = useUploadStore().mappings['night.txt']!
