@@ -445,7 +445,10 @@ function describePlanets(planets: PlanetStart[], PL: FitLayout): string[] {
   const DEG_PER_RAD = 1 / DEG
   planets.forEach((p, k) => {
     const base = PL.layouts[k].base
-    const value: Record<PlanetParam, number> = { period: base.period, K: base.K, e: base.e, omegaDeg: base.omega * DEG_PER_RAD, tc: base.tc, tp: base.tp }
+    // the values as given (ω not through radians and back); a phase given the other way as computed
+    const value: Record<PlanetParam, number> = {
+      period: p.period, K: p.K, e: p.e ?? 0, omegaDeg: p.omegaDeg ?? base.omega * DEG_PER_RAD, tc: p.tc ?? base.tc, tp: p.tp ?? base.tp,
+    }
     for (const f of new Set(p.fix ?? [])) out.push(`planet ${k + 1} ${PARAM_WORDS[f].name} fixed at ${value[f]}${PARAM_WORDS[f].unit}`)
   })
   for (const pr of PL.priors) {

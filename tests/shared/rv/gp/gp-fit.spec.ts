@@ -112,6 +112,19 @@ describe('planets + GP with fixed planet parameters and priors on the planet', (
     expect(post.names.slice(0, 3)).toEqual(['ln P1', 'ln K1', 'Tc1'])
   })
 
+  it('holds ω and Tp fixed with e free (√e alone), as the white fitter does', () => {
+    const planet = { period: 12.3, K: 6, e: 0.05, omegaDeg: 57, tp: STAR.planet.tp, fix: ['omegaDeg', 'tp'] as Array<'omegaDeg' | 'tp'> }
+    const r = fitWithGp(star.data, { planets: [planet], gp })
+    expect(r.success, r.message).toBe(true)
+    const p = r.planets[0]
+    expect(p.omegaDeg).toBeCloseTo(57, 9)
+    expect(p.tp).toBe(STAR.planet.tp)
+    expect([p.uncertainty.omegaDeg, p.uncertainty.tp]).toEqual([0, 0])
+    expect(p.uncertainty.e).toBeGreaterThan(0)
+    expect(r.priors.join('; ')).toContain('planet 1 ω fixed at 57°; planet 1 Tp fixed at 2459003.1 d')
+    expect(gpLogPosterior(star.data, { planets: [planet], gp }).names.slice(0, 3)).toEqual(['ln P1', 'ln K1', '√e1'])
+  })
+
   it('refuses a prior on an unknown planet, naming it', () => {
     expect(() => fitWithGp(star.data, { planets: [start], gp, priors: [{ planet: 1, param: 'K', gaussian: { mu: 5, sigma: 1 } }] })).toThrow(/priors\[0\]\.planet/)
   })
