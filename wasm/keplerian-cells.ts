@@ -11,9 +11,9 @@
 // s per instrument (the offsets are profiled out through it). Phases go two per pass over the points,
 // sharing the loads of position, weight and residual.
 //
-// Layout (all caller-written): `seg` i32[nInst + 1] row starts per instrument, `wInst` f64[nInst],
-// `w`, `r`, `tau` f64[n] grouped by instrument, `pos` i32[n] and `frac` f64[n] (written by `positions`),
-// `tab` f32[2 (TABLE + 1)].
+// Layout: `seg` i32[nInst + 1] row starts per instrument, `wInst` f64[nInst], `tau` f64[n], `tab`
+// f32[2 (TABLE + 1)], and one 32-byte record per point (points grouped by instrument): fraction f64
+// (written by `positions`), weight f64, residual f64, table index i32 (written by `positions`), 4 spare.
 
 const TABLE: i32 = 4096
 const MASK: i32 = TABLE - 1
@@ -23,23 +23,28 @@ export function heapBase(): usize {
   return (__heap_base + 63) & ~(<usize>63)
 }
 
-/** Table positions of the points at frequency f: x = frac(τ f)·TABLE, integer part to `pos`, fraction to `frac`. */
-export function positions(tau: usize, n: i32, f: f64, pos: usize, frac: usize): void {
+/** Table positions of the points at frequency f: x = frac(τ f)·TABLE, fraction and integer part into the records. */
+export function positions(tau: usize, n: i32, f: f64, rec: usize): void {
   const fv = f64x2.splat(f), scale = f64x2.splat(<f64>TABLE)
   let i: i32 = 0
   for (; i + 1 < n; i += 2) {
     const u = f64x2.mul(v128.load(tau + (<usize>i << 3)), fv)
     const x = f64x2.mul(f64x2.sub(u, f64x2.floor(u)), scale)
     const k = i32x4.trunc_sat_f64x2_s_zero(x)
-    v128.store64_lane(pos + (<usize>i << 2), k, 0)
-    v128.store(frac + (<usize>i << 3), f64x2.sub(x, f64x2.convert_low_i32x4_s(k)))
+    const fr = f64x2.sub(x, f64x2.convert_low_i32x4_s(k))
+    const q = rec + (<usize>i << 5)
+    v128.store64_lane(q, fr, 0)
+    v128.store32_lane(q, k, 0, 24)
+    v128.store64_lane(q, fr, 1, 32)
+    v128.store32_lane(q, k, 1, 56)
   }
   if (i < n) {
     const u = load<f64>(tau + (<usize>i << 3)) * f
     const x = (u - Math.floor(u)) * <f64>TABLE
     const k = <i32>x
-    store<i32>(pos + (<usize>i << 2), k)
-    store<f64>(frac + (<usize>i << 3), x - <f64>k)
+    const q = rec + (<usize>i << 5)
+    store<f64>(q, x - <f64>k)
+    store<i32>(q, k, 24)
   }
 }
 
@@ -78,7 +83,7 @@ let aa: f64 = 0, ab: f64 = 0, bb: f64 = 0, ar: f64 = 0, br: f64 = 0
  * Best Δχ² over the `phases` periastron phases of one eccentricity (table `tab`) at the positions in
  * `pos`/`frac`. Returns Δχ² and writes the best phase index (i32) to `out`.
  */
-export function cell(nInst: i32, seg: usize, wInst: usize, w: usize, r: usize, pos: usize, frac: usize, tab: usize, phases: i32, out: usize): f64 {
+export function cell(nInst: i32, seg: usize, wInst: usize, rec: usize, tab: usize, phases: i32, out: usize): f64 {
   let best: f64 = 0
   let bestPh: i32 = 0
   const step: i32 = TABLE / phases
@@ -87,40 +92,38 @@ export function cell(nInst: i32, seg: usize, wInst: usize, w: usize, r: usize, p
     const two = ph + 1 < phases
     const shift0: i32 = TABLE - ph * step
     const shift1: i32 = TABLE - (ph + 1) * step
-    let q0 = zero, c0 = zero, y0 = zero, q1 = zero, c1 = zero, y1 = zero
+    let q0 = zero, c0 = zero, y0 = zero, q1 = zero, y1 = zero
     for (let k: i32 = 0; k < nInst; k++) {
       let s0 = zero, s1 = zero
-      const end = load<i32>(seg + (<usize>(k + 1) << 2))
-      let i = load<i32>(seg + (<usize>k << 2))
+      const end = rec + (<usize>load<i32>(seg + (<usize>(k + 1) << 2)) << 5)
+      let q = rec + (<usize>load<i32>(seg + (<usize>k << 2)) << 5)
       if (two) {
-        for (; i < end; i++) {
-          const p = load<i32>(pos + (<usize>i << 2))
-          const fr = v128.load64_splat(frac + (<usize>i << 3))
-          const wi = v128.load64_splat(w + (<usize>i << 3))
-          const ri = v128.load64_splat(r + (<usize>i << 3))
+        for (; q < end; q += 32) {
+          const p = load<i32>(q, 24)
+          const fr = v128.load64_splat(q)
+          const wi = v128.load64_splat(q, 8)
+          const ri = v128.load64_splat(q, 16)
           const v0 = shape(tab, p, shift0, fr)
           const u0 = f64x2.mul(wi, v0)
           s0 = f64x2.add(s0, u0)
           q0 = f64x2.add(q0, f64x2.mul(u0, v0))
-          c0 = f64x2.add(c0, f64x2.mul(u0, swap(v0)))
           y0 = f64x2.add(y0, f64x2.mul(u0, ri))
           const v1 = shape(tab, p, shift1, fr)
           const u1 = f64x2.mul(wi, v1)
           s1 = f64x2.add(s1, u1)
           q1 = f64x2.add(q1, f64x2.mul(u1, v1))
-          c1 = f64x2.add(c1, f64x2.mul(u1, swap(v1)))
           y1 = f64x2.add(y1, f64x2.mul(u1, ri))
+          // both phases' A B in one vector: (w A₀ · B₀, w A₁ · B₁)
+          c0 = f64x2.add(c0, f64x2.mul(v128.shuffle<f64>(u0, u1, 0, 2), v128.shuffle<f64>(v0, v1, 1, 3)))
         }
       } else {
-        for (; i < end; i++) {
-          const p = load<i32>(pos + (<usize>i << 2))
-          const fr = v128.load64_splat(frac + (<usize>i << 3))
-          const v0 = shape(tab, p, shift0, fr)
-          const u0 = f64x2.mul(v128.load64_splat(w + (<usize>i << 3)), v0)
+        for (; q < end; q += 32) {
+          const v0 = shape(tab, load<i32>(q, 24), shift0, v128.load64_splat(q))
+          const u0 = f64x2.mul(v128.load64_splat(q, 8), v0)
           s0 = f64x2.add(s0, u0)
           q0 = f64x2.add(q0, f64x2.mul(u0, v0))
           c0 = f64x2.add(c0, f64x2.mul(u0, swap(v0)))
-          y0 = f64x2.add(y0, f64x2.mul(u0, v128.load64_splat(r + (<usize>i << 3))))
+          y0 = f64x2.add(y0, f64x2.mul(u0, v128.load64_splat(q, 16)))
         }
       }
       // offsets profiled out: q −= s²/W, c −= sa·sb/W, in the TypeScript's order
@@ -128,16 +131,16 @@ export function cell(nInst: i32, seg: usize, wInst: usize, w: usize, r: usize, p
       if (W > 0) {
         const wv = f64x2.splat(W)
         q0 = f64x2.sub(q0, f64x2.div(f64x2.mul(s0, s0), wv))
-        c0 = f64x2.sub(c0, f64x2.div(f64x2.mul(s0, swap(s0)), wv))
         q1 = f64x2.sub(q1, f64x2.div(f64x2.mul(s1, s1), wv))
-        c1 = f64x2.sub(c1, f64x2.div(f64x2.mul(s1, swap(s1)), wv))
+        const cs = two ? f64x2.mul(v128.shuffle<f64>(s0, s1, 0, 2), v128.shuffle<f64>(s0, s1, 1, 3)) : f64x2.mul(s0, swap(s0))
+        c0 = f64x2.sub(c0, f64x2.div(cs, wv))
       }
     }
     take(q0, c0, y0)
     let d = gain()
     if (d > best) { best = d; bestPh = ph }
     if (two) {
-      take(q1, c1, y1)
+      take(q1, swap(c0), y1)
       d = gain()
       if (d > best) { best = d; bestPh = ph + 1 }
     }

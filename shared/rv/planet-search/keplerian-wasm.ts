@@ -19,8 +19,8 @@ interface WasmApi {
 interface Kernel {
   memory: WasmMemory
   heapBase: () => number
-  positions: (tau: number, n: number, f: number, pos: number, frac: number) => void
-  cell: (nInst: number, seg: number, wInst: number, w: number, r: number, pos: number, frac: number, tab: number, phases: number, out: number) => number
+  positions: (tau: number, n: number, f: number, rec: number) => void
+  cell: (nInst: number, seg: number, wInst: number, rec: number, tab: number, phases: number, out: number) => number
 }
 
 /** Table steps over one orbit; the kernel's TABLE (wasm/keplerian-cells.ts) must equal it. */
@@ -88,8 +88,8 @@ export function keplerianWasm(p: KeplerianWasmPoints, tables: readonly Float32Ar
     const tab0 = k.heapBase()
     const seg = tab0 + tables.length * tabBytes
     const wInst = seg + up(4 * (nInst + 1))
-    const w = wInst + up(8 * nInst)
-    const r = w + up(8 * n), tau = r + up(8 * n), pos = tau + up(8 * n), frac = pos + up(4 * n), out = frac + up(8 * n)
+    const tau = wInst + up(8 * nInst)
+    const rec = tau + up(8 * n), out = rec + 32 * n // per point: fraction, weight, residual, table index (wasm/keplerian-cells.ts)
     const need = out + 64
     const have = k.memory.buffer.byteLength
     if (need > have) k.memory.grow(Math.ceil((need - have) / 65536))
@@ -98,13 +98,13 @@ export function keplerianWasm(p: KeplerianWasmPoints, tables: readonly Float32Ar
     tables.forEach((t, i) => new Float32Array(buf, tab0 + i * tabBytes, t.length).set(t))
     new Int32Array(buf, seg, nInst + 1).set(p.segStart)
     new Float64Array(buf, wInst, nInst).set(p.wInst)
-    new Float64Array(buf, w, n).set(p.w)
-    new Float64Array(buf, r, n).set(p.r)
     new Float64Array(buf, tau, n).set(p.tau)
+    const records = new Float64Array(buf, rec, 4 * n)
+    for (let i = 0; i < n; i++) { records[4 * i + 1] = p.w[i]; records[4 * i + 2] = p.r[i] }
     const outView = new Int32Array(buf, out, 1)
     return {
-      positions: (f) => k.positions(tau, n, f, pos, frac),
-      cell: (t, phases) => k.cell(nInst, seg, wInst, w, r, pos, frac, tab0 + t * tabBytes, phases, out),
+      positions: (f) => k.positions(tau, n, f, rec),
+      cell: (t, phases) => k.cell(nInst, seg, wInst, rec, tab0 + t * tabBytes, phases, out),
       phase: () => outView[0],
       close: () => { if (k.memory.buffer.byteLength > KEEP_BYTES) kernel = null },
     }
