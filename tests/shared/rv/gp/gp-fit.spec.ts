@@ -84,7 +84,10 @@ describe('planets + GP with fixed planet parameters and priors on the planet', (
     expect(r.success, r.message).toBe(true)
     const p = r.planets[0]
     expect(Math.abs(p.period - mu)).toBeLessThan(sigma)
-    expect(p.uncertainty.period).toBeLessThan(1.5 * sigma)
+    // near a Gaussian likelihood in P the MAP is the precision-weighted mean of the free fit and the prior
+    const w = [1 / pf.uncertainty.period ** 2, 1 / sigma ** 2]
+    expect(Math.abs(p.period - (w[0] * pf.period + w[1] * mu) / (w[0] + w[1]))).toBeLessThan(0.2 * sigma)
+    expect(p.uncertainty.period).toBeCloseTo(1 / Math.sqrt(w[0] + w[1]), 4)
     expect(r.priors[0]).toMatch(/^rotation period/)
     expect(r.priors.join('; ')).toContain(`planet 1 period ~ N(${mu}, ${sigma}²) d`)
   })
