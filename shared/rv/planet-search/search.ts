@@ -352,7 +352,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
       const p = next[1].planets[k]
       flags.push({
         kind: 'false-alarm', severity: 'rejection', period: p.period, instrument: null,
-        message: `The ${p.period.toPrecision(4)}-d signal was not kept: its likelihood gain (ΔlnL = ${dLnL.toFixed(1)}) has a false-alarm probability of ${fa.toPrecision(2)} over the ${Math.round(nFreq)} independent periods searched (above ${falseAlarm}).`,
+        message: `The ${p.period.toPrecision(4)}-d signal was not kept: its likelihood gain (ΔlnL = ${dLnL.toFixed(1)}) has a false-alarm probability of ${fa.toPrecision(2)} over the ${Math.round(nFreq)} independent periods searched (law calibrated on simulated noise; above ${falseAlarm}).`,
       })
       break
     }

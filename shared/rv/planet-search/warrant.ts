@@ -32,7 +32,7 @@ import type { FitResult, PlanetFit } from '../orbit-fit.ts'
 export type SignalFlagKind =
   | 'not-converged' | 'unconstrained' | 'one-instrument-short-span' | 'eccentricity-at-limit' | 'few-points' | 'false-alarm'
   | 'one-instrument' | 'high-eccentricity' | 'longer-than-instrument-span' | 'period-beyond-baseline' | 'jitter-above-peers'
-  | 'alias-runner-up' | 'trend-or-long-orbit' | 'fap-threshold-unused' | 'candidate-short-instrument'
+  | 'alias-runner-up' | 'trend-or-long-orbit' | 'fap-threshold-unused' | 'candidate-short-instrument' | 'candidate-eccentric-short-period'
 
 export interface SignalFlag {
   kind: SignalFlagKind
@@ -228,14 +228,34 @@ export const CARRIER_SHARE = 0.5
 
 /**
  * Doubts that make a newly added signal a flagged candidate instead of a planet (empty: none).
- * Today one: ≥ {@link CARRIER_SHARE} of its likelihood gain comes from one instrument whose span is
- * shorter than the period, while the whole data set spans more than the period, and the other
- * instruments do not detect it on their own: their gain at the fitted orbit is below the BIC bar
- * for one more planet in their data alone, (bicThreshold + 5 ln N_others) / 2 (Schwarz 1978; five
- * orbital elements). A period beyond the baseline is not a doubt here (every instrument then sees
- * part of an orbit; that is the 'period-beyond-baseline' warning).
+ * - ≥ {@link CARRIER_SHARE} of its likelihood gain comes from one instrument whose span is
+ *   shorter than the period, while the whole data set spans more than the period, and the other
+ *   instruments do not detect it on their own: their gain at the fitted orbit is below the BIC bar
+ *   for one more planet in their data alone, (bicThreshold + 5 ln N_others) / 2 (Schwarz 1978; five
+ *   orbital elements). A period beyond the baseline is not a doubt here (every instrument then sees
+ *   part of an orbit; that is the 'period-beyond-baseline' warning).
+ * - A short period with a high eccentricity ({@link SHORT_ECCENTRIC}): orbits this close are
+ *   expected to be circularised by tides (common practice; the Keplerian periodogram's cells use the
+ *   same thresholds), and on simulated noise such fits were the false alarms that passed every other
+ *   rule (scripts/calibrate-false-alarm.ts): a narrow periastron spike fitted to a few points.
  */
 export function candidateDoubts(data: RvData, fit: FitResult, index: number, bicThreshold = 10): SignalFlag[] {
+  return [...shortInstrumentDoubt(data, fit, index, bicThreshold), ...eccentricShortPeriodDoubt(fit, index)]
+}
+
+/** Below this period (d) an orbit at or above this eccentricity is a doubt ({@link candidateDoubts}). */
+export const SHORT_ECCENTRIC = Object.freeze({ period: 10, e: 0.5 })
+
+function eccentricShortPeriodDoubt(fit: FitResult, index: number): SignalFlag[] {
+  const p = fit.planets[index]
+  if (!(p.period < SHORT_ECCENTRIC.period && p.e >= SHORT_ECCENTRIC.e)) return []
+  return [{
+    kind: 'candidate-eccentric-short-period', severity: 'warning', period: p.period, instrument: null,
+    message: `The ${fmtP(p.period)}-d signal (K = ${p.K.toFixed(1)} m/s, e = ${p.e.toFixed(2)}) is a candidate, not counted as a planet: an orbit under ${SHORT_ECCENTRIC.period} d is expected to be nearly circular (tides), and a fit this eccentric at such a period usually rests on a few points near periastron. Check those points; a circular fit at this period (hold e = 0) or more data would decide.`,
+  }]
+}
+
+function shortInstrumentDoubt(data: RvData, fit: FitResult, index: number, bicThreshold: number): SignalFlag[] {
   if (data.instrumentNames.length < 2) return []
   const p = fit.planets[index]
   let tmin = Infinity, tmax = -Infinity

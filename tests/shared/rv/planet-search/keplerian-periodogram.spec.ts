@@ -55,11 +55,12 @@ describe('alias partners and the false-alarm level of a Keplerian gain', () => {
     for (const a of ps) expect(a.period).toBeGreaterThanOrEqual(0.5)
   })
 
-  it('FAP = 1 − (1 − (1 + z)e^{−z})^M (Cumming 2004 with a χ²₄ tail): values, limits, monotone', () => {
+  it('FAP = 1 − (1 − P(χ²_ν > 2z))^(c·M) (Cumming 2004 form, law calibrated on noise: false-alarm.spec.ts): values, limits, monotone', () => {
     const m = independentFrequencies(1000, 0.5, 5000)
     expect(m).toBeCloseTo(1000 * (2 - 1 / 5000), 9)
-    const z = 20, p1 = (1 + z) * Math.exp(-z)
-    expect(keplerianFap(z, m)).toBeCloseTo(1 - (1 - p1) ** m, 12)
+    const z = 20, p4 = (1 + z) * Math.exp(-z), p6 = (1 + z + z * z / 2) * Math.exp(-z)
+    expect(keplerianFap(z, m, { dof: 4, trialsFactor: 1 })).toBeCloseTo(1 - (1 - p4) ** m, 12)
+    expect(keplerianFap(z, m, { dof: 6, trialsFactor: 2 })).toBeCloseTo(1 - (1 - p6) ** (2 * m), 12)
     expect(keplerianFap(0, m)).toBe(1)
     expect(keplerianFap(30, m)).toBeLessThan(keplerianFap(20, m))
   })
