@@ -57,7 +57,7 @@ export interface KeplerianWasmPoints {
   tau: Float64Array; w: Float64Array; r: Float64Array; segStart: Int32Array; wInst: Float64Array
 }
 
-/** One periodogram's data in the kernel's memory. */
+/** One periodogram's data in the kernel's memory (one session at a time: a new one overwrites it). */
 export interface KeplerianWasmSession {
   /** Table positions of the points at frequency f (kept for the following `cell` calls). */
   positions(f: number): void
