@@ -35,7 +35,7 @@ ${inputHelp()}`,
   fit: {
     options: {
       ...INPUT, planets: { type: 'string' }, trend: { type: 'string' }, 'min-period': { type: 'string' }, 'max-period': { type: 'string' },
-      'max-planets': { type: 'string' }, 'fap-threshold': { type: 'string' },
+      'max-planets': { type: 'string' }, 'false-alarm': { type: 'string' },
       planet: { type: 'string', multiple: true }, prior: { type: 'string', multiple: true }, 'max-iterations': { type: 'string' },
       'star-mass': { type: 'string' }, 'star-mass-err': { type: 'string' },
       noise: { type: 'string' }, 'rotation-period': { type: 'string' }, 'gp-kernel': { type: 'string' }, 'decay-time': { type: 'string' },
@@ -51,7 +51,7 @@ search (no --planet):
   --min-period D       shortest period searched, days (default of the search grid)
   --max-period D       longest period searched, days
   --max-planets N      most planets tried in auto mode
-  --fap-threshold P    stop when the next residual peak's false-alarm probability exceeds P
+  --false-alarm P      keep a new signal only at false-alarm probability ≤ P (default 0.001; law calibrated on noise)
 model (one --planet per planet, in order b, c, …):
   --planet SPEC        period=D[,K=M/S][,e=E][,omegaDeg=DEG][,tc=JD|tp=JD][,fix=P+Q…]
                        only period is required; fix names period, K, e, omegaDeg, tc or tp

@@ -1,7 +1,7 @@
 // `cli.ts fit` with a GP noise model: the search that weighs activity (searchWithActivity) and a model
 // given with --planet fitted as planets + GP (fitWithGp), the same core functions as the server's.
 import {
-  searchWithActivity, fitWithGp, fitSpec, derivedPlanet, gpHyperparameters,
+  searchWithActivity, fitWithGp, fitSpec, flattenPriors, derivedPlanet, gpHyperparameters,
   type RvData, type IndicatorColumn, type GpHyperSpec, type PlanetSpecInput, type TrendKind, type GpPlanetFit,
 } from '../../shared/rv/index.ts'
 import { UsageError, str, type Parsed } from './args.ts'
@@ -122,8 +122,16 @@ export function runGpModel(c: Common, spec: PlanetSpecInput[], trend: TrendKind,
   }
   let white, g
   try {
-    white = fitSpec(c.data, spec, { trend, maxIterations }).fit
-    g = fitWithGp(c.data, { planets: white.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })), gp, trend })
+    const w = fitSpec(c.data, spec, { trend, maxIterations })
+    white = w.fit
+    // the GP starts from the white-noise orbits, with the model's fixed parameters and priors (as the server's fit)
+    g = fitWithGp(c.data, {
+      planets: white.planets.map((p, k) => {
+        const fix = w.starts[k]?.fix ?? []
+        return { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, ...(fix.includes('tp') ? { tp: p.tp } : { tc: p.tc }), fix }
+      }),
+      priors: flattenPriors(spec), gp, trend,
+    })
   } catch (e) {
     if (e instanceof RangeError) throw new UsageError(`${e.message}; check the model and noise options (see cli.ts fit --help)`)
     throw e

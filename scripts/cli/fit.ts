@@ -56,7 +56,7 @@ interface Options {
   planets: number | 'auto'
   trend: TrendKind | 'auto'
   spec: PlanetSpecInput[] | null
-  minPeriod?: number; maxPeriod?: number; maxPlanets?: number; fapThreshold?: number; maxIterations?: number
+  minPeriod?: number; maxPeriod?: number; maxPlanets?: number; falseAlarm?: number; maxIterations?: number
   starMass?: number; starMassErr?: number
 }
 
@@ -75,13 +75,13 @@ function options(p: Parsed): Options {
   const maxPeriod = num(p, 'max-period', (v) => v > 0, 'a positive number of days')
   if (minPeriod !== undefined && maxPeriod !== undefined && !(maxPeriod > minPeriod)) throw new UsageError('--max-period must exceed --min-period')
   const maxPlanets = num(p, 'max-planets', (v) => Number.isInteger(v) && v >= 1 && v <= 8, 'an integer from 1 to 8')
-  const fapThreshold = num(p, 'fap-threshold', (v) => v > 0 && v < 1, 'a probability in (0, 1)')
+  const falseAlarm = num(p, 'false-alarm', (v) => v > 0 && v < 1, 'a probability in (0, 1)')
   const maxIterations = num(p, 'max-iterations', (v) => Number.isInteger(v) && v >= 1 && v <= 2000, 'an integer from 1 to 2000')
   const planetArgs = list(p, 'planet'), priorArgs = list(p, 'prior')
   let spec: PlanetSpecInput[] | null = null
   if (planetArgs.length) {
     if (str(p, 'planets') !== undefined) throw new UsageError('give --planets (search) or --planet (model), not both')
-    for (const [flag, v] of [['min-period', minPeriod], ['max-period', maxPeriod], ['max-planets', maxPlanets], ['fap-threshold', fapThreshold]] as const) {
+    for (const [flag, v] of [['min-period', minPeriod], ['max-period', maxPeriod], ['max-planets', maxPlanets], ['false-alarm', falseAlarm]] as const) {
       if (v !== undefined) throw new UsageError(`--${flag} is a search option; with --planet the periods are given`)
     }
     if (trendIn === 'auto') throw new UsageError('with --planet give --trend none, linear or quadratic (auto belongs to the search)')
@@ -92,7 +92,7 @@ function options(p: Parsed): Options {
     if (maxIterations !== undefined) throw new UsageError('--max-iterations applies to a model given with --planet')
   }
   const trend = (trendIn ?? (spec ? 'none' : 'auto')) as TrendKind | 'auto'
-  return { planets, trend, spec, minPeriod, maxPeriod, maxPlanets, fapThreshold, maxIterations, starMass, starMassErr }
+  return { planets, trend, spec, minPeriod, maxPeriod, maxPlanets, falseAlarm, maxIterations, starMass, starMassErr }
 }
 
 export function runFit(p: Parsed, io: CliIo): void {
@@ -115,7 +115,7 @@ export function runFit(p: Parsed, io: CliIo): void {
       fit = fitSpec(data, o.spec, { trend: o.trend as TrendKind, maxIterations: o.maxIterations }).fit
     } else {
       const res = searchPlanets(data, {
-        planets: o.planets, trend: o.trend, minPeriod: o.minPeriod, maxPeriod: o.maxPeriod, maxPlanets: o.maxPlanets, fapThreshold: o.fapThreshold,
+        planets: o.planets, trend: o.trend, minPeriod: o.minPeriod, maxPeriod: o.maxPeriod, maxPlanets: o.maxPlanets, falseAlarm: o.falseAlarm,
       })
       fit = res.fit
       steps = res.steps

@@ -408,7 +408,7 @@ export async function search(s: Services, actor: User, star: Star, req: SearchRe
   // The core's defaults (SEARCH_DEFAULTS) unless the request sets an option: the same as the CLI.
   // With activity indicators every signal is vetted against them (activity candidates left out of the model).
   const indicators = indicatorColumns(used)
-  const options = { trend: req.trend, maxPlanets: req.maxPlanets, fapThreshold: req.fapThreshold, minPeriod: req.minPeriod, maxPeriod: req.maxPeriod }
+  const options = { trend: req.trend, maxPlanets: req.maxPlanets, falseAlarm: req.falseAlarm, fapThreshold: req.fapThreshold, minPeriod: req.minPeriod, maxPeriod: req.maxPeriod }
   const out: ActivitySearchOutput = await (indicators.length ? pool(s).run('activitySearch', { data, options, indicators }) : pool(s).run('search', { data, options })).catch((err: unknown) => {
     if (err instanceof ComputeError && err.remoteName === 'RangeError') {
       const field = /minPeriod|maxPeriod/.exec(err.message)?.[0] ?? 'minPeriod'

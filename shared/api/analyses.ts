@@ -310,7 +310,7 @@ export const searchReportSchema = z.object({
   candidates: z.array(z.object({
     period: z.number(), K: z.number(), e: z.number(), omegaDeg: z.number(), deltaLnL: z.number(), deltaBic: z.number(), kinds: z.array(z.string()),
   })).optional(),
-  settings: z.object({ minPeriod: z.number(), maxPeriod: z.number(), bicThreshold: z.number(), maxPlanets: z.number().int() }),
+  settings: z.object({ minPeriod: z.number(), maxPeriod: z.number(), bicThreshold: z.number(), maxPlanets: z.number().int(), falseAlarm: z.number().optional() }),
   /** With activity indicators: every signal judged against them (activity candidates are not in the model). */
   activity: activityReportSchema.optional(),
 })
@@ -414,7 +414,9 @@ export const searchRequestSchema = z.object({
   trend: z.enum(['auto', 'none', 'linear', 'quadratic']).optional(),
   /** Most planets tried in auto mode (default: the core's SEARCH_DEFAULTS.maxPlanets). */
   maxPlanets: z.number().int().min(1).max(8).optional(),
-  /** Accepted for old callers; detection is judged by the Keplerian fit's BIC (the result says so). */
+  /** A new signal is kept only at this false-alarm probability or below (default 0.001; the search's calibrated law). */
+  falseAlarm: z.number().gt(0, 'must be in (0, 1)').lt(1, 'must be in (0, 1)').optional(),
+  /** Accepted for old callers and not used (the result says so): the gate is `falseAlarm`. */
   fapThreshold: z.number().gt(0, 'must be in (0, 1)').lt(1, 'must be in (0, 1)').optional(),
   /** Days; default of the core's grid (0.5 d, 0.2 d for dense sampling). */
   minPeriod: positive().optional(),

@@ -14,7 +14,7 @@ export interface SearchSummary {
   alternatives: Array<{ description: string; planets: number; trend: TrendKind; bic: number; lnL: number }>
   /** Flagged candidates: kept by the BIC and false-alarm rules, not counted as planets (their doubts in `flags`). */
   candidates: Array<{ period: number; K: number; e: number; omegaDeg: number; deltaLnL: number; deltaBic: number; kinds: string[] }>
-  settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; maxPlanets: number }
+  settings: { minPeriod: number; maxPeriod: number; bicThreshold: number; maxPlanets: number; falseAlarm: number }
 }
 
 export function searchSummary(r: Pick<SearchResult, 'flags' | 'signals' | 'alternatives' | 'settings'> & Partial<Pick<SearchResult, 'candidates'>>): SearchSummary {
@@ -28,6 +28,6 @@ export function searchSummary(r: Pick<SearchResult, 'flags' | 'signals' | 'alter
     alternatives: r.alternatives.filter((x) => Number.isFinite(x.bic) && Number.isFinite(x.lnL))
       .map((x) => ({ description: x.description, planets: x.planets, trend: x.trend, bic: x.bic, lnL: x.lnL })),
     candidates: (r.candidates ?? []).map((c) => ({ period: c.period, K: c.K, e: c.e, omegaDeg: c.omegaDeg, deltaLnL: c.deltaLnL, deltaBic: c.deltaBic, kinds: c.flags.map((f) => f.kind) })),
-    settings: { minPeriod: r.settings.minPeriod, maxPeriod: r.settings.maxPeriod, bicThreshold: r.settings.bicThreshold, maxPlanets: r.settings.maxPlanets },
+    settings: { minPeriod: r.settings.minPeriod, maxPeriod: r.settings.maxPeriod, bicThreshold: r.settings.bicThreshold, maxPlanets: r.settings.maxPlanets, falseAlarm: r.settings.falseAlarm },
   }
 }

@@ -56,6 +56,7 @@ describe('validation names the field', () => {
     ['post', 'models', { name: 'x', spec: { planets: [], instruments: ['Nowhere'] } }, 'spec.instruments'],
     ['post', 'search', { maxPlanets: 9 }, 'maxPlanets'],
     ['post', 'search', { fapThreshold: 2 }, 'fapThreshold'],
+    ['post', 'search', { falseAlarm: 0 }, 'falseAlarm'],
     ['post', 'search', { trend: 'wavy' }, 'trend'],
   ]
   for (const [method, what, body, field] of bad) {

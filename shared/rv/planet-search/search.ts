@@ -314,7 +314,7 @@ export function searchPlanets(data: RvData, opts: SearchOptions = {}): SearchRes
   const nFreq = independentFrequencies(baseline, minPeriod, maxPeriod)
   const flags: SignalFlag[] = []
   if (opts.fapThreshold !== undefined) {
-    flags.push({ kind: 'fap-threshold-unused', severity: 'info', period: null, instrument: null, message: 'fapThreshold was given but is no longer used: a signal is kept by the BIC of its Keplerian fit and its warrant checks, not by the sinusoid FAP.' })
+    flags.push({ kind: 'fap-threshold-unused', severity: 'info', period: null, instrument: null, message: 'fapThreshold was given but is not used: a signal is kept by the BIC of its Keplerian fit, its false-alarm probability (option falseAlarm) and its warrant checks, not by the sinusoid FAP.' })
   }
   const keep = opts.keepPeriodograms ? [] as KeplerianPeriodogramResult[] : null
   const fitAll = (planets: PlanetStart[], jitterStart: number[] | undefined): Map<TrendKind, FitResult> => {

@@ -64,6 +64,17 @@ describe('command line: fit with a GP noise model', () => {
     expect(doc.bic.planetsGp).toBeLessThan(doc.bic.planetsWhiteNoise)
   }, 600_000)
 
+  it('a GP model keeps the planet fixes and priors it is given (they reach the GP fit, not only the white one)', () => {
+    const r = run(['fit', noBis, '--planet', 'period=12.3,e=0,fix=period+e', '--prior', 'b.K=normal:5:0.5', '--noise', 'gp', '--rotation-period', '23.5,2', '--json'])
+    expect(r.code, r.err.join('\n')).toBe(0)
+    const doc = JSON.parse(r.out)
+    expect(doc.planets[0].period).toBe(12.3)
+    expect(doc.planets[0].e).toBe(0)
+    expect(doc.planets[0].uncertainty.period).toBe(0)
+    expect(doc.gp.priors.join('; ')).toMatch(/planet 1 period fixed at 12.3 d/)
+    expect(doc.gp.priors.join('; ')).toMatch(/planet 1 K ~ N\(5, 0.5/)
+  }, 600_000)
+
   it('refuses bad noise options with a message naming the fix', () => {
     expect(run(['fit', noBis, '--rotation-period', 'abc']).err.join(' ')).toMatch(/--rotation-period must be D or D,SIGMA/)
     expect(run(['fit', noBis, '--noise', 'gp']).err.join(' ')).toMatch(/needs a rotation period: give --rotation-period/)

@@ -129,6 +129,8 @@ describe('command line: fit', () => {
     expect(r.code).toBe(0)
     expect(r.out).toMatch(/K \[m\/s\]/)
     expect(r.out).toMatch(/trend: slope/)
+    // the search's false-alarm gate is an option, reported with the search's settings
+    expect(JSON.parse(run(['fit', synthCsv, '--false-alarm', '0.01', '--json']).out).report.settings.falseAlarm).toBe(0.01)
     // a plain "time" column names no time scale: the epochs' unit says so (a BJD column would say BJD)
     expect(r.out).toMatch(/Tp \[JD, scale unstated\] +Tc \[JD, scale unstated\]/)
     const doc = JSON.parse(run(['fit', synthCsv, '--planets', '1', '--trend', 'linear', '--json']).out)
