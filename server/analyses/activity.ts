@@ -81,11 +81,14 @@ export async function gpVariant(s: Services, actor: User, star: Star, model: Fit
     }
     period = guess.period; source = guess.source
   }
-  const dropped = cur.spec.planets.some((p) => p.fix?.length || p.priors?.length)
   const fitted = cur.status === 'fitted' && cur.result?.planets.length === cur.spec.planets.length ? cur.result.planets : null
+  // from the fitted orbits where there are (e capped at 0.9 unless held), keeping the model's fixes and priors
   const planets: PlanetSpec[] = cur.spec.planets.map((p, k) => {
     const f = fitted?.[k]
-    return f ? { period: f.period, K: Math.max(f.K, 0), e: Math.min(f.e, 0.9), omegaDeg: f.omegaDeg, tc: f.tc } : { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp }
+    const keep = { ...(p.fix?.length ? { fix: p.fix } : {}), ...(p.priors?.length ? { priors: p.priors } : {}) }
+    if (!f) return { period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc, tp: p.tp, ...keep }
+    const phase = p.fix?.includes('tp') ? { tp: f.tp } : { tc: f.tc }
+    return { period: f.period, K: Math.max(f.K, 0), e: p.fix?.includes('e') ? f.e : Math.min(f.e, 0.9), omegaDeg: f.omegaDeg, ...phase, ...keep }
   })
   const noise: GpNoiseSpec = {
     kind: 'gp', kernel: req.kernel ?? 'rotation',
@@ -93,7 +96,7 @@ export async function gpVariant(s: Services, actor: User, star: Star, model: Fit
   }
   const spec = modelSpecSchema.parse({ ...cur.spec, planets, noise })
   const name = (req.name ?? `${cur.name} + GP`).slice(0, 120)
-  const note = `planets + GP from model ${model.id} version ${cur.version}: rotation period ${fmtP(period)} d from ${source}${dropped ? '; fixed parameters and priors on planets dropped (the GP fit does not take them yet)' : ''}`
+  const note = `planets + GP from model ${model.id} version ${cur.version}: rotation period ${fmtP(period)} d from ${source}`
   const created = await createModel(s, actor, star, { name, spec }, {
     note, action: 'model.gp-variant', detail: { fromModelId: model.id, fromVersion: cur.version, rotationPeriod: period, source },
   })

@@ -59,14 +59,17 @@ export function startsFromSpec(data: RvData, planets: PlanetSpecInput[], trend: 
     if ((s.tc !== undefined || s.tp !== undefined) && Number.isFinite(s.K)) return
     const others: Keplerian[] = []
     starts.forEach((o, j) => { const el = j === k ? null : elementsOfStart(o); if (el) others.push(keplerianOf(el)) })
-    const [best] = planetStarts(data, s.period, { others, trend, epoch, count: 1 })
+    // a held e is scanned at its own value only; held values are never replaced by the scan's
+    const eHeld = s.fix?.includes('e') && s.e !== undefined
+    const [best] = planetStarts(data, s.period, { others, trend, epoch, count: 1, ...(eHeld ? { eccentricities: s.e! > 0 ? [s.e!] : [] } : {}) })
     if (!best) { if (!Number.isFinite(s.K)) starts[k] = { ...s, K: 1 }; return }
     const hasPhase = s.tc !== undefined || s.tp !== undefined
     const keepShape = hasPhase || (s.e !== undefined && s.omegaDeg !== undefined)
     starts[k] = {
       ...s,
       tc: hasPhase ? s.tc : best.tc, tp: hasPhase ? s.tp : best.tc === undefined ? best.tp : undefined,
-      e: keepShape ? s.e : best.e, omegaDeg: keepShape ? s.omegaDeg : best.omegaDeg,
+      e: keepShape || eHeld ? s.e : best.e,
+      omegaDeg: keepShape || (s.fix?.includes('omegaDeg') && s.omegaDeg !== undefined) ? s.omegaDeg : best.omegaDeg,
       K: Number.isFinite(s.K) ? s.K : best.K,
     }
   })

@@ -163,6 +163,20 @@ describe('the search weighs activity', () => {
     expect(reviewerless.status).toBe(400)
     expect(reviewerless.body.error.field).toBe('period')
   }, 600_000)
+
+  it('planets + GP keeps the model\'s planet fixes and priors, and the GP fit holds them', async () => {
+    const white = await fit('fixed for GP', { planets: [{ period: 7.3, K: 2, e: 0, fix: ['period', 'e'], priors: [{ param: 'K', gaussian: { mu: 2, sigma: 0.5 } }] }] })
+    expect(white.current.result!.planets[0]!.e, 'white fit holds e').toBe(0)
+    const res = await a.post(`/api/models/${white.id}/gp-variant`, { period: 23 })
+    expect(res.status, JSON.stringify(res.body).slice(0, 400)).toBe(201)
+    const gp: ModelDetail = res.body
+    const planet = gp.current.spec.planets[0]!
+    expect(planet.fix).toEqual(['period', 'e'])
+    expect(planet.priors).toEqual([{ param: 'K', gaussian: { mu: 2, sigma: 0.5 } }])
+    expect(gp.current.result!.planets[0]!.period).toBe(7.3)
+    expect(gp.current.result!.planets[0]!.e, JSON.stringify(gp.current.result!.planets[0])).toBe(0)
+    expect(gp.versions[0]!.note).not.toMatch(/dropped/)
+  }, 600_000)
 })
 
 describe('the report states the noise model', () => {

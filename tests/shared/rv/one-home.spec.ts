@@ -37,6 +37,20 @@ describe('model spec → fitter input', () => {
     expect(Math.abs(fit.planets[0]!.K - 25)).toBeLessThan(3 * fit.planets[0]!.uncertainty.K)
   })
 
+  it('a held e (or ω) given without the rest of the orbit is kept: the start scan runs at that e and never replaces it', () => {
+    // an eccentric planet fitted with e held at 0: the scan alone would start at its best e (≈ 0.5)
+    const { data } = synth({ seed: 12, n: 80, baseline: 500, planets: [{ period: 9.3, K: 25, e: 0.5, omega: 1, tp: 2455003 }] })
+    const [free] = startsFromSpec(data, [{ period: 9.3 }], 'none')
+    expect(free!.e).toBeGreaterThan(0.2)
+    const [held] = startsFromSpec(data, [{ period: 9.3, e: 0, fix: ['e'] }], 'none')
+    expect(held!.e).toBe(0)
+    expect(fitSpec(data, [{ period: 9.3, e: 0, fix: ['e'] }], { trend: 'none' }).fit.planets[0]!.e).toBe(0)
+    const [atE] = startsFromSpec(data, [{ period: 9.3, e: 0.3, fix: ['e'] }], 'none')
+    expect(atE!.e).toBe(0.3)
+    const [om] = startsFromSpec(data, [{ period: 9.3, omegaDeg: 40, fix: ['omegaDeg'] }], 'none')
+    expect(om!.omegaDeg).toBe(40)
+  })
+
   it('planet elements: a start with only Tc gets Tp with ω = 0° by default', () => {
     const el = elementsOfStart({ period: 10, K: 5, tc: 100 })!
     expect(el.omegaDeg).toBe(0)
