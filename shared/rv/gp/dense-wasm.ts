@@ -58,10 +58,56 @@ export function wasmCholeskyAvailable(): boolean {
   return compiled() !== null
 }
 
+/** The instance, created on first use; null if WebAssembly or its memory is refused. */
+function instance(): Kernel | null {
+  const wasm = compiled()
+  if (!wasm) return null
+  if (!kernel) {
+    const ex = new wasm.api.Instance(wasm.module, {}).exports as Kernel
+    kernel = { memory: ex.memory, heapBase: ex.heapBase, panel: ex.panel }
+  }
+  return kernel
+}
+
+/** Grows the kernel's memory to hold an np × np matrix and the panel scratch; returns the matrix's byte offset. */
+function reserve(k: Kernel, np: number, nb: number): number {
+  const base = k.heapBase()
+  const need = base + np * np * 8 + ((np + nb + 1) * nb) * 8
+  const have = k.memory.buffer.byteLength
+  if (need > have) k.memory.grow(Math.ceil((need - have) / 65536))
+  return base
+}
+
+/** The view handed out by `wasmMatrix` (the last one), to recognise it in `choleskyWasm`. */
+let view: Float64Array | null = null
+
+/**
+ * A row-major n × n array living in the kernel's own memory, for a caller that fills the matrix
+ * there: `choleskyWasm` (and `choleskyInPlace`) given this array factor it where it lies, with no
+ * copy in or out. Its upper triangle is scratch then (the corners of the 4 × 4 diagonal blocks are
+ * overwritten). Valid until the next `wasmMatrix` or the next `choleskyWasm` on another array (either
+ * may grow the memory, which detaches it); null where the kernel is unavailable or n is not a
+ * positive multiple of 4 (the kernel's order), the caller then keeps its own array.
+ */
+export function wasmMatrix(n: number, nb = WASM_PANEL): Float64Array | null {
+  if (!(n >= 4 && n % 4 === 0)) return null
+  try {
+    const k = instance()
+    if (!k) return null
+    const base = reserve(k, n, nb)
+    view = new Float64Array(k.memory.buffer, base, n * n)
+    return view
+  } catch {
+    kernel = null
+    return null
+  }
+}
+
 /**
  * In-place Cholesky of the row-major n × n `a` (lower triangle read; L written there, the upper
  * triangle untouched) by the WebAssembly kernel. Returns false if not numerically positive definite
- * (`a` then left as it was), null if the kernel is unavailable (nothing written).
+ * (`a` then left as it was), null if the kernel is unavailable (nothing written). Given the array of
+ * `wasmMatrix(n)`, it factors it in place (a partial factor is left there when it returns false).
  */
 export function choleskyWasm(a: Float64Array, n: number, nb = WASM_PANEL): boolean | null {
   if (!(nb >= 4 && nb % 4 === 0)) throw new RangeError(`panel width must be a positive multiple of 4 (got ${nb})`)
@@ -70,22 +116,24 @@ export function choleskyWasm(a: Float64Array, n: number, nb = WASM_PANEL): boole
   const np = (n + 3) & ~3 // order padded to a multiple of 4 with an identity block
   const ld = np
   try {
-    if (!kernel) {
-      const ex = new wasm.api.Instance(wasm.module, {}).exports as Kernel
-      kernel = { memory: ex.memory, heapBase: ex.heapBase, panel: ex.panel }
-    }
-    const base = kernel.heapBase()
+    const k = instance()
+    if (!k) return null
+    const own = a === view && a.buffer === k.memory.buffer && a.length === n * n && np === n
+    const base = own ? a.byteOffset : reserve(k, np, nb)
     const matBytes = np * ld * 8
-    const need = base + matBytes + ((np + nb + 1) * nb) * 8
-    const have = kernel.memory.buffer.byteLength
-    if (need > have) kernel.memory.grow(Math.ceil((need - have) / 65536))
-    const m = new Float64Array(kernel.memory.buffer, base, np * ld)
-    for (let i = 0; i < n; i++) m.set(a.subarray(i * n, i * n + i + 1), i * ld)
-    for (let i = n; i < np; i++) { m.fill(0, i * ld, i * ld + i); m[i * ld + i] = 1 }
+    if (own && base + matBytes + ((np + nb + 1) * nb) * 8 > k.memory.buffer.byteLength) return null // the view was reserved for a narrower panel: the caller falls back
+    if (!own) {
+      const m = new Float64Array(k.memory.buffer, base, np * ld)
+      for (let i = 0; i < n; i++) m.set(a.subarray(i * n, i * n + i + 1), i * ld)
+      for (let i = n; i < np; i++) { m.fill(0, i * ld, i * ld + i); m[i * ld + i] = 1 }
+    }
     let status = 0 // one call per panel (see wasm/dense-cholesky.ts `panel`)
-    for (let k0 = 0; k0 < np && status === 0; k0 += nb) status = kernel.panel(base, np, ld, k0, nb, base + matBytes)
-    if (status === 0) for (let i = 0; i < n; i++) a.set(m.subarray(i * ld, i * ld + i + 1), i * n)
-    if (kernel.memory.buffer.byteLength > KEEP_BYTES) kernel = null
+    for (let k0 = 0; k0 < np && status === 0; k0 += nb) status = k.panel(base, np, ld, k0, nb, base + matBytes)
+    if (status === 0 && !own) {
+      const m = new Float64Array(k.memory.buffer, base, np * ld)
+      for (let i = 0; i < n; i++) a.set(m.subarray(i * ld, i * ld + i + 1), i * n)
+    }
+    if (k.memory.buffer.byteLength > KEEP_BYTES) { kernel = null; view = null }
     return status === 0
   } catch {
     kernel = null // memory refused: the caller falls back

@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest'
 import { expectClose } from '../../../helpers/expect-close.ts'
 import { createRandom } from '../../../../shared/math/random.ts'
 import { choleskyInPlace, choleskyRowByRow, choleskyTiled, WASM_MIN_N } from '../../../../shared/rv/gp/dense.ts'
-import { choleskyWasm, wasmCholeskyAvailable } from '../../../../shared/rv/gp/dense-wasm.ts'
+import { choleskyWasm, wasmCholeskyAvailable, wasmMatrix } from '../../../../shared/rv/gp/dense-wasm.ts'
 import { denseCovariance, quasiPeriodic } from '../../../../shared/rv/index.ts'
 
 /** A quasi-periodic covariance on n random times (row-major, both triangles). */
@@ -41,6 +41,39 @@ describe('dense Cholesky: the fast forms against the plain row-by-row reference'
       expectSameFactor(d, ref, n, 'choleskyInPlace')
     })
   }
+
+  it('factors a matrix filled in the kernel\'s own memory where it lies (wasmMatrix), the same factor', () => {
+    expect(wasmMatrix(6)).toBeNull() // not a multiple of 4: the caller keeps its own array
+    for (const n of [8, 64, 100, 204]) {
+      const c = covariance(n)
+      const ref = Float64Array.from(c)
+      expect(choleskyRowByRow(ref, n)).toBe(true)
+      const m = wasmMatrix(n)
+      if (!m) return expect.fail('no view')
+      expect(m.length).toBe(n * n)
+      m.set(c)
+      expect(choleskyInPlace(m, n)).toBe(true)
+      expectSameFactor(m, ref, n, `in kernel memory, n = ${n}`)
+      m.set(c)
+      expect(choleskyWasm(m, n, 8)).toBe(true)
+      expectSameFactor(m, ref, n, `in kernel memory, n = ${n}, nb = 8`)
+    }
+    // the copied path (through the same memory, so the view's content is gone after it) gives the same factor
+    const n = 100
+    const m = wasmMatrix(n)
+    if (!m) return expect.fail('no view')
+    m.set(covariance(n))
+    expect(choleskyWasm(m, n)).toBe(true)
+    const kept = Float64Array.from(m)
+    const other = covariance(n)
+    expect(choleskyWasm(other, n)).toBe(true)
+    expectSameFactor(other, kept, n, 'the copied path after the view')
+    const bad = wasmMatrix(n)
+    if (!bad) return expect.fail('no view')
+    bad.set(covariance(n))
+    bad[50 * n + 50] = -1
+    expect(choleskyInPlace(bad, n)).toBe(false)
+  })
 
   it('reports a matrix that is not positive definite', () => {
     const a = Float64Array.from([1, 2, 2, 1])
