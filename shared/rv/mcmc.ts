@@ -530,7 +530,10 @@ export function physicalColumns(
 function gpCentre(data: RvData, fit: FitResult, spec: ReturnType<typeof specFromFit>, noise: GpHyperSpec, fixed: PlanetParam[][], jitterFloor: number): GpFitResult {
   const jitter = Array.isArray(spec.jitter) ? spec.jitter : 'fit'
   const g = fitWithGp(data, {
-    planets: fit.planets.map((p) => ({ period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, tc: p.tc })),
+    // the sampled parameters' centre: the held ones stay at their values (the sampler holds them too)
+    planets: fit.planets.map((p, k) => ({
+      period: p.period, K: p.K, e: p.e, omegaDeg: p.omegaDeg, ...(fixed[k]!.includes('tp') ? { tp: p.tp } : { tc: p.tc }), fix: fixed[k],
+    })),
     gp: noise, trend: spec.trend, epoch: spec.epoch, jitter, ...(jitter === 'fit' ? { jitterStart: spec.jitters } : {}),
   })
   if (g.status === 'failed') return g
