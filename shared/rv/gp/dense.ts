@@ -48,7 +48,9 @@ export const WASM_MIN_N = 64
  * From WASM_MIN_N rows on, the WebAssembly SIMD kernel (dense-wasm.ts: blocked, the trailing update
  * as a register-tiled matrix product; measured about 2× faster than `choleskyTiled` at N = 100, 3× at
  * 200, 5× at 1000); below that, or where WebAssembly is unavailable, `choleskyTiled`. Both agree
- * with `choleskyRowByRow` to rounding (tests/shared/rv/gp/dense.spec.ts).
+ * with `choleskyRowByRow` to rounding (tests/shared/rv/gp/dense.spec.ts). An `a` from
+ * dense-wasm.ts `wasmMatrix(n)` is factored where it lies in the kernel's memory (no copy in or out;
+ * its upper triangle is scratch then).
  */
 export function choleskyInPlace(a: Float64Array, n: number): boolean {
   if (n >= WASM_MIN_N) {
