@@ -1,8 +1,9 @@
 import { Sequelize } from 'sequelize'
+import { availableParallelism } from 'node:os'
 import { instrument, resetPoolPeaks, timingOptions } from './timing.ts'
 
 export interface PoolOptions {
-  /** Most connections open at once (default 20). */
+  /** Most connections open at once (default {@link defaultPoolSize}). */
   pool?: number
   /** Keep every connection open once made (min = max), for the API; warmPool() makes them at start. */
   keepOpen?: boolean
@@ -10,14 +11,20 @@ export interface PoolOptions {
 
 /**
  * One Sequelize instance per database URL; SQL logging stays off (pino logs requests).
- * Pool (issue 11, 50 users on 2 cores): a query holds a connection for its round trip, which under
- * load lasts far longer than the query itself (tens of ms against well under one), and a write
- * holds one for its whole transaction; with 10 connections reads queued behind each other and
- * behind the writes (p99 wait ~350 ms of a ~700 ms p99). 20 keeps that queue short while staying
- * far below PostgreSQL's 100. Idle ones close after 30 s (not 10) unless `keepOpen`.
+ *
+ * Pool size (issue 11, 50 users on 2 cores, PostgreSQL on the same machine): {@link defaultPoolSize},
+ * about four connections per core. Measured with scripts/load.ts after the reads came down to two
+ * round trips: 20 connections let bursts of ~40 queries time-slice in 20 backends on 2 cores (reads'
+ * p99 306–347 ms, most of it waiting in PostgreSQL); 10 gave 257–372 ms; 8 gave 164–262 ms with the
+ * connection wait near 0, since the queries then finish one after another instead of all slowly.
+ * Idle ones close after 30 s unless `keepOpen`.
  */
+export function defaultPoolSize(cores = availableParallelism()): number {
+  return Math.min(20, Math.max(4, 4 * cores))
+}
+
 export function createSequelize(url: string, opts: PoolOptions = {}): Sequelize {
-  const max = opts.pool ?? 20
+  const max = opts.pool ?? defaultPoolSize()
   const sequelize = new Sequelize(url, {
     dialect: 'postgres',
     ...timingOptions(), // off (logging: false) unless STARSWAY_DB_TIMING names a file
