@@ -4,9 +4,11 @@
 // over the last minute of the load (from /api/health; use --duration 60 or more).
 //
 //   node --import tsx scripts/load.ts [--url http://127.0.0.1:3000] [--users 50] [--duration 120]
-//        [--pid API_PID] [--settle 60] [--password starsway-demo] [--db-timing FILE] [--reads-only]
+//        [--pid API_PID] [--settle 60] [--password starsway-demo] [--db-timing FILE] [--reads-only] [--burst]
 //
 // --reads-only: the same users and reads, without the periodograms and fits (their effect on reads).
+// --burst: every user sends its first request at the same moment (by default each starts after a
+// think time of its own).
 // --db-timing: the file an API started with STARSWAY_DB_TIMING=FILE writes (server/db/timing.ts);
 // then the database side is printed per route: queries per request, time waiting for a pool
 // connection and time in queries (means, and the p99 of the pool wait), over the load only.
@@ -31,6 +33,7 @@ const { values: args } = parseArgs({
     seed: { type: 'string', default: '11' },
     'db-timing': { type: 'string' },
     'reads-only': { type: 'boolean', default: false },
+    burst: { type: 'boolean', default: false },
   },
 })
 const BASE = args.url!.replace(/\/$/, '')
@@ -183,7 +186,8 @@ async function user(s: Session, w: World, until: number): Promise<void> {
   // each user starts after a think time of its own, as people do: all 50 sending their first
   // request in the same millisecond made a burst no real team makes, and that burst alone
   // filled the 99th percentile of every read (the slowest-requests line below shows when)
-  await new Promise((res) => setTimeout(res, 300 + rand() * 1200))
+  // (--burst keeps that burst, to see what the slowest of 50 simultaneous requests waits)
+  if (!args.burst) await new Promise((res) => setTimeout(res, 300 + rand() * 1200))
   while (Date.now() < until) {
     let r = rand() * total
     const a = actions.find((x) => (r -= x.weight) < 0) ?? actions[0]!
