@@ -410,16 +410,12 @@ export function extirpolate(
     const ix = Math.floor(x)
     const i0 = ix - half
     const u = x - i0
-    // Lagrange weights at u on nodes 0…order−1
-    let prod = 1, exact = -1
-    for (let k = 0; k < order; k++) {
-      const d = u - k
-      if (d === 0) exact = k
-      prod *= d
-    }
-    if (exact >= 0) { wts.fill(0); wts[exact] = 1 } else {
-      for (let k = 0; k < order; k++) wts[k] = prod * inv[k] / (u - k)
-    }
+    // Lagrange weights at u on nodes 0…order−1: w_k = inv_k·∏_{i≠k}(u − i), as the products of
+    // the factors left of k and right of k (no division, and exact at a node: u = k gives 1 there)
+    let left = 1
+    for (let k = 0; k < order; k++) { wts[k] = left; left *= u - k }
+    let right = 1
+    for (let k = order - 1; k >= 0; k--) { wts[k] *= right * inv[k]; right *= u - k }
     // phase of the band centre
     const ph = twoPi * ((shift * tj) % 1)
     const cp = Math.cos(ph), sp = Math.sin(ph)
@@ -491,8 +487,17 @@ function sparseInputDft(g: Float64Array, len: number, size: number, out: Float64
   }
 }
 
-/** Fast power on `grid` into `out`. */
+/**
+ * Fast power on `grid` into `out`: the band by extirpolation + FFT ({@link fastBandInto}), then
+ * its ends redone more accurately ({@link refineEnds}).
+ */
 export function fastPowerInto(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array, settings: FastSettings = FAST_DEFAULTS): void {
+  fastBandInto(p, grid, floatingMean, out, settings)
+  refineEnds(p, grid, floatingMean, out, settings)
+}
+
+/** Extirpolated + FFT power on every point of `grid` into `out` (least accurate at the band's ends). */
+function fastBandInto(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array, settings: FastSettings): void {
   const { order, fftOversample } = settings
   if (!(Number.isInteger(order) && order >= 2 && order % 2 === 0 && order <= 32)) throw new RangeError(`fast.order must be an even integer in 2…32 (got ${order})`)
   if (!(fftOversample >= 1)) throw new RangeError(`fast.fftOversample must be >= 1 (got ${fftOversample})`)
@@ -539,26 +544,49 @@ export function fastPowerInto(p: Prepared, grid: FrequencyGrid, floatingMean: bo
     const c = floatingMean ? zw[iw] : 0, s = floatingMean ? zw[iw + 1] : 0
     out[k] = powerFromSums(c, s, zy[iw], zy[iw + 1], z2[i2], z2[i2 + 1], yy, floatingMean)
   }
-  exactAtEdges(p, grid, floatingMean, out)
 }
 
-/** Grid points at each end of the band recomputed exactly by {@link exactAtEdges}. */
+/** Grid points at each end of the band redone by {@link refineEnds}. */
 const EDGE_POINTS = 48
+/**
+ * FFT oversampling of the pass that redoes the ends. The extirpolation's error grows with the
+ * phase step per cell, at most π/(2·fftOversample) inside the band; at 16 instead of 2 it is
+ * below rounding (measured: tests/shared/rv/periodogram-fast.spec.ts).
+ */
+const REFINE_OVERSAMPLE = 16
 
 /**
- * Recomputes exactly (with {@link glsPrepared}) the points where the extirpolated sums are not
- * accurate enough: the EDGE_POINTS at each end of the band, where the interpolation error of the
- * band-centred FFT is largest, and frequencies below 2/baseline, where the columns cos ωτ, sin ωτ
- * and the mean are nearly collinear (D = CC·SS − CS² ≈ 0) and amplify small errors of the sums.
- * Measured on the default 0.5 d – 5× baseline grid: 1.3e-3 of the peak at f = 1/(5·baseline)
- * and 2e-4 at the top edge without this step, below 1e-5 elsewhere (tests/shared/rv/periodogram-fast.spec.ts).
+ * Redoes the points where the band's extirpolated sums are not accurate enough: the EDGE_POINTS
+ * at each end of the band, where the interpolation error of the band-centred FFT is largest, and
+ * frequencies below 2/baseline, where the columns cos ωτ, sin ωτ and the mean are nearly
+ * collinear (D = CC·SS − CS² ≈ 0) and amplify small errors of the sums. Without this step,
+ * measured on the default 0.5 d – 5× baseline grid: 1.3e-3 of the peak at f = 1/(5·baseline)
+ * and 2e-4 at the top edge, below 1e-5 elsewhere. Each end is a sub-band of its own, centred on
+ * itself: the exact sums ({@link directPowerInto}) when they are cheaper, otherwise a fast pass
+ * oversampled REFINE_OVERSAMPLE times, whose phase steps are small enough that its error is
+ * rounding. (At N = 10⁵ and a 10⁶-point grid over a 1000-d baseline, the low end holds ~1100
+ * frequencies: exactly, 1.1·10⁸ point-frequency terms, 4× the rest of the periodogram.)
  */
-function exactAtEdges(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array): void {
+function refineEnds(p: Prepared, grid: FrequencyGrid, floatingMean: boolean, out: Float64Array, settings: FastSettings): void {
   const m = grid.count
   const lowEnd = p.baseline > 0 ? Math.ceil((2 / p.baseline - grid.f0) / grid.df) : 0
   const first = Math.min(m, Math.max(EDGE_POINTS, lowEnd))
-  for (let k = 0; k < first; k++) out[k] = glsPrepared(p, grid.f0 + k * grid.df, floatingMean)
-  for (let k = Math.max(first, m - EDGE_POINTS); k < m; k++) out[k] = glsPrepared(p, grid.f0 + k * grid.df, floatingMean)
+  refineBand(p, grid, 0, first, floatingMean, out, settings)
+  refineBand(p, grid, Math.max(first, m - EDGE_POINTS), m, floatingMean, out, settings)
+}
+
+/** Recomputes out[k0…k1) as a band of its own (see {@link refineEnds}). */
+function refineBand(p: Prepared, grid: FrequencyGrid, k0: number, k1: number, floatingMean: boolean, out: Float64Array, settings: FastSettings): void {
+  const count = k1 - k0
+  if (count <= 0) return
+  const sub: FrequencyGrid = { f0: grid.f0 + k0 * grid.df, df: grid.df, count }
+  const part = out.subarray(k0, k1)
+  const fine: FastSettings = { order: settings.order, fftOversample: REFINE_OVERSAMPLE }
+  const size = bitCeil(Math.max(fine.fftOversample * count, 2 * fine.order))
+  const directNs = 3.5 * p.n * count
+  const fastNs = 3 * 2 * size * Math.log2(size) + 300 * p.n // extirpolation measured ≈ 300 ns per point
+  if (directNs <= fastNs) directPowerInto(p, sub, floatingMean, part)
+  else fastBandInto(p, sub, floatingMean, part, fine)
 }
 
 // ---------------------------------------------------------------------------------------------
