@@ -15,6 +15,15 @@ if (typeof window !== 'undefined' && !('visualViewport' in window)) {
   })
 }
 
+// A component test never reaches the network: an API call the test did not mock fails here at
+// once, as a refused connection would, instead of going to happy-dom's page address
+// (127.0.0.1:3000), where whatever else runs on the machine might answer it.
+if (typeof window !== 'undefined') {
+  const refuse = (input: unknown) => Promise.reject(new TypeError(`no network in component tests (unmocked request to ${String(input instanceof Request ? input.url : input)})`))
+  globalThis.fetch = refuse as typeof fetch
+  window.fetch = refuse as typeof fetch
+}
+
 export function mountWithApp<C extends Component>(component: C, options: ComponentMountingOptions<C> = {}) {
   const pinia = createPinia()
   setActivePinia(pinia)
