@@ -90,9 +90,8 @@ class Session {
 }
 
 // --- measurements -------------------------------------------------------------------------------
-const samples = new Map<string, number[]>()
 /** Every timed request: its kind, when it started (ms since the load began) and how long it took. */
-const starts: Array<{ kind: string; at: number; ms: number }> = []
+const timings: Array<{ kind: string; at: number; ms: number }> = []
 let loadStart = performance.now()
 const errors = new Map<string, number>()
 const errorExamples: string[] = []
@@ -101,9 +100,7 @@ async function timed(kind: string, fn: () => Promise<{ status: number; body: unk
   try {
     const r = await fn()
     const ms = performance.now() - t0
-    if (!samples.has(kind)) samples.set(kind, [])
-    samples.get(kind)!.push(ms)
-    starts.push({ kind, at: t0 - loadStart, ms })
+    timings.push({ kind, at: t0 - loadStart, ms })
     if (!ok(r.status)) {
       errors.set(kind, (errors.get(kind) ?? 0) + 1)
       if (errorExamples.length < 10) errorExamples.push(`${kind}: ${r.status} ${JSON.stringify(r.body).slice(0, 200)}`)
@@ -198,6 +195,8 @@ async function user(s: Session, w: World, until: number): Promise<void> {
 
 const READS = new Set(['list stars', 'star', 'measurements', 'models', 'periodograms', 'me'])
 function report(before: number | null, after: number | null, settled: number | null): void {
+  const samples = new Map<string, number[]>()
+  for (const x of timings) { if (!samples.has(x.kind)) samples.set(x.kind, []); samples.get(x.kind)!.push(x.ms) }
   const rows = [...samples].map(([kind, xs]) => {
     const s = [...xs].sort((a, b) => a - b)
     return { kind, n: s.length, p50: quantile(s, 0.5), p95: quantile(s, 0.95), p99: quantile(s, 0.99), errors: errors.get(kind) ?? 0 }
@@ -210,7 +209,7 @@ function report(before: number | null, after: number | null, settled: number | n
     console.log(`${r.kind.padEnd(16)} ${String(r.n).padStart(5)} ${f(r.p50)} ${f(r.p95)} ${f(r.p99)} ${String(r.errors).padStart(7)}  ${String(target).padStart(6)} ${r.p99 <= target ? 'ok' : 'MISSED'}`)
   }
   // when the slowest 1 % of all requests started: one stall or spread over the run?
-  const slowest = [...starts].sort((a, b) => b.ms - a.ms).slice(0, Math.max(1, Math.ceil(starts.length / 100)))
+  const slowest = [...timings].sort((a, b) => b.ms - a.ms).slice(0, Math.max(1, Math.ceil(timings.length / 100)))
   const bySecond = new Map<number, number>()
   for (const x of slowest) bySecond.set(Math.floor(x.at / 1000), (bySecond.get(Math.floor(x.at / 1000)) ?? 0) + 1)
   console.log(`slowest 1 % (${slowest.length} requests, ≥ ${slowest.at(-1)?.ms.toFixed(0) ?? '-'} ms) started at second: `

@@ -581,12 +581,9 @@ function refineBand(p: Prepared, grid: FrequencyGrid, k0: number, k1: number, fl
   if (count <= 0) return
   const sub: FrequencyGrid = { f0: grid.f0 + k0 * grid.df, df: grid.df, count }
   const part = out.subarray(k0, k1)
-  const fine: FastSettings = { order: settings.order, fftOversample: REFINE_OVERSAMPLE }
-  const size = bitCeil(Math.max(fine.fftOversample * count, 2 * fine.order))
-  const directNs = 3.5 * p.n * count
-  const fastNs = 3 * 2 * size * Math.log2(size) + 300 * p.n // extirpolation measured ≈ 300 ns per point
-  if (directNs <= fastNs) directPowerInto(p, sub, floatingMean, part)
-  else fastBandInto(p, sub, floatingMean, part, fine)
+  const cost = estimateCostNs(p.n, count, REFINE_OVERSAMPLE)
+  if (cost.direct <= cost.fast) directPowerInto(p, sub, floatingMean, part)
+  else fastBandInto(p, sub, floatingMean, part, { order: settings.order, fftOversample: REFINE_OVERSAMPLE })
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -595,9 +592,10 @@ function refineBand(p: Prepared, grid: FrequencyGrid, k0: number, k1: number, fl
 /**
  * Rough cost in ns of each method on this machine (Node 20, measured: direct ≈ 3.5 ns per
  * point·frequency; one complex FFT of size S ≈ 1.5–2·S·log2 S ns; extirpolation ≈ 150 ns per point).
+ * `fftOversample` is the fast method's (the pass that redoes a band's ends uses a larger one).
  */
-export function estimateCostNs(n: number, m: number): { direct: number; fast: number } {
-  const size = bitCeil(Math.max(FAST_DEFAULTS.fftOversample * m, 2 * FAST_DEFAULTS.order))
+export function estimateCostNs(n: number, m: number, fftOversample = FAST_DEFAULTS.fftOversample): { direct: number; fast: number } {
+  const size = bitCeil(Math.max(fftOversample * m, 2 * FAST_DEFAULTS.order))
   return {
     direct: 3.5 * n * m + 15 * m,
     fast: 3 * 2 * size * Math.log2(size) + 150 * n + 20 * m,

@@ -30,7 +30,8 @@ export function mountWithApp<C extends Component>(component: C, options: Compone
   return mount(component, {
     attachTo: document.body,
     ...options,
-    global: { plugins: [pinia, makeVuetify()], ...(options.global ?? {}) },
+    // the test's own plugins (a router) come after the app's Pinia and Vuetify
+    global: { ...(options.global ?? {}), plugins: [pinia, makeVuetify(), ...(options.global?.plugins ?? [])] },
   } as ComponentMountingOptions<C>)
 }
 

@@ -7,8 +7,6 @@ import { afterEach, describe, expect, it } from 'vitest'
 import type { VueWrapper } from '@vue/test-utils'
 import { createMemoryHistory, createRouter } from 'vue-router'
 import SignInView from '@/views/SignInView.vue'
-import { createPinia } from 'pinia'
-import { makeVuetify } from '@/plugins/vuetify.ts'
 import { mountWithApp, settle } from '../../mount.ts'
 
 let wrapper: VueWrapper | undefined
@@ -18,7 +16,7 @@ describe('focus on a page form', () => {
   it('is in the e-mail field as soon as the sign-in page is mounted, and stays where the user puts it', async () => {
     const router = createRouter({ history: createMemoryHistory(), routes: [{ path: '/:p(.*)*', component: { template: '<div />' } }] })
     await router.push('/sign-in')
-    wrapper = mountWithApp(SignInView, { global: { plugins: [createPinia(), makeVuetify(), router] } })
+    wrapper = mountWithApp(SignInView, { global: { plugins: [router] } })
     // no await before this check: the focus is set during the mount itself
     expect(document.activeElement?.getAttribute('name')).toBe('email')
     const password = wrapper.find<HTMLInputElement>('input[name="password"]').element
